@@ -1,0 +1,44 @@
+//! The one error a user can cause: a bad input, named by field, value and what is accepted.
+
+use std::fmt;
+
+/// A value the user gave that pvhazard cannot use.
+///
+/// Every message names the field (an option on the command line, a key in a file), the value
+/// as given, and what would have been accepted, because "invalid input" alone does not help a
+/// crew standing at a vessel.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct InputError {
+    /// The field, spelled as the user spells it (`--pressure`, or a key in a site file).
+    pub field: String,
+    /// The value as given, or a short description of it for derived checks.
+    pub value: String,
+    /// What is wrong and what is accepted instead.
+    pub problem: String,
+}
+
+impl InputError {
+    /// An error for `field` (given without the leading dashes) with `value` and `problem`.
+    pub fn new(field: &str, value: impl Into<String>, problem: impl Into<String>) -> InputError {
+        InputError {
+            field: field.to_string(),
+            value: value.into(),
+            problem: problem.into(),
+        }
+    }
+
+    /// The same error with the field renamed, as when the command line maps a rule's field to
+    /// its option name.
+    pub fn with_field(mut self, field: impl Into<String>) -> InputError {
+        self.field = field.into();
+        self
+    }
+}
+
+impl fmt::Display for InputError {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        write!(f, "{} = '{}': {}", self.field, self.value, self.problem)
+    }
+}
+
+impl std::error::Error for InputError {}

@@ -1,0 +1,608 @@
+//! The worksheet model: what a calculation reports, built from a rule's result and its
+//! inputs. The JSON form is the contract other tools read; the [`Worksheet`] form is what the
+//! text (and, later, PDF) renderers lay out. Nothing here computes physics.
+
+mod json;
+mod text;
+
+pub use json::to_json;
+pub use text::render_text;
+
+use serde::Serialize;
+use uom::si::f64::{
+    AvailableEnergy, Energy, Length, Mass, MassRate, Pressure, ThermodynamicTemperature, Time,
+    Volume,
+};
+
+use crate::caution::{ordered, Assessed, Caution};
+use crate::gas::{GasModel, ModelKind};
+use crate::rules::blast::DistanceBasis;
+use crate::rules::energy::{Energies, EnergyInput, EnergyResult};
+use crate::rules::fill::{FillInput, FillResult};
+use crate::rules::vent::{Process, VentInput, VentResult};
+
+/// The tool's version, written into every record.
+pub const TOOL_VERSION: &str = env!("CARGO_PKG_VERSION");
+
+/// The stored-energy report (`pvhazard energy`). Field names are the JSON contract.
+#[derive(Debug, Clone, Serialize)]
+pub struct EnergyReport {
+    /// Always `energy`.
+    pub command: &'static str,
+    /// pvhazard's version.
+    pub tool_version: &'static str,
+    /// The gas model used.
+    pub model: ModelKind,
+    /// The gas.
+    pub gas: &'static str,
+    /// The inputs, SI, pressures absolute.
+    pub inputs: EnergyInputs,
+    /// Gas mass, kg.
+    pub gas_mass_kg: Mass,
+    /// Expansion energies, J.
+    pub energy_j: Energies,
+    /// Gas temperature at the end of the isentropic expansion, K.
+    pub isentropic_end_temperature_k: ThermodynamicTemperature,
+    /// TNT mass equivalent of the isentropic energy, kg.
+    pub tnt_equivalent_kg: Mass,
+    /// Pneumatic-test exclusion distance, m.
+    pub exclusion_distance_m: Length,
+    /// Which clause set the exclusion distance.
+    pub exclusion_basis: DistanceBasis,
+    /// Overpressure standoffs.
+    pub standoff_m: Vec<StandoffEntry>,
+    /// Energy of the same vessel on a hydrostatic test at the same gauge pressure, J.
+    pub hydrotest_energy_j: Energy,
+    /// Pressure to vent to before the energy is at or below `--energy-limit`, Pa(a).
+    pub vent_down_target_pa: Option<Pressure>,
+    /// Cautions, highest first, the deferral last.
+    pub cautions: Vec<Caution>,
+}
+
+/// The energy command's inputs as used.
+#[derive(Debug, Clone, Serialize)]
+pub struct EnergyInputs {
+    /// Gas volume, m³.
+    pub volume_m3: Volume,
+    /// Absolute pressure, Pa.
+    pub pressure_pa: Pressure,
+    /// Gas temperature, K.
+    pub temperature_k: ThermodynamicTemperature,
+    /// Absolute ambient pressure, Pa.
+    pub ambient_pressure_pa: Pressure,
+    /// TNT energy, J/kg.
+    pub tnt_energy_j_per_kg: AvailableEnergy,
+    /// Energy limit for the vent-down target, J.
+    pub energy_limit_j: Option<Energy>,
+    /// MAWP, absolute, Pa.
+    pub mawp_pa: Option<Pressure>,
+    /// Distance the site can keep clear, m.
+    pub clearance_m: Option<Length>,
+}
+
+/// One overpressure standoff.
+#[derive(Debug, Clone, Copy, Serialize)]
+pub struct StandoffEntry {
+    /// Incident overpressure, Pa.
+    pub overpressure_pa: Pressure,
+    /// Distance, m; null outside the Kingery–Bulmash fits.
+    pub distance_m: Option<Length>,
+}
+
+impl EnergyReport {
+    /// The report of a stored-energy calculation.
+    pub fn new(model: &dyn GasModel, input: &EnergyInput, out: Assessed<EnergyResult>) -> Self {
+        let r = out.value;
+        EnergyReport {
+            command: "energy",
+            tool_version: TOOL_VERSION,
+            model: model.kind(),
+            gas: model.gas().name,
+            inputs: EnergyInputs {
+                volume_m3: input.volume,
+                pressure_pa: input.pressure,
+                temperature_k: input.temperature,
+                ambient_pressure_pa: input.ambient,
+                tnt_energy_j_per_kg: input.tnt_energy,
+                energy_limit_j: input.energy_limit,
+                mawp_pa: input.mawp,
+                clearance_m: input.clearance,
+            },
+            gas_mass_kg: r.gas_mass,
+            energy_j: r.energy,
+            isentropic_end_temperature_k: r.isentropic_end_temperature,
+            tnt_equivalent_kg: r.tnt_equivalent,
+            exclusion_distance_m: r.exclusion_distance,
+            exclusion_basis: r.exclusion_basis,
+            standoff_m: r
+                .standoffs
+                .iter()
+                .map(|s| StandoffEntry {
+                    overpressure_pa: s.overpressure,
+                    distance_m: s.distance,
+                })
+                .collect(),
+            hydrotest_energy_j: r.hydrotest_energy,
+            vent_down_target_pa: r.vent_down_target,
+            cautions: ordered(out.cautions),
+        }
+    }
+}
+
+/// The fill report (`pvhazard fill`). Field names are the JSON contract.
+#[derive(Debug, Clone, Serialize)]
+pub struct FillReport {
+    /// Always `fill`.
+    pub command: &'static str,
+    /// pvhazard's version.
+    pub tool_version: &'static str,
+    /// The gas model used.
+    pub model: ModelKind,
+    /// The gas.
+    pub gas: &'static str,
+    /// The inputs, SI, pressures absolute.
+    pub inputs: FillInputs,
+    /// Gas temperature at the end of the adiabatic fill, K.
+    pub final_temperature_k: ThermodynamicTemperature,
+    /// Gas mass before the fill, kg.
+    pub initial_mass_kg: Mass,
+    /// Mass added, kg.
+    pub mass_added_kg: Mass,
+    /// Pressure after cooling to ambient, Pa(a).
+    pub settled_pressure_pa: Pressure,
+    /// Stop pressure that settles at the target, Pa(a).
+    pub fill_to_pressure_pa: Pressure,
+    /// Cautions, highest first, the deferral last.
+    pub cautions: Vec<Caution>,
+}
+
+/// The fill command's inputs as used.
+#[derive(Debug, Clone, Serialize)]
+pub struct FillInputs {
+    /// Cylinder volume, m³.
+    pub volume_m3: Volume,
+    /// Starting pressure, Pa(a).
+    pub from_pa: Pressure,
+    /// Stop pressure, Pa(a).
+    pub to_pa: Pressure,
+    /// Starting gas temperature, K.
+    pub initial_temperature_k: ThermodynamicTemperature,
+    /// Supply gas temperature, K.
+    pub supply_temperature_k: ThermodynamicTemperature,
+    /// Ambient temperature, K.
+    pub ambient_temperature_k: ThermodynamicTemperature,
+    /// Rated maximum gas temperature, K.
+    pub rated_temperature_k: Option<ThermodynamicTemperature>,
+    /// Ambient pressure used for gauge readings, Pa(a).
+    pub ambient_pressure_pa: Pressure,
+}
+
+impl FillReport {
+    /// The report of a fill calculation; `ambient` is the pressure gauge readings refer to.
+    pub fn new(
+        model: &dyn GasModel,
+        input: &FillInput,
+        ambient: Pressure,
+        out: Assessed<FillResult>,
+    ) -> Self {
+        let r = out.value;
+        FillReport {
+            command: "fill",
+            tool_version: TOOL_VERSION,
+            model: model.kind(),
+            gas: model.gas().name,
+            inputs: FillInputs {
+                volume_m3: input.volume,
+                from_pa: input.from,
+                to_pa: input.to,
+                initial_temperature_k: input.initial_temperature,
+                supply_temperature_k: input.supply_temperature,
+                ambient_temperature_k: input.ambient_temperature,
+                rated_temperature_k: input.rated_temperature,
+                ambient_pressure_pa: ambient,
+            },
+            final_temperature_k: r.final_temperature,
+            initial_mass_kg: r.initial_mass,
+            mass_added_kg: r.mass_added,
+            settled_pressure_pa: r.settled_pressure,
+            fill_to_pressure_pa: r.fill_to_pressure,
+            cautions: ordered(out.cautions),
+        }
+    }
+}
+
+/// The blow-down report (`pvhazard vent`). Field names are the JSON contract.
+#[derive(Debug, Clone, Serialize)]
+pub struct VentReport {
+    /// Always `vent`.
+    pub command: &'static str,
+    /// pvhazard's version.
+    pub tool_version: &'static str,
+    /// The gas model used.
+    pub model: ModelKind,
+    /// The gas.
+    pub gas: &'static str,
+    /// The inputs, SI, pressures absolute.
+    pub inputs: VentInputs,
+    /// Time to the target through the orifice, s (null without `--orifice`).
+    pub time_s: Option<Time>,
+    /// Part of that time with the orifice choked, s.
+    pub choked_time_s: Option<Time>,
+    /// Gas temperature at the target, K.
+    pub final_temperature_k: ThermodynamicTemperature,
+    /// Mass vented, kg.
+    pub mass_vented_kg: Mass,
+    /// Mass flow at the start, kg/s.
+    pub initial_mass_flow_kg_per_s: Option<MassRate>,
+    /// Orifice diameter that vents within `--within`, m.
+    pub required_orifice_m: Option<Length>,
+    /// Cautions, highest first, the deferral last.
+    pub cautions: Vec<Caution>,
+}
+
+/// The vent command's inputs as used.
+#[derive(Debug, Clone, Serialize)]
+pub struct VentInputs {
+    /// Vessel volume, m³.
+    pub volume_m3: Volume,
+    /// Starting pressure, Pa(a).
+    pub pressure_pa: Pressure,
+    /// Starting gas temperature, K.
+    pub temperature_k: ThermodynamicTemperature,
+    /// Ambient pressure, Pa(a).
+    pub ambient_pressure_pa: Pressure,
+    /// Orifice diameter, m.
+    pub orifice_m: Option<Length>,
+    /// Discharge coefficient.
+    pub cd: f64,
+    /// Target pressure, Pa(a).
+    pub down_to_pa: Pressure,
+    /// The process assumed.
+    pub process: Process,
+    /// MDMT, K.
+    pub min_metal_temperature_k: Option<ThermodynamicTemperature>,
+    /// Time allowed, s.
+    pub within_s: Option<Time>,
+}
+
+impl VentReport {
+    /// The report of a blow-down calculation.
+    pub fn new(model: &dyn GasModel, input: &VentInput, out: Assessed<VentResult>) -> Self {
+        let r = out.value;
+        VentReport {
+            command: "vent",
+            tool_version: TOOL_VERSION,
+            model: model.kind(),
+            gas: model.gas().name,
+            inputs: VentInputs {
+                volume_m3: input.volume,
+                pressure_pa: input.pressure,
+                temperature_k: input.temperature,
+                ambient_pressure_pa: input.ambient,
+                orifice_m: input.orifice,
+                cd: input.cd,
+                down_to_pa: input.down_to,
+                process: input.process,
+                min_metal_temperature_k: input.min_metal_temperature,
+                within_s: input.within,
+            },
+            time_s: r.time,
+            choked_time_s: r.choked_time,
+            final_temperature_k: r.final_temperature,
+            mass_vented_kg: r.mass_vented,
+            initial_mass_flow_kg_per_s: r.initial_mass_flow,
+            required_orifice_m: r.required_orifice,
+            cautions: ordered(out.cautions),
+        }
+    }
+}
+
+/// A value on a worksheet, typed so that each renderer chooses its own units.
+#[derive(Debug, Clone, PartialEq)]
+pub enum Value {
+    /// A vessel pressure (absolute inside; shown gauge and absolute).
+    Pressure(Pressure),
+    /// An absolute pressure shown only as absolute (ambient).
+    AbsolutePressure(Pressure),
+    /// A pressure difference (blast overpressure).
+    Overpressure(Pressure),
+    /// A temperature.
+    Temperature(ThermodynamicTemperature),
+    /// A volume.
+    Volume(Volume),
+    /// An energy.
+    Energy(Energy),
+    /// An energy per mass.
+    SpecificEnergy(AvailableEnergy),
+    /// A mass.
+    Mass(Mass),
+    /// A distance.
+    Distance(Length),
+    /// A small length (orifice).
+    Diameter(Length),
+    /// A duration.
+    Time(Time),
+    /// A mass flow.
+    MassFlow(MassRate),
+    /// A plain number with its meaning.
+    Number(f64),
+    /// Text.
+    Text(String),
+}
+
+/// One line of a worksheet: a label, a value and, for results, the method that gave it.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Entry {
+    /// What the value is.
+    pub label: String,
+    /// The value.
+    pub value: Value,
+    /// Method and source, for results.
+    pub method: Option<&'static str>,
+}
+
+fn entry(label: impl Into<String>, value: Value) -> Entry {
+    Entry {
+        label: label.into(),
+        value,
+        method: None,
+    }
+}
+
+fn result(label: impl Into<String>, value: Value, method: &'static str) -> Entry {
+    Entry {
+        label: label.into(),
+        value,
+        method: Some(method),
+    }
+}
+
+/// What every renderer lays out: title, cautions first, inputs, results.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Worksheet {
+    /// Title line.
+    pub title: String,
+    /// Ambient pressure, for showing gauge readings.
+    pub ambient: Pressure,
+    /// Cautions, highest first, the deferral last.
+    pub cautions: Vec<Caution>,
+    /// Inputs as used.
+    pub inputs: Vec<Entry>,
+    /// Results with their methods.
+    pub results: Vec<Entry>,
+}
+
+impl From<&EnergyReport> for Worksheet {
+    fn from(r: &EnergyReport) -> Worksheet {
+        let i = &r.inputs;
+        let mut inputs = vec![
+            entry("Gas", Value::Text(r.gas.to_string())),
+            entry("Gas volume", Value::Volume(i.volume_m3)),
+            entry("Pressure", Value::Pressure(i.pressure_pa)),
+            entry("Gas temperature", Value::Temperature(i.temperature_k)),
+            entry(
+                "Ambient pressure",
+                Value::AbsolutePressure(i.ambient_pressure_pa),
+            ),
+            entry("TNT energy", Value::SpecificEnergy(i.tnt_energy_j_per_kg)),
+        ];
+        inputs.extend(i.mawp_pa.map(|p| entry("MAWP", Value::Pressure(p))));
+        inputs.extend(
+            i.energy_limit_j
+                .map(|e| entry("Energy limit", Value::Energy(e))),
+        );
+        inputs.extend(
+            i.clearance_m
+                .map(|d| entry("Site clearance", Value::Distance(d))),
+        );
+        let mut results = vec![
+            result(
+                "Gas mass",
+                Value::Mass(r.gas_mass_kg),
+                "density from the gas model × volume",
+            ),
+            result(
+                "Isentropic expansion energy",
+                Value::Energy(r.energy_j.isentropic),
+                "m·[u(p1,T1) − u(pa,s1)]; ASME PCC-2 stored-energy form",
+            ),
+            result(
+                "Isothermal expansion energy",
+                Value::Energy(r.energy_j.isothermal),
+                "m·[a(p1,T1) − a(pa,T1)] = p1·V·ln(p1/pa) ideal",
+            ),
+            result(
+                "Brode energy",
+                Value::Energy(r.energy_j.brode),
+                "(p1 − pa)·V/(γ−1) ideal; Brode 1959",
+            ),
+            result(
+                "Availability (exergy)",
+                Value::Energy(r.energy_j.availability),
+                "dead state at ambient pressure and gas temperature",
+            ),
+            result(
+                "Isentropic end temperature",
+                Value::Temperature(r.isentropic_end_temperature_k),
+                "state at (pa, s1)",
+            ),
+            result(
+                "TNT equivalent",
+                Value::Mass(r.tnt_equivalent_kg),
+                "isentropic energy / TNT energy",
+            ),
+            result(
+                "Exclusion distance",
+                Value::Distance(r.exclusion_distance_m),
+                "ASME PCC-2 pneumatic-test safe distance",
+            ),
+        ];
+        for s in &r.standoff_m {
+            let label = format!(
+                "Standoff to {} kPa overpressure",
+                crate::units::fmt_sig(
+                    s.overpressure_pa.get::<uom::si::pressure::pascal>() / 1e3,
+                    3
+                )
+            );
+            let value = s
+                .distance_m
+                .map_or(Value::Text("outside the fits".to_string()), Value::Distance);
+            results.push(result(
+                label,
+                value,
+                "Kingery–Bulmash surface burst, Swisdak 1994 fits",
+            ));
+        }
+        results.push(result(
+            "Same vessel on a hydrostatic test",
+            Value::Energy(r.hydrotest_energy_j),
+            "p²·V/(2K), water K = 2.2 GPa",
+        ));
+        results.extend(r.vent_down_target_pa.map(|p| {
+            result(
+                "Vent down to",
+                Value::Pressure(p),
+                "isentropic energy at the limit",
+            )
+        }));
+        Worksheet {
+            title: format!("Stored energy — {}, {} gas model", r.gas, r.model.name()),
+            ambient: i.ambient_pressure_pa,
+            cautions: r.cautions.clone(),
+            inputs,
+            results,
+        }
+    }
+}
+
+impl From<&FillReport> for Worksheet {
+    fn from(r: &FillReport) -> Worksheet {
+        let i = &r.inputs;
+        let mut inputs = vec![
+            entry("Gas", Value::Text(r.gas.to_string())),
+            entry("Cylinder volume", Value::Volume(i.volume_m3)),
+            entry("From", Value::Pressure(i.from_pa)),
+            entry("To", Value::Pressure(i.to_pa)),
+            entry(
+                "Initial gas temperature",
+                Value::Temperature(i.initial_temperature_k),
+            ),
+            entry(
+                "Supply temperature",
+                Value::Temperature(i.supply_temperature_k),
+            ),
+            entry(
+                "Ambient temperature",
+                Value::Temperature(i.ambient_temperature_k),
+            ),
+        ];
+        inputs.extend(
+            i.rated_temperature_k
+                .map(|t| entry("Rated temperature", Value::Temperature(t))),
+        );
+        let results = vec![
+            result(
+                "Final gas temperature (adiabatic)",
+                Value::Temperature(r.final_temperature_k),
+                "m_f·u_f − m_i·u_i = (m_f − m_i)·h_in, no heat to the wall",
+            ),
+            result(
+                "Gas mass before",
+                Value::Mass(r.initial_mass_kg),
+                "density × volume",
+            ),
+            result(
+                "Mass added",
+                Value::Mass(r.mass_added_kg),
+                "density × volume",
+            ),
+            result(
+                "Settled pressure at ambient",
+                Value::Pressure(r.settled_pressure_pa),
+                "constant mass, cooled to ambient",
+            ),
+            result(
+                "Fill to (settles at target)",
+                Value::Pressure(r.fill_to_pressure_pa),
+                "stop pressure whose mass settles at the target",
+            ),
+        ];
+        Worksheet {
+            title: format!("Fill check — {}, {} gas model", r.gas, r.model.name()),
+            ambient: i.ambient_pressure_pa,
+            cautions: r.cautions.clone(),
+            inputs,
+            results,
+        }
+    }
+}
+
+impl From<&VentReport> for Worksheet {
+    fn from(r: &VentReport) -> Worksheet {
+        let i = &r.inputs;
+        let mut inputs = vec![
+            entry("Gas", Value::Text(r.gas.to_string())),
+            entry("Vessel volume", Value::Volume(i.volume_m3)),
+            entry("Pressure", Value::Pressure(i.pressure_pa)),
+            entry("Gas temperature", Value::Temperature(i.temperature_k)),
+            entry(
+                "Ambient pressure",
+                Value::AbsolutePressure(i.ambient_pressure_pa),
+            ),
+        ];
+        inputs.extend(i.orifice_m.map(|d| entry("Orifice", Value::Diameter(d))));
+        inputs.push(entry("Discharge coefficient Cd", Value::Number(i.cd)));
+        inputs.push(entry("Vent down to", Value::Pressure(i.down_to_pa)));
+        inputs.push(entry(
+            "Process",
+            Value::Text(format!("{:?}", i.process).to_lowercase()),
+        ));
+        inputs.extend(
+            i.min_metal_temperature_k
+                .map(|t| entry("MDMT", Value::Temperature(t))),
+        );
+        inputs.extend(i.within_s.map(|t| entry("Required within", Value::Time(t))));
+        let method = "V·dρ/dt = −Cd·A·G(ρ), isentropic nozzle, integrated";
+        let mut results = Vec::new();
+        results.extend(
+            r.time_s
+                .map(|t| result("Time to target", Value::Time(t), method)),
+        );
+        results.extend(
+            r.choked_time_s
+                .map(|t| result("of which choked", Value::Time(t), method)),
+        );
+        results.push(result(
+            "Final gas temperature",
+            Value::Temperature(r.final_temperature_k),
+            "end of the process path at the target",
+        ));
+        results.push(result(
+            "Mass vented",
+            Value::Mass(r.mass_vented_kg),
+            "density change × volume",
+        ));
+        results.extend(r.initial_mass_flow_kg_per_s.map(|m| {
+            result(
+                "Initial mass flow",
+                Value::MassFlow(m),
+                "Cd·A·G at the starting state",
+            )
+        }));
+        results.extend(r.required_orifice_m.map(|d| {
+            result(
+                "Orifice needed for the time allowed",
+                Value::Diameter(d),
+                "time scales as 1/(Cd·A)",
+            )
+        }));
+        Worksheet {
+            title: format!("Vent-down — {}, {} gas model", r.gas, r.model.name()),
+            ambient: i.ambient_pressure_pa,
+            cautions: r.cautions.clone(),
+            inputs,
+            results,
+        }
+    }
+}

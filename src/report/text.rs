@@ -1,0 +1,97 @@
+//! The text renderer: cautions first, then inputs and results in the user's units.
+
+use super::{Entry, Value, Worksheet, TOOL_VERSION};
+use crate::units::{fmt_sig, Display, UnitSystem};
+
+const WIDTH: usize = 96;
+
+/// A worksheet as plain text for a terminal or a log, in `system` units first.
+pub fn render_text(sheet: &Worksheet, system: UnitSystem) -> String {
+    let display = Display {
+        system,
+        ambient: sheet.ambient,
+    };
+    let mut out = format!("pvhazard {TOOL_VERSION} — {}\n\n", sheet.title);
+    for c in &sheet.cautions {
+        let word = c.level.word();
+        out.push_str(&wrap(&format!("{word:<8} "), &c.message));
+    }
+    section(&mut out, "Inputs", &sheet.inputs, &display);
+    section(&mut out, "Results", &sheet.results, &display);
+    out
+}
+
+fn section(out: &mut String, heading: &str, entries: &[Entry], d: &Display) {
+    out.push_str(&format!("\n{heading}\n"));
+    let label_width = entries
+        .iter()
+        .map(|e| e.label.chars().count())
+        .max()
+        .unwrap_or(0);
+    for e in entries {
+        let pad = label_width - e.label.chars().count();
+        out.push_str(&format!(
+            "  {}{}  {}\n",
+            e.label,
+            " ".repeat(pad),
+            value(&e.value, d)
+        ));
+        if let Some(m) = e.method {
+            out.push_str(&format!("  {}  [{}]\n", " ".repeat(label_width), m));
+        }
+    }
+}
+
+fn value(v: &Value, d: &Display) -> String {
+    match v {
+        Value::Pressure(p) => d.pressure(*p),
+        Value::AbsolutePressure(p) => d.absolute_pressure(*p),
+        Value::Overpressure(p) => d.overpressure(*p),
+        Value::Temperature(t) => d.temperature(*t),
+        Value::Volume(x) => d.volume(*x),
+        Value::Energy(e) => d.energy(*e),
+        Value::SpecificEnergy(e) => d.specific_energy(*e),
+        Value::Mass(m) => d.mass(*m),
+        Value::Distance(l) => d.length(*l),
+        Value::Diameter(l) => d.small_length(*l),
+        Value::Time(t) => d.time(*t),
+        Value::MassFlow(m) => d.mass_flow(*m),
+        Value::Number(x) => fmt_sig(*x, 3),
+        Value::Text(s) => s.clone(),
+    }
+}
+
+/// `text` wrapped to the page width, the first line after `lead`, the rest indented under it.
+fn wrap(lead: &str, text: &str) -> String {
+    let indent = " ".repeat(lead.chars().count());
+    let mut out = String::from(lead);
+    let mut col = lead.chars().count();
+    for word in text.split_whitespace() {
+        let len = word.chars().count();
+        if col + len + 1 > WIDTH && col > indent.len() {
+            out.push('\n');
+            out.push_str(&indent);
+            col = indent.len();
+        } else if col > indent.len() {
+            out.push(' ');
+            col += 1;
+        }
+        out.push_str(word);
+        col += len;
+    }
+    out.push('\n');
+    out
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn wrap_keeps_lines_within_the_width_with_a_hanging_indent() {
+        let text = "word ".repeat(60);
+        let w = wrap("WARNING  ", &text);
+        assert!(w.lines().all(|l| l.chars().count() <= WIDTH));
+        assert!(w.lines().skip(1).all(|l| l.starts_with("         word")));
+    }
+}

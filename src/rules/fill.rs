@@ -1,0 +1,313 @@
+//! Fast fill of a rigid cylinder: the adiabatic (no heat to the wall) final temperature,
+//! the settled pressure after cooling, and the fill-to pressure that settles at the target.
+
+use uom::si::f64::{Mass, Pressure, ThermodynamicTemperature, Volume};
+use uom::si::{
+    available_energy::joule_per_kilogram, mass::kilogram, pressure::pascal,
+    thermodynamic_temperature::kelvin, volume::cubic_meter,
+};
+
+use super::{check_positive, gas_error, initial_state};
+use crate::caution::{Assessed, Caution, Level};
+use crate::gas::{GasModel, State};
+use crate::units::fmt_sig;
+use crate::InputError;
+
+/// What the fill rule needs.
+#[derive(Debug, Clone, PartialEq)]
+pub struct FillInput {
+    /// Internal (water) volume of the cylinder.
+    pub volume: Volume,
+    /// Absolute pressure before the fill.
+    pub from: Pressure,
+    /// Absolute pressure at which the fill stops.
+    pub to: Pressure,
+    /// Temperature of the gas before the fill.
+    pub initial_temperature: ThermodynamicTemperature,
+    /// Temperature of the gas arriving from the supply.
+    pub supply_temperature: ThermodynamicTemperature,
+    /// Temperature the filled cylinder cools to.
+    pub ambient_temperature: ThermodynamicTemperature,
+    /// The cylinder's rated maximum gas temperature, if given.
+    pub rated_temperature: Option<ThermodynamicTemperature>,
+}
+
+/// What the fill rule computes.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct FillResult {
+    /// Gas temperature at the end of an adiabatic fill.
+    pub final_temperature: ThermodynamicTemperature,
+    /// Gas mass before the fill.
+    pub initial_mass: Mass,
+    /// Mass added by the fill.
+    pub mass_added: Mass,
+    /// Pressure once the gas has cooled to ambient at constant mass.
+    pub settled_pressure: Pressure,
+    /// Pressure at which to stop a fill (at the same conditions) so it settles at `to`.
+    pub fill_to_pressure: Pressure,
+}
+
+/// The adiabatic fill from `from` to `to`, with its cautions.
+///
+/// First law for the rigid cylinder: m_f·u_f − m_i·u_i = (m_f − m_i)·h_in, with h_in the
+/// supply gas's enthalpy. For an ideal gas this is T_f = p_f / (p_i/T_i + (p_f − p_i)/(γ·T0)).
+/// No heat reaches the wall, so the temperature is an upper bound.
+pub fn adiabatic_fill(
+    model: &dyn GasModel,
+    input: &FillInput,
+) -> Result<Assessed<FillResult>, InputError> {
+    check_positive("volume", input.volume.get::<cubic_meter>(), "m3")?;
+    let (initial, mut cautions) = initial_state(
+        model,
+        ("from", "initial-temperature"),
+        input.from,
+        input.initial_temperature,
+    )?;
+    if input.to <= input.from {
+        return Err(InputError::new(
+            "to",
+            format!("{} bar(a)", fmt_sig(input.to.get::<pascal>() / 1e5, 6)),
+            format!(
+                "the fill must end above where it starts (--from is {} bar(a)); accepted: a pressure above --from",
+                fmt_sig(input.from.get::<pascal>() / 1e5, 6)
+            ),
+        ));
+    }
+    // The settled target must be a gas too, and the model's limits apply at the top of
+    // the fill; identical cautions are merged when printed.
+    let (target, target_cautions) = initial_state(
+        model,
+        ("to", "ambient-temperature"),
+        input.to,
+        input.ambient_temperature,
+    )?;
+    cautions.extend(target_cautions);
+    // The supply is at the fill's end pressure: for an ideal gas h does not depend on it.
+    let supply = model
+        .state_pt(input.to, input.supply_temperature)
+        .map_err(gas_error("supply-temperature"))?;
+
+    let end = fill_end_state(model, &initial, &supply, input.volume, input.to)?;
+    let settled = model
+        .state_rho_t(end.density, input.ambient_temperature)
+        .map_err(gas_error("ambient-temperature"))?;
+    let fill_to = fill_to_pressure(model, &initial, &supply, input.volume, target.density)?;
+    let initial_mass = initial.density * input.volume;
+    let result = FillResult {
+        final_temperature: end.temperature,
+        initial_mass,
+        mass_added: end.density * input.volume - initial_mass,
+        settled_pressure: settled.pressure,
+        fill_to_pressure: fill_to,
+    };
+    cautions.extend(fill_cautions(input, &result));
+    Ok(Assessed {
+        value: result,
+        cautions,
+    })
+}
+
+/// The state at the end of an adiabatic fill to pressure `p_end`: the temperature that
+/// closes the energy balance, found by Brent's method.
+fn fill_end_state(
+    model: &dyn GasModel,
+    initial: &State,
+    supply: &State,
+    volume: Volume,
+    p_end: Pressure,
+) -> Result<State, InputError> {
+    let h_in = model.enthalpy(supply).get::<joule_per_kilogram>();
+    let m_i = (initial.density * volume).get::<kilogram>();
+    let u_i = model.internal_energy(initial).get::<joule_per_kilogram>();
+    let balance = |t: f64| -> f64 {
+        model
+            .state_pt(p_end, ThermodynamicTemperature::new::<kelvin>(t))
+            .map_or(f64::NAN, |st| {
+                let m_f = (st.density * volume).get::<kilogram>();
+                let u_f = model.internal_energy(&st).get::<joule_per_kilogram>();
+                // Scaled by the final mass so the tolerance is in J/kg.
+                (m_f * (u_f - h_in) - m_i * (u_i - h_in)) / m_f
+            })
+    };
+    let t_lo = initial.temperature.min(supply.temperature).get::<kelvin>() * 0.5;
+    let t_hi = initial.temperature.max(supply.temperature).get::<kelvin>() * 4.0;
+    let t = crate::solve::root(balance, t_lo, t_hi, 1e-9).map_err(|_| {
+        InputError::new(
+            "to",
+            format!("{} bar(a)", fmt_sig(p_end.get::<pascal>() / 1e5, 6)),
+            "no temperature closes the fill's energy balance at this pressure",
+        )
+    })?;
+    model
+        .state_pt(p_end, ThermodynamicTemperature::new::<kelvin>(t))
+        .map_err(gas_error("to"))
+}
+
+/// The stop pressure of a hot fill whose gas, once cooled to ambient, has `settled_density`.
+fn fill_to_pressure(
+    model: &dyn GasModel,
+    initial: &State,
+    supply: &State,
+    volume: Volume,
+    settled_density: uom::si::f64::MassDensity,
+) -> Result<Pressure, InputError> {
+    use uom::si::mass_density::kilogram_per_cubic_meter;
+    let want = settled_density.get::<kilogram_per_cubic_meter>();
+    let gap = |ln_p: f64| -> f64 {
+        fill_end_state(
+            model,
+            initial,
+            supply,
+            volume,
+            Pressure::new::<pascal>(ln_p.exp()),
+        )
+        .map_or(f64::NAN, |st| {
+            st.density.get::<kilogram_per_cubic_meter>() / want - 1.0
+        })
+    };
+    let lo = initial.pressure.get::<pascal>().ln() + 1e-9;
+    let hi = (10.0 * supply.pressure.get::<pascal>()).ln();
+    crate::solve::root(gap, lo, hi, 1e-12)
+        .map(|ln_p| Pressure::new::<pascal>(ln_p.exp()))
+        .map_err(|_| {
+            InputError::new(
+                "from",
+                format!("{} bar(a)", fmt_sig(initial.pressure.get::<pascal>() / 1e5, 6)),
+                "the cylinder already holds at least the mass that settles at --to; accepted: a starting pressure whose gas settles below the target",
+            )
+        })
+}
+
+fn fill_cautions(input: &FillInput, r: &FillResult) -> Vec<Caution> {
+    let mut out = Vec::new();
+    let tf = r.final_temperature.get::<kelvin>();
+    match input.rated_temperature {
+        Some(rated) if r.final_temperature > rated => out.push(Caution::new(
+            Level::Warning,
+            format!(
+                "The adiabatic fill temperature ({:.0} °C) exceeds the rated temperature ({:.0} °C). Fill more slowly, in stages, or with a cooled supply, and follow the cylinder marking and the filling procedure; this is the no-heat-loss upper bound, but do not plan on heat loss to make it safe.",
+                tf - 273.15,
+                rated.get::<kelvin>() - 273.15
+            ),
+        )),
+        Some(_) => {}
+        None => out.push(Caution::new(
+            Level::Notice,
+            "No --rated-temperature given: compare the fill temperature with the maximum marked on the cylinder or in its standard (often 65 °C).",
+        )),
+    }
+    out.push(Caution::new(
+        Level::Notice,
+        format!(
+            "Adiabatic fill: no heat passes to the cylinder wall, so {:.0} °C is the upper bound of the gas temperature for any fill rate. A real fill is cooler; the settled pressure assumes the gas then cools to {:.0} °C at constant mass.",
+            tf - 273.15,
+            input.ambient_temperature.get::<kelvin>() - 273.15
+        ),
+    ));
+    let shortfall = 1.0 - r.settled_pressure.get::<pascal>() / input.to.get::<pascal>();
+    if shortfall > 0.01 {
+        out.push(Caution::new(
+            Level::Notice,
+            format!(
+                "A fill stopped at {} bar(a) settles to {} bar(a) ({:.0} % short). To settle at the target, stop at {} bar(a), but never above the cylinder's permitted filling pressure at the fill temperature.",
+                fmt_sig(input.to.get::<pascal>() / 1e5, 4),
+                fmt_sig(r.settled_pressure.get::<pascal>() / 1e5, 4),
+                shortfall * 100.0,
+                fmt_sig(r.fill_to_pressure.get::<pascal>() / 1e5, 4)
+            ),
+        ));
+    }
+    out
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::gas::{Gas, IdealGas};
+    use approx::assert_relative_eq;
+
+    fn air_fill(from_bar: f64, to_bar: f64) -> FillInput {
+        let t = ThermodynamicTemperature::new::<kelvin>(293.15);
+        FillInput {
+            volume: Volume::new::<cubic_meter>(0.05),
+            from: Pressure::new::<pascal>(from_bar * 1e5),
+            to: Pressure::new::<pascal>(to_bar * 1e5),
+            initial_temperature: t,
+            supply_temperature: t,
+            ambient_temperature: t,
+            rated_temperature: None,
+        }
+    }
+
+    #[test]
+    fn air_fill_temperatures_from_the_closed_form() {
+        // source: reference notes, fast-fill check [C]: air, T0 = Ti = 293.15 K:
+        // 50 → 300 bar(a) gives 384.8 K; 100 → 300 bar(a) gives 362.1 K (γ = 1.4).
+        let model = IdealGas::with_gamma(Gas::find("air").unwrap(), 1.4);
+        let r = adiabatic_fill(&model, &air_fill(50.0, 300.0))
+            .unwrap()
+            .value;
+        assert_relative_eq!(
+            r.final_temperature.get::<kelvin>(),
+            384.8,
+            max_relative = 2e-4
+        );
+        let r = adiabatic_fill(&model, &air_fill(100.0, 300.0))
+            .unwrap()
+            .value;
+        assert_relative_eq!(
+            r.final_temperature.get::<kelvin>(),
+            362.1,
+            max_relative = 2e-4
+        );
+    }
+
+    #[test]
+    fn general_balance_matches_the_ideal_closed_form() {
+        let model = IdealGas::new(Gas::find("hydrogen").unwrap());
+        let g = model.gamma();
+        let mut input = air_fill(20.0, 350.0);
+        input.supply_temperature = ThermodynamicTemperature::new::<kelvin>(250.0);
+        let r = adiabatic_fill(&model, &input).unwrap().value;
+        let (pi, pf, ti, t0) = (20e5, 350e5, 293.15, 250.0);
+        let closed = pf / (pi / ti + (pf - pi) / (g * t0));
+        assert_relative_eq!(
+            r.final_temperature.get::<kelvin>(),
+            closed,
+            max_relative = 1e-9
+        );
+        // Fill-to pressure, closed form: p_f = p_i + γ·T0·(p_target/T_amb − p_i/T_i).
+        let fill_to = pi + g * t0 * (pf / 293.15 - pi / ti);
+        assert_relative_eq!(
+            r.fill_to_pressure.get::<pascal>(),
+            fill_to,
+            max_relative = 1e-8
+        );
+    }
+
+    #[test]
+    fn from_vacuum_the_gas_reaches_gamma_times_supply_temperature() {
+        // source: any thermodynamics text (e.g. Çengel & Boles, charging of a rigid
+        // evacuated tank): T = γ·T0.
+        let model = IdealGas::new(Gas::find("argon").unwrap());
+        let r = adiabatic_fill(&model, &air_fill(1e-6, 200.0))
+            .unwrap()
+            .value;
+        assert_relative_eq!(
+            r.final_temperature.get::<kelvin>(),
+            model.gamma() * 293.15,
+            max_relative = 1e-6
+        );
+    }
+
+    #[test]
+    fn over_the_rating_is_a_warning_and_from_above_to_is_refused() {
+        let model = IdealGas::new(Gas::find("air").unwrap());
+        let mut input = air_fill(20.0, 300.0);
+        input.rated_temperature = Some(ThermodynamicTemperature::new::<kelvin>(338.15));
+        let r = adiabatic_fill(&model, &input).unwrap();
+        assert!(r.cautions.iter().any(|c| c.level == Level::Warning));
+        let e = adiabatic_fill(&model, &air_fill(300.0, 200.0)).unwrap_err();
+        assert_eq!(e.field, "to");
+    }
+}

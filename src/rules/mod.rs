@@ -1,0 +1,81 @@
+//! The rules: pure functions on uom quantities, each returning its result and the cautions
+//! it raises. No rule formats text, knows a unit spelling or reads a file.
+//!
+//! Every rule is written against [`GasModel`], never against a particular model.
+
+pub mod blast;
+pub mod energy;
+pub mod fill;
+pub mod vent;
+
+use uom::si::f64::{Pressure, ThermodynamicTemperature};
+use uom::si::{pressure::pascal, thermodynamic_temperature::kelvin};
+
+use crate::caution::{Caution, Level};
+use crate::gas::{GasError, GasModel, State};
+use crate::InputError;
+
+/// Refuses a value that is not finite and above zero.
+fn check_positive(field: &str, value: f64, unit: &str) -> Result<(), InputError> {
+    if value.is_finite() && value > 0.0 {
+        Ok(())
+    } else {
+        Err(InputError::new(
+            field,
+            format!("{value} {unit}"),
+            "must be above zero; accepted: a positive quantity",
+        ))
+    }
+}
+
+/// Turns a gas model's refusal into an input error on `field`.
+fn gas_error(field: &'static str) -> impl Fn(GasError) -> InputError {
+    move |e| {
+        let value = match &e {
+            GasError::Liquefied {
+                pressure_pa,
+                temperature_k,
+                ..
+            } => format!("{:.6} bar(a) at {:.2} K", pressure_pa / 1e5, temperature_k),
+            GasError::BelowTriplePoint { temperature_k, .. } => format!("{temperature_k:.2} K"),
+            GasError::OutOfRange { value, .. } => value.clone(),
+        };
+        InputError::new(field, value, e.to_string())
+    }
+}
+
+/// The user's starting state, checked for phase, with the model's own NOTICE and limits
+/// and the released gas's hazard. `fields` names the pressure and temperature inputs.
+fn initial_state(
+    model: &dyn GasModel,
+    (pressure_field, temperature_field): (&'static str, &'static str),
+    p: Pressure,
+    t: ThermodynamicTemperature,
+) -> Result<(State, Vec<Caution>), InputError> {
+    if !(p.get::<pascal>().is_finite() && p.get::<pascal>() > 0.0) {
+        return Err(InputError::new(
+            pressure_field,
+            format!("{} Pa(a)", p.get::<pascal>()),
+            "the absolute pressure must be above zero (a gauge pressure below -1 atm is a vacuum beyond perfect); accepted: a pressure above vacuum",
+        ));
+    }
+    if !(t.get::<kelvin>().is_finite() && t.get::<kelvin>() > 0.0) {
+        return Err(InputError::new(
+            temperature_field,
+            format!("{} K", t.get::<kelvin>()),
+            "must be above absolute zero",
+        ));
+    }
+    model.gas().check_gas_phase(p, t).map_err(|e| match e {
+        GasError::BelowTriplePoint { .. } => gas_error(temperature_field)(e),
+        _ => gas_error(pressure_field)(e),
+    })?;
+    let state = model.state_pt(p, t).map_err(gas_error(pressure_field))?;
+    let mut cautions = vec![Caution::new(
+        Level::Notice,
+        format!("Gas model: {} ({}).", model.describe(), model.gas().name),
+    )];
+    cautions.extend(model.limitations(&state));
+    cautions.extend(model.gas().hazard.caution(model.gas().name));
+    Ok((state, cautions))
+}

@@ -1,0 +1,205 @@
+//! Formatting quantities for people: the user's unit system first, the other alongside.
+
+use uom::si::f64::{
+    AvailableEnergy, Energy, Length, Mass, MassRate, Pressure, ThermodynamicTemperature, Time,
+    Volume,
+};
+use uom::si::{
+    available_energy::joule_per_kilogram, energy::joule, length::meter, mass::kilogram,
+    mass_rate::kilogram_per_second, pressure::pascal, thermodynamic_temperature::kelvin,
+    time::second, volume::cubic_meter,
+};
+
+use super::{J_PER_FT_LBF, KG_PER_LB, M3_PER_US_GAL, M_PER_FT, PA_PER_PSI};
+
+/// The unit system a person reads results in.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default, clap::ValueEnum, serde::Serialize)]
+#[serde(rename_all = "lowercase")]
+pub enum UnitSystem {
+    /// bar, m, m³, kg, °C, MJ.
+    #[default]
+    Si,
+    /// psi, ft, ft³, lb, °F, ft·lbf.
+    Us,
+}
+
+/// Formats `x` with `sig` significant figures, without exponent for everyday magnitudes.
+pub fn fmt_sig(x: f64, sig: usize) -> String {
+    if x == 0.0 || !x.is_finite() {
+        return "0".to_string();
+    }
+    let magnitude = x.abs().log10().floor() as i32;
+    if !(-4..=9).contains(&magnitude) {
+        return format!("{:.*e}", sig.saturating_sub(1), x);
+    }
+    let decimals = (sig as i32 - 1 - magnitude).max(0) as usize;
+    format!("{:.*}", decimals, x)
+}
+
+/// Formats quantities in a unit system, with the other system in brackets where it helps.
+#[derive(Debug, Clone, Copy)]
+pub struct Display {
+    /// The system shown first.
+    pub system: UnitSystem,
+    /// The local atmospheric pressure, for gauge readings.
+    pub ambient: Pressure,
+}
+
+impl Display {
+    fn pair(&self, si: String, us: String) -> String {
+        match self.system {
+            UnitSystem::Si => format!("{si} ({us})"),
+            UnitSystem::Us => format!("{us} ({si})"),
+        }
+    }
+
+    /// A pressure as gauge and absolute: `10.00 barg = 11.01 bara (145.0 psig)`.
+    pub fn pressure(&self, p: Pressure) -> String {
+        let pa = p.get::<pascal>();
+        let g = pa - self.ambient.get::<pascal>();
+        let si = format!(
+            "{} barg, {} bara",
+            fmt_sig(g / 1e5, 4),
+            fmt_sig(pa / 1e5, 4)
+        );
+        let us = format!(
+            "{} psig, {} psia",
+            fmt_sig(g / PA_PER_PSI, 4),
+            fmt_sig(pa / PA_PER_PSI, 4)
+        );
+        self.pair(si, us)
+    }
+
+    /// An absolute pressure only (ambient itself, for instance).
+    pub fn absolute_pressure(&self, p: Pressure) -> String {
+        let pa = p.get::<pascal>();
+        self.pair(
+            format!("{} kPa(a)", fmt_sig(pa / 1e3, 5)),
+            format!("{} psia", fmt_sig(pa / PA_PER_PSI, 4)),
+        )
+    }
+
+    /// A pressure difference, such as a blast overpressure.
+    pub fn overpressure(&self, p: Pressure) -> String {
+        let pa = p.get::<pascal>();
+        self.pair(
+            format!("{} kPa", fmt_sig(pa / 1e3, 3)),
+            format!("{} psi", fmt_sig(pa / PA_PER_PSI, 3)),
+        )
+    }
+
+    /// A temperature in °C or °F with kelvin.
+    pub fn temperature(&self, t: ThermodynamicTemperature) -> String {
+        let k = t.get::<kelvin>();
+        let c = k - 273.15;
+        let f = c * 9.0 / 5.0 + 32.0;
+        match self.system {
+            UnitSystem::Si => format!("{:.1} °C ({:.2} K, {:.1} °F)", c, k, f),
+            UnitSystem::Us => format!("{:.1} °F ({:.1} °C, {:.2} K)", f, c, k),
+        }
+    }
+
+    /// A volume in m³ and L, or ft³ and US gal.
+    pub fn volume(&self, v: Volume) -> String {
+        let m3 = v.get::<cubic_meter>();
+        self.pair(
+            format!("{} m³ = {} L", fmt_sig(m3, 4), fmt_sig(m3 * 1e3, 4)),
+            format!(
+                "{} ft³ = {} US gal",
+                fmt_sig(m3 / (M_PER_FT * M_PER_FT * M_PER_FT), 4),
+                fmt_sig(m3 / M3_PER_US_GAL, 4)
+            ),
+        )
+    }
+
+    /// An energy in MJ (kJ or J when small) or ft·lbf.
+    pub fn energy(&self, e: Energy) -> String {
+        let j = e.get::<joule>();
+        let si = match j.abs() {
+            x if x >= 1e5 => format!("{} MJ", fmt_sig(j / 1e6, 4)),
+            x if x >= 1e2 => format!("{} kJ", fmt_sig(j / 1e3, 4)),
+            _ => format!("{} J", fmt_sig(j, 4)),
+        };
+        self.pair(si, format!("{} ft·lbf", fmt_sig(j / J_PER_FT_LBF, 4)))
+    }
+
+    /// An energy per mass in MJ/kg.
+    pub fn specific_energy(&self, e: AvailableEnergy) -> String {
+        let j = e.get::<joule_per_kilogram>();
+        self.pair(
+            format!("{} MJ/kg", fmt_sig(j / 1e6, 4)),
+            format!("{} BTU/lb", fmt_sig(j * KG_PER_LB / super::J_PER_BTU, 4)),
+        )
+    }
+
+    /// A mass in kg or lb.
+    pub fn mass(&self, m: Mass) -> String {
+        let kg = m.get::<kilogram>();
+        self.pair(
+            format!("{} kg", fmt_sig(kg, 4)),
+            format!("{} lb", fmt_sig(kg / KG_PER_LB, 4)),
+        )
+    }
+
+    /// A distance in m or ft.
+    pub fn length(&self, l: Length) -> String {
+        let m = l.get::<meter>();
+        self.pair(
+            format!("{} m", fmt_sig(m, 3)),
+            format!("{} ft", fmt_sig(m / M_PER_FT, 3)),
+        )
+    }
+
+    /// A small length, such as an orifice, in mm or in.
+    pub fn small_length(&self, l: Length) -> String {
+        let m = l.get::<meter>();
+        self.pair(
+            format!("{} mm", fmt_sig(m * 1e3, 3)),
+            format!("{} in", fmt_sig(m / 0.0254, 3)),
+        )
+    }
+
+    /// A mass flow in kg/s or lb/s.
+    pub fn mass_flow(&self, m: MassRate) -> String {
+        let kg = m.get::<kilogram_per_second>();
+        self.pair(
+            format!("{} kg/s", fmt_sig(kg, 3)),
+            format!("{} lb/s", fmt_sig(kg / KG_PER_LB, 3)),
+        )
+    }
+
+    /// A duration in s, with minutes where long.
+    pub fn time(&self, t: Time) -> String {
+        let s = t.get::<second>();
+        if s >= 120.0 {
+            format!("{} s ({} min)", fmt_sig(s, 4), fmt_sig(s / 60.0, 3))
+        } else {
+            format!("{} s", fmt_sig(s, 3))
+        }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn significant_figures() {
+        assert_eq!(fmt_sig(1.36228e6 / 1e6, 4), "1.362");
+        assert_eq!(fmt_sig(30.0, 3), "30.0");
+        assert_eq!(fmt_sig(0.0123456, 3), "0.0123");
+        assert_eq!(fmt_sig(1234.6, 3), "1235");
+        assert_eq!(fmt_sig(0.0, 3), "0");
+    }
+
+    #[test]
+    fn pressures_show_gauge_and_absolute() {
+        let d = Display {
+            system: UnitSystem::Si,
+            ambient: Pressure::new::<pascal>(101_325.0),
+        };
+        let s = d.pressure(Pressure::new::<pascal>(1.101325e6));
+        assert!(s.starts_with("10.00 barg, 11.01 bara"), "{s}");
+        assert!(s.contains("psig"), "{s}");
+    }
+}

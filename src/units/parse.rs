@@ -1,0 +1,461 @@
+//! Parsing `number unit` strings into SI quantities.
+//!
+//! Every parser returns `Err(String)` with the problem and what is accepted; callers attach
+//! the field name (see [`crate::InputError`]).
+
+use uom::si::f64::{
+    AvailableEnergy, Energy, Length, Pressure, ThermodynamicTemperature, Time, Volume,
+};
+use uom::si::{
+    available_energy::joule_per_kilogram, energy::joule, length::meter, pressure::pascal,
+    thermodynamic_temperature::kelvin, time::second, volume::cubic_meter,
+};
+
+use super::{J_PER_BTU, J_PER_CAL, J_PER_FT_LBF, KG_PER_LB, M3_PER_US_GAL, M_PER_FT, PA_PER_PSI};
+
+/// A pressure as the user gave it: gauge (above the local atmosphere) or absolute.
+///
+/// Gauge readings become absolute only once the ambient pressure is known, which is why the
+/// parser cannot do it: `--ambient-pressure` or `--elevation` may come later on the line.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum PressureReading {
+    /// Above the local atmosphere (`barg`, `psig`, `kPa(g)`).
+    Gauge(Pressure),
+    /// Above vacuum (`bara`, `psia`, `kPa(a)`).
+    Absolute(Pressure),
+}
+
+impl PressureReading {
+    /// The absolute pressure, given the local atmospheric pressure.
+    pub fn to_absolute(self, ambient: Pressure) -> Pressure {
+        match self {
+            PressureReading::Gauge(p) => p + ambient,
+            PressureReading::Absolute(p) => p,
+        }
+    }
+
+    /// Whether the reading was gauge.
+    pub fn is_gauge(self) -> bool {
+        matches!(self, PressureReading::Gauge(_))
+    }
+}
+
+const PRESSURE_UNITS: &[(&str, f64)] = &[
+    ("mbar", 100.0),
+    ("bar", 1.0e5),
+    ("mpa", 1.0e6),
+    ("kpa", 1.0e3),
+    ("hpa", 1.0e2),
+    ("pa", 1.0),
+    ("psi", PA_PER_PSI),
+];
+
+const PRESSURE_ACCEPTED: &str = "accepted: a number with Pa, kPa, MPa, mbar, bar or psi and g (gauge) or a (absolute), e.g. '10 barg', '10 bar(g)', '2.5 bara', '150 psig', '101.3 kPa(a)', '0.8 MPa(g)'";
+
+/// Parses a pressure that must say gauge or absolute: `10 barg`, `10 bar(g)`, `2.5 bara`,
+/// `150 psig`, `0.8 MPa(g)`, `101.3 kPa(a)`.
+///
+/// A bare `bar`, `psi`, `kPa` or `MPa` is refused: mixing gauge and absolute is the classic
+/// error in this work (a 1 bar slip at 2 barg is a 33 % error in absolute pressure).
+pub fn parse_pressure(text: &str) -> Result<PressureReading, String> {
+    let (value, unit) = split(text)?;
+    let norm = normalise(unit);
+    for &(base, factor) in PRESSURE_UNITS {
+        let Some(rest) = norm.strip_prefix(base) else {
+            continue;
+        };
+        let p = Pressure::new::<pascal>(value * factor);
+        return match rest {
+            "g" | "(g)" | "gauge" | "(gauge)" => Ok(PressureReading::Gauge(p)),
+            "a" | "(a)" | "abs" | "(abs)" | "absolute" | "(absolute)" => {
+                Ok(PressureReading::Absolute(p))
+            }
+            "" => Err(format!(
+                "a pressure must say gauge or absolute, and '{unit}' says neither: write '{v} {u}g' or '{v} {u}(g)' for gauge (above atmosphere), '{v} {u}a' or '{v} {u}(a)' for absolute (above vacuum); mixing the two is the classic error in this work",
+                v = trim_number(text),
+                u = unit.trim()
+            )),
+            _ => Err(format!("unknown pressure unit '{unit}'; {PRESSURE_ACCEPTED}")),
+        };
+    }
+    Err(unknown_unit(unit, "a pressure", PRESSURE_ACCEPTED))
+}
+
+/// Parses an overpressure (a pressure difference above ambient, as of a blast wave):
+/// `6.9 kPa`, `1 psi`. Gauge spellings are accepted too; absolute ones are refused, since an
+/// overpressure is a difference.
+pub fn parse_overpressure(text: &str) -> Result<Pressure, String> {
+    let (value, unit) = split(text)?;
+    let norm = normalise(unit);
+    for &(base, factor) in PRESSURE_UNITS {
+        let Some(rest) = norm.strip_prefix(base) else {
+            continue;
+        };
+        return match rest {
+            "" | "g" | "(g)" => Ok(Pressure::new::<pascal>(value * factor)),
+            "a" | "(a)" | "abs" | "(abs)" => Err(format!(
+                "an overpressure is a difference above ambient, not an absolute pressure: write e.g. '{} {}'",
+                trim_number(text),
+                base_spelling(base)
+            )),
+            _ => Err(unknown_unit(unit, "an overpressure", "accepted: Pa, kPa, MPa, mbar, bar or psi, e.g. '6.9 kPa', '1 psi'")),
+        };
+    }
+    Err(unknown_unit(
+        unit,
+        "an overpressure",
+        "accepted: Pa, kPa, MPa, mbar, bar or psi, e.g. '6.9 kPa', '1 psi'",
+    ))
+}
+
+/// Parses a volume: `2 m3`, `500 L`, `1.5 ft3`, `20 gal` (US gallons).
+pub fn parse_volume(text: &str) -> Result<Volume, String> {
+    const UNITS: &[(&[&str], f64)] = &[
+        (&["m3", "cum"], 1.0),
+        (&["l", "litre", "litres", "liter", "liters"], 1.0e-3),
+        (&["ml"], 1.0e-6),
+        (&["cm3", "cc"], 1.0e-6),
+        (&["ft3", "cuft", "cf"], M_PER_FT * M_PER_FT * M_PER_FT),
+        (&["in3", "cuin"], 1.6387064e-5),
+        (&["gal", "usgal", "gallon", "gallons"], M3_PER_US_GAL),
+    ];
+    let f = lookup(
+        text,
+        UNITS,
+        "a volume",
+        "accepted: m3, L, mL, cm3, ft3, in3 or gal (US), e.g. '2 m3', '500 L', '1.5 ft3', '20 gal'",
+    )?;
+    Ok(Volume::new::<cubic_meter>(f))
+}
+
+/// Parses a length: `10 mm`, `0.5 in`, `30 m`, `100 ft`.
+pub fn parse_length(text: &str) -> Result<Length, String> {
+    const UNITS: &[(&[&str], f64)] = &[
+        (&["m", "metre", "metres", "meter", "meters"], 1.0),
+        (&["mm"], 1.0e-3),
+        (&["cm"], 1.0e-2),
+        (&["km"], 1.0e3),
+        (&["in", "inch", "inches", "\""], 0.0254),
+        (&["ft", "foot", "feet", "'"], M_PER_FT),
+    ];
+    let f = lookup(
+        text,
+        UNITS,
+        "a length",
+        "accepted: mm, cm, m, km, in or ft, e.g. '10 mm', '0.5 in', '300 ft'",
+    )?;
+    Ok(Length::new::<meter>(f))
+}
+
+/// Parses an energy: `1 MJ`, `500 kJ`, `1e6 ft-lbf`, `2 kWh`, `1000 BTU`.
+pub fn parse_energy(text: &str) -> Result<Energy, String> {
+    const UNITS: &[(&[&str], f64)] = &[
+        (&["j"], 1.0),
+        (&["kj"], 1.0e3),
+        (&["mj"], 1.0e6),
+        (&["gj"], 1.0e9),
+        (&["wh"], 3.6e3),
+        (&["kwh"], 3.6e6),
+        (
+            &["ftlbf", "ft-lbf", "ft·lbf", "ft.lbf", "ftlb", "ft-lb"],
+            J_PER_FT_LBF,
+        ),
+        (&["btu"], J_PER_BTU),
+    ];
+    let f = lookup(
+        text,
+        UNITS,
+        "an energy",
+        "accepted: J, kJ, MJ, GJ, Wh, kWh, ft-lbf or BTU, e.g. '1 MJ', '7.4e5 ft-lbf'",
+    )?;
+    Ok(Energy::new::<joule>(f))
+}
+
+/// Parses an energy per mass, as the TNT energy: `4.184 MJ/kg`, `1000 cal/g`, `1800 BTU/lb`.
+pub fn parse_specific_energy(text: &str) -> Result<AvailableEnergy, String> {
+    const UNITS: &[(&[&str], f64)] = &[
+        (&["j/kg"], 1.0),
+        (&["kj/kg", "j/g"], 1.0e3),
+        (&["mj/kg", "kj/g"], 1.0e6),
+        (&["cal/g", "kcal/kg"], J_PER_CAL * 1.0e3),
+        (&["btu/lb"], J_PER_BTU / KG_PER_LB),
+    ];
+    let f = lookup(
+        text,
+        UNITS,
+        "an energy per mass",
+        "accepted: J/kg, kJ/kg, MJ/kg, cal/g or BTU/lb, e.g. '4.184 MJ/kg', '1000 cal/g'",
+    )?;
+    Ok(AvailableEnergy::new::<joule_per_kilogram>(f))
+}
+
+/// Parses a duration: `90 s`, `15 min`, `2 h`.
+pub fn parse_time(text: &str) -> Result<Time, String> {
+    const UNITS: &[(&[&str], f64)] = &[
+        (&["s", "sec", "secs", "second", "seconds"], 1.0),
+        (&["min", "mins", "minute", "minutes"], 60.0),
+        (&["h", "hr", "hrs", "hour", "hours"], 3600.0),
+    ];
+    let f = lookup(
+        text,
+        UNITS,
+        "a duration",
+        "accepted: s, min or h, e.g. '90 s', '15 min'",
+    )?;
+    Ok(Time::new::<second>(f))
+}
+
+/// Parses a temperature: `20 C`, `20 °C`, `68 F`, `293.15 K`, `528 R` (Rankine).
+///
+/// Below absolute zero is refused here, since no later check could make sense of it.
+pub fn parse_temperature(text: &str) -> Result<ThermodynamicTemperature, String> {
+    let (value, unit) = split(text)?;
+    let norm = normalise(unit);
+    let norm = norm.trim_start_matches("deg").trim_start_matches('°');
+    let kelvin_value = match norm {
+        "c" | "celsius" => value + 273.15,
+        "f" | "fahrenheit" => (value + 459.67) * 5.0 / 9.0,
+        "k" | "kelvin" => value,
+        "r" | "rankine" => value * 5.0 / 9.0,
+        _ => {
+            return Err(unknown_unit(
+                unit,
+                "a temperature",
+                "accepted: C, F, K or R, e.g. '20 C', '68 F', '293.15 K'",
+            ))
+        }
+    };
+    if kelvin_value <= 0.0 {
+        return Err(format!(
+            "{} is at or below absolute zero (0 K = -273.15 C = -459.67 F); accepted: a temperature above absolute zero",
+            text.trim()
+        ));
+    }
+    Ok(ThermodynamicTemperature::new::<kelvin>(kelvin_value))
+}
+
+/// Looks the unit of `text` up in `units` and returns the value in SI.
+fn lookup(text: &str, units: &[(&[&str], f64)], kind: &str, accepted: &str) -> Result<f64, String> {
+    let (value, unit) = split(text)?;
+    let norm = normalise(unit);
+    units
+        .iter()
+        .find(|(names, _)| names.contains(&norm.as_str()))
+        .map(|&(_, factor)| value * factor)
+        .ok_or_else(|| unknown_unit(unit, kind, accepted))
+}
+
+/// Splits `text` into a finite number and the unit that follows it.
+fn split(text: &str) -> Result<(f64, &str), String> {
+    let t = text.trim();
+    let end = number_prefix_len(t);
+    if end == 0 {
+        return Err(format!(
+            "'{t}' does not start with a number; accepted: a number followed by a unit, e.g. '10 barg'"
+        ));
+    }
+    let (number, unit) = t.split_at(end);
+    let value: f64 = number
+        .parse()
+        .map_err(|_| format!("'{number}' is not a number"))?;
+    if !value.is_finite() {
+        return Err(format!(
+            "'{number}' is too large to be a physical value; accepted: a finite number"
+        ));
+    }
+    if unit.trim().is_empty() {
+        return Err(format!(
+            "'{t}' has no unit; every quantity needs one, e.g. '10 barg', '2 m3', '20 C'"
+        ));
+    }
+    Ok((value, unit.trim()))
+}
+
+/// The length of the decimal number at the start of `s` (sign, digits, point, exponent).
+fn number_prefix_len(s: &str) -> usize {
+    let b = s.as_bytes();
+    let mut i = 0;
+    if i < b.len() && (b[i] == b'+' || b[i] == b'-') {
+        i += 1;
+    }
+    let digits_start = i;
+    while i < b.len() && b[i].is_ascii_digit() {
+        i += 1;
+    }
+    if i < b.len() && b[i] == b'.' {
+        i += 1;
+        while i < b.len() && b[i].is_ascii_digit() {
+            i += 1;
+        }
+    }
+    let mantissa = &s[digits_start..i];
+    if mantissa.is_empty() || mantissa == "." {
+        return 0;
+    }
+    // An exponent only counts when digits follow it: `2e` is not a number, and the `e` of
+    // a unit is not an exponent.
+    if i < b.len() && (b[i] == b'e' || b[i] == b'E') {
+        let mut j = i + 1;
+        if j < b.len() && (b[j] == b'+' || b[j] == b'-') {
+            j += 1;
+        }
+        let exp_digits = j;
+        while j < b.len() && b[j].is_ascii_digit() {
+            j += 1;
+        }
+        if j > exp_digits {
+            i = j;
+        }
+    }
+    i
+}
+
+/// Lower case, no spaces, superscript three and the degree sign spelled plainly.
+fn normalise(unit: &str) -> String {
+    unit.chars()
+        .filter(|c| !c.is_whitespace())
+        .map(|c| match c {
+            '³' => '3',
+            'º' => '°',
+            _ => c,
+        })
+        .collect::<String>()
+        .to_lowercase()
+}
+
+fn trim_number(text: &str) -> &str {
+    let t = text.trim();
+    t[..number_prefix_len(t)].trim()
+}
+
+fn base_spelling(base: &str) -> &'static str {
+    match base {
+        "mbar" => "mbar",
+        "bar" => "bar",
+        "mpa" => "MPa",
+        "kpa" => "kPa",
+        "hpa" => "hPa",
+        "psi" => "psi",
+        _ => "Pa",
+    }
+}
+
+fn unknown_unit(unit: &str, kind: &str, accepted: &str) -> String {
+    format!("'{unit}' is not a unit of {kind}; {accepted}")
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use approx::assert_relative_eq;
+
+    fn pa(r: PressureReading) -> (bool, f64) {
+        match r {
+            PressureReading::Gauge(p) => (true, p.get::<pascal>()),
+            PressureReading::Absolute(p) => (false, p.get::<pascal>()),
+        }
+    }
+
+    #[test]
+    fn pressure_spellings_say_gauge_or_absolute() {
+        assert_eq!(pa(parse_pressure("10 barg").unwrap()), (true, 1.0e6));
+        assert_eq!(pa(parse_pressure("10barg").unwrap()), (true, 1.0e6));
+        assert_eq!(pa(parse_pressure("10 bar(g)").unwrap()), (true, 1.0e6));
+        assert_eq!(pa(parse_pressure("2.5 BARA").unwrap()), (false, 2.5e5));
+        assert_eq!(pa(parse_pressure("0.8 MPa(g)").unwrap()), (true, 0.8e6));
+        assert_eq!(
+            pa(parse_pressure("101.3 kPa(a)").unwrap()),
+            (false, 101.3e3)
+        );
+        assert_eq!(pa(parse_pressure("500 mbara").unwrap()), (false, 5.0e4));
+        // 1 psi = 6894.757293168 Pa exactly (NIST SP 811, appendix B.8).
+        let (g, v) = pa(parse_pressure("150 psig").unwrap());
+        assert!(g);
+        assert_relative_eq!(v, 150.0 * 6894.757293168, max_relative = 1e-12);
+    }
+
+    #[test]
+    fn bare_pressure_units_are_refused_with_both_spellings() {
+        for bare in ["10 bar", "150 psi", "100 kPa", "1 MPa", "5 Pa"] {
+            let e = parse_pressure(bare).unwrap_err();
+            assert!(e.contains("gauge or absolute"), "{bare}: {e}");
+        }
+        let e = parse_pressure("10 bar").unwrap_err();
+        assert!(e.contains("10 barg") && e.contains("10 bara"), "{e}");
+    }
+
+    #[test]
+    fn numbers_must_be_finite_and_carry_units() {
+        assert!(parse_volume("1e400 m3").unwrap_err().contains("too large"));
+        assert!(parse_volume("nan m3").unwrap_err().contains("number"));
+        assert!(parse_volume("inf m3").unwrap_err().contains("number"));
+        assert!(parse_volume("2").unwrap_err().contains("no unit"));
+        assert!(parse_volume("two m3").unwrap_err().contains("number"));
+        assert!(parse_volume("2 barg")
+            .unwrap_err()
+            .contains("not a unit of a volume"));
+    }
+
+    #[test]
+    fn volumes_lengths_and_times_convert_exactly() {
+        assert_relative_eq!(parse_volume("500 L").unwrap().get::<cubic_meter>(), 0.5);
+        assert_relative_eq!(parse_volume("2 m³").unwrap().get::<cubic_meter>(), 2.0);
+        // 1 ft = 0.3048 m and 1 US gal = 231 in³ = 3.785411784 L, both exact by definition.
+        assert_relative_eq!(
+            parse_volume("1.5 ft3").unwrap().get::<cubic_meter>(),
+            1.5 * 0.028316846592,
+            max_relative = 1e-12
+        );
+        assert_relative_eq!(
+            parse_volume("20 gal").unwrap().get::<cubic_meter>(),
+            0.07570823568,
+            max_relative = 1e-12
+        );
+        assert_relative_eq!(parse_length("0.5 in").unwrap().get::<meter>(), 0.0127);
+        assert_relative_eq!(parse_length("10mm").unwrap().get::<meter>(), 0.01);
+        assert_relative_eq!(parse_time("15 min").unwrap().get::<second>(), 900.0);
+    }
+
+    #[test]
+    fn temperatures_in_every_scale() {
+        let k = |s| parse_temperature(s).unwrap().get::<kelvin>();
+        assert_relative_eq!(k("20 C"), 293.15, max_relative = 1e-12);
+        assert_relative_eq!(k("20 °C"), 293.15, max_relative = 1e-12);
+        assert_relative_eq!(k("68 F"), 293.15, max_relative = 1e-12);
+        assert_relative_eq!(k("293.15 K"), 293.15);
+        assert_relative_eq!(k("-40 F"), k("-40 C"), max_relative = 1e-12);
+        assert!(parse_temperature("-300 C")
+            .unwrap_err()
+            .contains("absolute zero"));
+        assert!(parse_temperature("0 K")
+            .unwrap_err()
+            .contains("absolute zero"));
+    }
+
+    #[test]
+    fn energies_and_tnt_constants() {
+        assert_relative_eq!(parse_energy("1.5 MJ").unwrap().get::<joule>(), 1.5e6);
+        // 1000 cal/g (thermochemical calorie) is the TNT convention, 4.184 MJ/kg.
+        assert_relative_eq!(
+            parse_specific_energy("1000 cal/g")
+                .unwrap()
+                .get::<joule_per_kilogram>(),
+            4.184e6,
+            max_relative = 1e-12
+        );
+    }
+
+    #[test]
+    fn overpressure_needs_no_gauge_mark_but_refuses_absolute() {
+        assert_relative_eq!(
+            parse_overpressure("6.9 kPa").unwrap().get::<pascal>(),
+            6900.0
+        );
+        assert_relative_eq!(
+            parse_overpressure("1 psi").unwrap().get::<pascal>(),
+            6894.757293168,
+            max_relative = 1e-12
+        );
+        assert!(parse_overpressure("7 kPa(a)").is_err());
+    }
+}

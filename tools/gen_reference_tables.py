@@ -1,0 +1,1028 @@
+#!/usr/bin/env python3
+"""Regenerates the reference tables in tests/reference/ from general-purpose reference libraries.
+
+    pip install -r tools/requirements-reference.txt
+    python3 tools/gen_reference_tables.py            # writes tests/reference/*.csv and its README.md
+
+The tables are what the project's tests check pvhazard against; pvhazard itself never calls
+these libraries (they check us, so they cannot also compute for us). Sources:
+
+- CoolProp (HEOS backend): the reference multiparameter Helmholtz-energy equation of state of
+  each gas, as CoolProp implements it. Every property row is evaluated at (density,
+  temperature), where the equation is explicit, so each row is the equation itself, with no
+  solver tolerance in it; densities at (p, T) are found by Newton's method on that explicit form
+  and polished to machine precision.
+- ambiance (ICAO Standard Atmosphere 1993 = ISO 2533 up to 32 km) and fluids
+  (U.S. Standard Atmosphere 1976): the atmosphere from elevation, two independent
+  implementations that must agree.
+
+What is not a table lookup in a library is computed here from the equation of state by the
+methods the project's rules use (stored energy, fast fill, blow-down, choked nozzle flux), so
+the derived tables check pvhazard's real-gas rules end to end. Phase equilibrium is solved by
+the Maxwell criterion on the equation itself (equal pressure and Gibbs energy), also for air,
+which CoolProp treats as a pseudo-pure fluid whose own saturation lines come from ancillary
+bubble and dew curves; for the pure fluids the Maxwell solution is checked against CoolProp's.
+
+Before writing anything the script runs the same derived-table code on an ideal gas and checks
+it against the closed forms and the check values in shared/reference-notes.md; it stops with a
+non-zero exit if any self-check fails. Output is deterministic: rerunning with the same library
+versions gives byte-identical files.
+"""
+import argparse
+import csv
+import importlib.metadata
+import math
+import os
+import platform
+import re
+import sys
+from collections import namedtuple
+
+import ambiance
+import CoolProp
+import CoolProp.CoolProp as CP
+import fluids
+import fluids.atmosphere
+import numpy
+from scipy import integrate, optimize
+
+# The versions these tables were made with; tools/requirements-reference.txt pins the same.
+PINNED = {"CoolProp": "8.0.0", "ambiance": "1.3.1", "fluids": "1.3.1", "scipy": "1.17.1", "numpy": "2.4.6"}
+
+# pvhazard's gas names -> CoolProp's fluid names.
+GASES = [
+    ("air", "Air"),
+    ("nitrogen", "Nitrogen"),
+    ("oxygen", "Oxygen"),
+    ("argon", "Argon"),
+    ("helium", "Helium"),
+    ("hydrogen", "Hydrogen"),
+    ("methane", "Methane"),
+    ("carbon-dioxide", "CarbonDioxide"),
+]
+
+P_ATM = 101325.0
+BAR = 1e5
+# Energy properties are tabulated as differences from this state of each gas (gas phase for all
+# eight), because absolute u, h, s depend on each library's reference state.
+T_REF, P_REF = 300.0, P_ATM
+
+# Property grid: the issue's 200-400 K and pressures to 1000 bar (or the equation's limit), plus
+# colder temperatures that vent-downs reach, and a few fill and service temperatures.
+GRID_T = [90.0, 100.0, 110.0, 125.0, 150.0, 175.0, 200.0, 225.0, 233.15, 250.0, 273.15, 288.15,
+          293.15, 300.0, 313.15, 325.0, 338.15, 350.0, 358.15, 375.0, 400.0]
+GRID_P = [1e3, 1e4, 0.5 * BAR, 1 * BAR, P_ATM, 2 * BAR, 5 * BAR, 10 * BAR, 20 * BAR, 35 * BAR,
+          50 * BAR, 70 * BAR, 100 * BAR, 150 * BAR, 200 * BAR, 250 * BAR, 300 * BAR, 350 * BAR,
+          400 * BAR, 500 * BAR, 600 * BAR, 700 * BAR, 800 * BAR, 900 * BAR, 1000 * BAR]
+P_GRID_MAX = 1000 * BAR
+# Grid points this close to the saturation pressure (relative) are left out: which root a
+# solver should take there is a matter of tolerance, not of physics.
+SAT_BAND = 0.02
+
+State = namedtuple("State", "rho T p u h s cv cp w dpdrho")
+
+
+class OutOfRange(Exception):
+    """A state the equation of state does not cover (below the triple point, say)."""
+
+
+# --------------------------------------------------------------------------------------------
+# Fluids: one interface, a CoolProp equation of state or an ideal gas behind it.
+
+
+class RealFluid:
+    """A CoolProp HEOS equation of state, evaluated only where it is explicit: at (rho, T)."""
+
+    def __init__(self, name, cp_name):
+        self.name, self.cp_name = name, cp_name
+        self.raw = CP.AbstractState("HEOS", cp_name)
+        # An imposed phase makes CoolProp evaluate the equation as it is at (rho, T), with no
+        # phase split of its own; the Maxwell construction below does the splitting.
+        self.raw.specify_phase(CP.iphase_gas)
+        self.flash = CP.AbstractState("HEOS", cp_name)
+        f = self.flash
+        self.M = f.molar_mass()
+        self.R_molar = f.gas_constant()
+        self.R = self.R_molar / self.M
+        self.Tc, self.pc, self.rhoc = f.T_critical(), f.p_critical(), f.rhomass_critical()
+        self.Ttriple = f.Ttriple()
+        self.Tmin, self.Tmax, self.pmax = f.Tmin(), f.Tmax(), f.pmax()
+        self.pseudo_pure = CP.get_fluid_param_string(cp_name, "pure") == "false"
+
+    def at(self, rho, T):
+        r = self.raw
+        r.update(CP.DmassT_INPUTS, rho, T)
+        return State(rho, T, r.p(), r.umass(), r.hmass(), r.smass(), r.cvmass(), r.cpmass(),
+                     r.speed_sound(), r.first_partial_deriv(CP.iP, CP.iDmass, CP.iT))
+
+    def check_T(self, T):
+        if not (self.Tmin <= T <= self.Tmax):
+            raise OutOfRange(f"{self.name}: T = {T} K outside {self.Tmin}..{self.Tmax} K")
+
+    def check_p(self, p, T):
+        """The equation's pressure limit, and the melting line: no solid states."""
+        if p > self.pmax:
+            raise OutOfRange(f"{self.name}: p = {p} Pa above {self.pmax} Pa")
+        try:
+            T_melt = self.flash.melting_line(CP.iT, CP.iP, p)
+        except ValueError:
+            return  # below the melting curve's lowest pressure (the triple point): no melting
+        if T < T_melt:
+            raise OutOfRange(f"{self.name}: T = {T} K below the melting line ({T_melt} K) at {p} Pa")
+
+    def density_guess(self, p, T, phase):
+        f = self.flash
+        f.specify_phase(phase)
+        try:
+            f.update(CP.PT_INPUTS, p, T)
+            return f.rhomass()
+        finally:
+            f.unspecify_phase()
+
+    def saturation_guess(self, T):
+        f = self.flash
+        f.update(CP.QT_INPUTS, 0.0, T)
+        rho_l = f.rhomass()
+        f.update(CP.QT_INPUTS, 1.0, T)
+        return rho_l, f.rhomass()
+
+    def coolprop_saturation(self, T):
+        """CoolProp's own saturation (for pure fluids, its Maxwell solution): p, rho_l, rho_v."""
+        f = self.flash
+        f.update(CP.QT_INPUTS, 0.0, T)
+        p, rho_l = f.p(), f.rhomass()
+        f.update(CP.QT_INPUTS, 1.0, T)
+        return p, rho_l, f.rhomass()
+
+
+class IdealGas:
+    """A calorically perfect ideal gas with the same interface, for the self-checks."""
+
+    def __init__(self, name, R, gamma):
+        self.name, self.R, self.gamma = name, R, gamma
+        self.cv = R / (gamma - 1.0)
+        self.Tc = self.pc = 0.0  # never subcritical: no phase split
+        self.Tmin, self.Tmax, self.pmax = 1e-6, 1e6, 1e12
+
+    def at(self, rho, T):
+        p = rho * self.R * T
+        u = self.cv * T
+        s = self.cv * math.log(T) - self.R * math.log(rho)
+        return State(rho, T, p, u, u + p / rho, s, self.cv, self.cv + self.R,
+                     math.sqrt(self.gamma * self.R * T), self.R * T)
+
+    def check_T(self, T):
+        pass
+
+    def check_p(self, p, T):
+        pass
+
+    def density_guess(self, p, T, phase):
+        return p / (self.R * T)
+
+
+# --------------------------------------------------------------------------------------------
+# Equation-of-state solvers (Newton on the explicit form, finished to machine precision).
+
+
+def newton(fun, x0, what, rel=1e-13, max_iter=60):
+    """Newton's method for a scalar: fun(x) -> (residual, derivative)."""
+    x = x0
+    for _ in range(max_iter):
+        r, d = fun(x)
+        step = r / d
+        x -= step
+        if abs(step) <= rel * abs(x):
+            r, d = fun(x)  # one more step: the last one is then below rounding
+            return x - r / d
+    raise RuntimeError(f"no convergence: {what}")
+
+
+def maxwell(fl, T):
+    """Saturation at T by the Maxwell criterion on the equation itself: (p, rho_l, rho_v)."""
+    fl.check_T(T)
+    if T >= fl.Tc:
+        raise ValueError(f"{fl.name}: no saturation at {T} K (critical {fl.Tc} K)")
+    rho_l, rho_v = fl.saturation_guess(T)
+    extra = 2  # steps after convergence, to take the solution to rounding level
+    for _ in range(100):
+        a, b = fl.at(rho_l, T), fl.at(rho_v, T)
+        g_l, g_v = a.h - T * a.s, b.h - T * b.s
+        f1, f2 = a.p - b.p, g_l - g_v
+        # dg/drho at constant T is (dp/drho)/rho
+        j11, j12, j21, j22 = a.dpdrho, -b.dpdrho, a.dpdrho / rho_l, -b.dpdrho / rho_v
+        det = j11 * j22 - j12 * j21
+        d_l = (f1 * j22 - f2 * j12) / det
+        d_v = (j11 * f2 - j21 * f1) / det
+        rho_l, rho_v = rho_l - d_l, rho_v - d_v
+        if abs(d_l) <= 1e-12 * rho_l and abs(d_v) <= 1e-12 * rho_v:
+            extra -= 1
+            if extra < 0:
+                break
+    else:
+        raise RuntimeError(f"{fl.name}: Maxwell solution did not converge at {T} K")
+    a, b = fl.at(rho_l, T), fl.at(rho_v, T)
+    if not (rho_l > fl.rhoc > rho_v):
+        raise RuntimeError(f"{fl.name}: trivial Maxwell solution at {T} K")
+    return 0.5 * (a.p + b.p), rho_l, rho_v
+
+
+def saturation_near(fl, T):
+    """maxwell(fl, T), or within 1 % of the critical temperature, where Newton's method on the
+    Maxwell conditions may not converge, CoolProp's saturation (used only to pick a root side),
+    or None where neither is to be had."""
+    try:
+        return maxwell(fl, T)
+    except (RuntimeError, ValueError, ZeroDivisionError):
+        if T < 0.99 * fl.Tc:
+            raise
+    try:
+        return fl.coolprop_saturation(T)
+    except ValueError:
+        return None  # (air: its ancillary bubble and dew curves end before the critical point)
+
+
+def saturation_temperature(fl, p):
+    """Maxwell saturation temperature at p (below the critical pressure)."""
+    T_lo, T_hi = fl.Ttriple, fl.Tc * 0.99
+    if not (maxwell(fl, T_lo)[0] <= p <= maxwell(fl, T_hi)[0]):
+        raise OutOfRange(f"{fl.name}: no liquid-vapour saturation at {p} Pa")
+    return optimize.brentq(lambda T: maxwell(fl, T)[0] - p, T_lo, T_hi, xtol=1e-14, rtol=1e-15)
+
+
+def density(fl, p, T, root=None):
+    """Density at (p, T). Below the critical temperature the Maxwell pressure picks the root
+    (or `root` = 'gas' / 'liquid' forces one); returns (rho, phase name)."""
+    fl.check_T(T)
+    fl.check_p(p, T)
+    sat = saturation_near(fl, T) if T < fl.Tc else None
+    if T < fl.Tc and sat is None and root is None:
+        raise RuntimeError(f"{fl.name}: which root at {p} Pa, {T} K, this close to critical?")
+    if T < fl.Tc:
+        psat, rho_l, rho_v = sat or (None, math.inf, 0.0)
+        root = root or ("gas" if p < psat else "liquid")
+        phase = root
+        guess = fl.density_guess(p, T, CP.iphase_gas if root == "gas" else CP.iphase_liquid)
+    else:
+        phase = ("supercritical" if p >= fl.pc else "supercritical_gas")
+        guess = fl.density_guess(p, T, CP.iphase_supercritical if p >= fl.pc
+                                 else CP.iphase_supercritical_gas)
+    rho = newton(lambda r: (lambda s: (s.p - p, s.dpdrho))(fl.at(r, T)), guess,
+                 f"{fl.name} density at {p} Pa, {T} K")
+    st = fl.at(rho, T)
+    if st.dpdrho <= 0:
+        raise RuntimeError(f"{fl.name}: mechanically unstable root at {p} Pa, {T} K")
+    if T < fl.Tc:
+        if (root == "gas" and rho > rho_v * (1 + 1e-9)) or (root == "liquid" and rho < rho_l * (1 - 1e-9)):
+            raise RuntimeError(f"{fl.name}: {root} root landed inside the dome at {p} Pa, {T} K")
+        if p >= fl.pc:
+            phase = "supercritical_liquid"
+    return rho, phase
+
+
+def check_single_phase(fl, rho, T):
+    """Raises if (rho, T) lies inside the liquid-vapour dome of the Maxwell construction."""
+    sat = saturation_near(fl, T) if T < fl.Tc else None
+    if sat is not None:
+        _, rho_l, rho_v = sat
+        if rho_v * (1 + 1e-12) < rho < rho_l * (1 - 1e-12):
+            raise OutOfRange(f"{fl.name}: rho = {rho}, T = {T} K is two-phase")
+
+
+def temperature_on_isentrope(fl, rho, s0, T_guess):
+    """T with s(rho, T) = s0 (single phase); ds/dT at constant rho is cv/T."""
+    try:
+        # Newton's method in ln T, where ds/d(ln T) at constant rho is cv: exact in one step
+        # for an ideal gas of constant cv, and nearly so for a real one.
+        T = math.exp(newton(lambda x: (lambda st: (st.s - s0, st.cv))(fl.at(rho, math.exp(x))),
+                            math.log(T_guess), f"{fl.name} isentrope at rho = {rho}"))
+    except (RuntimeError, ValueError) as e:
+        # Newton's method on the single-phase equation fails where the isentrope has entered
+        # the two-phase region (or left the equation's range).
+        raise OutOfRange(f"{fl.name}: no single-phase state at rho = {rho}, s = {s0}: {e}")
+    fl.check_T(T)
+    check_single_phase(fl, rho, T)
+    return T
+
+
+End = namedtuple("End", "T rho u h quality")
+
+
+def isentropic_end(fl, p, s, T_start):
+    """The equilibrium state at pressure p with entropy s, reached by isentropic expansion from a
+    state at T_start. May be two-phase (quality = vapour mass fraction; 1 for a single-phase gas,
+    empty (None) above the critical pressure or temperature)."""
+    if fl.Tc > 0 and p < fl.pc and p < maxwell(fl, fl.Ttriple)[0]:
+        # Below the triple-point pressure (carbon dioxide at 1 atm): a gas down to the triple
+        # point, a solid below it, which the equation does not cover.
+        T_lo, root = fl.Ttriple, "gas"
+        if density_state(fl, p, T_lo, root).s > s:
+            raise OutOfRange(f"{fl.name}: isentrope to {p} Pa ends below the triple point")
+    elif fl.Tc > 0 and p < fl.pc:
+        T_sat = saturation_temperature(fl, p)
+        psat, rho_l, rho_v = maxwell(fl, T_sat)
+        liq, vap = fl.at(rho_l, T_sat), fl.at(rho_v, T_sat)
+        if s <= vap.s:
+            if s < liq.s:
+                raise OutOfRange(f"{fl.name}: isentrope ends in the compressed liquid")
+            x = (s - liq.s) / (vap.s - liq.s)
+            v = (1 - x) / rho_l + x / rho_v
+            return End(T_sat, 1 / v, liq.u + x * (vap.u - liq.u), liq.h + x * (vap.h - liq.h), x)
+        T_lo = T_sat * (1 + 1e-12)
+        root = "gas"
+    else:
+        T_lo = fl.Tmin if fl.Tc > 0 else T_start * 1e-6
+        root = None
+        if density_state(fl, p, T_lo, root).s > s:
+            raise OutOfRange(f"{fl.name}: isentrope to {p} Pa ends below {fl.Tmin} K")
+    T = optimize.brentq(lambda T: density_state(fl, p, T, root).s - s, T_lo, T_start,
+                        xtol=1e-13, rtol=1e-15)
+    st = density_state(fl, p, T, root)
+    quality = 1.0 if p < fl.pc else None
+    return End(T, st.rho, st.u, st.h, quality)
+
+
+def density_state(fl, p, T, root=None):
+    return fl.at(density(fl, p, T, root)[0], T)
+
+
+# --------------------------------------------------------------------------------------------
+# The rules' real-gas forms.
+
+
+def stored_energy(fl, V, p1, T1, pa):
+    """Isothermal (Helmholtz), isentropic (internal energy to the isentropic end state at pa) and
+    availability (non-flow exergy, dead state pa, T1) of the gas in V at (p1, T1)."""
+    s1 = density_state(fl, p1, T1)
+    s0 = density_state(fl, pa, T1)
+    m = s1.rho * V
+    isothermal = m * ((s1.u - T1 * s1.s) - (s0.u - T1 * s0.s))
+    end = isentropic_end(fl, pa, s1.s, T1)
+    isentropic = m * (s1.u - end.u)
+    availability = m * ((s1.u - s0.u) + pa * (1 / s1.rho - 1 / s0.rho) - T1 * (s1.s - s0.s))
+    return dict(mass=m, rho1=s1.rho, isothermal=isothermal, isentropic=isentropic,
+                availability=availability, end=end)
+
+
+def fast_fill(fl, p_i, T_i, p_f, p_s, T_s, T_amb):
+    """Adiabatic fill of a rigid tank: rho_f*u_f - rho_i*u_i = (rho_f - rho_i)*h_in, with h_in
+    the supply enthalpy at (p_s, T_s). Returns T_f, rho_i, rho_f and the pressure once the
+    gas (constant mass) has cooled to T_amb."""
+    si = density_state(fl, p_i, T_i)
+    h_in = density_state(fl, p_s, T_s).h
+
+    def residual(T):
+        sf = density_state(fl, p_f, T)
+        return sf.rho * (sf.u - h_in) - si.rho * (si.u - h_in)
+
+    T_lo = 0.9 * min(T_i, T_s)  # a fill heats the gas: the root lies above this
+    T_hi = min(3 * max(T_i, T_s), fl.Tmax)
+    T_f = optimize.brentq(residual, T_lo, T_hi, xtol=1e-13, rtol=1e-15)
+    rho_f = density(fl, p_f, T_f)[0]
+    check_single_phase(fl, rho_f, T_amb)
+    return dict(T_f=T_f, rho_i=si.rho, rho_f=rho_f, settled=fl.at(rho_f, T_amb).p)
+
+
+def _isentrope(fl, st):
+    """The isentrope through stagnation state st, as a function of density."""
+    return lambda rho: fl.at(rho, temperature_on_isentrope(fl, rho, st.s, st.T * (rho / st.rho) ** 0.3))
+
+
+def sonic_state(fl, st):
+    """The state on the isentrope through st where the velocity sqrt(2*(h0 - h)) equals the
+    speed of sound: the throat of a choked nozzle, where rho*sqrt(2*(h0 - h)) is largest."""
+    throat = _isentrope(fl, st)
+
+    def sonic(rho):
+        t = throat(rho)
+        return 2 * (st.h - t.h) - t.w ** 2
+
+    # Step down from the stagnation density, so that no state beyond the throat is visited
+    # (beyond it an isentrope may enter the two-phase region that the throat never reaches).
+    rho_hi = st.rho * (1 - 1e-9)
+    rho_lo = rho_hi * 0.9
+    while sonic(rho_lo) <= 0:
+        rho_hi, rho_lo = rho_lo, rho_lo * 0.9
+    return throat(optimize.brentq(sonic, rho_lo, rho_hi, xtol=1e-300, rtol=1e-15))
+
+
+def nozzle_flux(fl, st, pa):
+    """Isentropic nozzle from stagnation state st to back pressure pa: the mass flux
+    rho*sqrt(2*(h0 - h)) at the throat, which is sonic when the sonic pressure is at or above pa
+    and at pa otherwise. Returns (flux kg/(m2 s), throat State, choked)."""
+    t = sonic_state(fl, st)
+    if t.p >= pa:
+        return t.rho * t.w, t, True
+    throat = _isentrope(fl, st)
+    rho_t = optimize.brentq(lambda r: throat(r).p - pa, t.rho, st.rho, xtol=1e-300, rtol=1e-15)
+    t = throat(rho_t)
+    return t.rho * math.sqrt(max(2 * (st.h - t.h), 0.0)), t, False
+
+
+def vent(fl, process, V, p0, T0, d, Cd, pa, p_end):
+    """Blow-down of a rigid vessel through an orifice to p_end: the gas left in the vessel is
+    isothermal (at T0) or isentropic (adiabatic vessel), and the orifice is an isentropic
+    nozzle. t = V/(Cd*A) * integral of drho/G(rho) from rho_end to rho0."""
+    A = math.pi * d * d / 4
+    rho0 = density(fl, p0, T0)[0]
+    s0 = fl.at(rho0, T0).s
+
+    def vessel(rho):
+        if process == "isothermal":
+            return fl.at(rho, T0)
+        return fl.at(rho, temperature_on_isentrope(fl, rho, s0, T0 * (rho / rho0) ** 0.3))
+
+    if process == "isothermal":
+        rho_end = density(fl, p_end, T0)[0]
+    else:
+        end = isentropic_end(fl, p_end, s0, T0)
+        if end.quality is not None and end.quality < 1:
+            raise OutOfRange(f"{fl.name}: the vessel's gas would condense before {p_end} Pa")
+        rho_end = end.rho
+
+    def inv_flux(rho):
+        return 1.0 / nozzle_flux(fl, vessel(rho), pa)[0]
+
+    # The flow unchokes where the sonic throat pressure reaches pa: split the integral there.
+    pieces = [rho_end, rho0]
+    def unchoking(rho):
+        return sonic_state(fl, vessel(rho)).p - pa
+
+    if unchoking(rho0) > 0 > unchoking(rho_end):
+        rho_u = optimize.brentq(unchoking, rho_end, rho0, xtol=1e-300, rtol=1e-15)
+        pieces = [rho_end, rho_u, rho0]
+    total = 0.0
+    for a, b in zip(pieces, pieces[1:]):
+        val, err = integrate.quad(inv_flux, a, b, epsabs=0.0, epsrel=1e-12, limit=200)
+        if err > 1e-9 * abs(val):
+            raise RuntimeError(f"{fl.name}: vent quadrature error {err} on {val}")
+        total += val
+    end = vessel(rho_end)
+    return dict(time=V / (Cd * A) * total, T_end=end.T, rho0=rho0, rho_end=rho_end,
+                initial_flow=Cd * A * nozzle_flux(fl, vessel(rho0), pa)[0])
+
+
+# --------------------------------------------------------------------------------------------
+# Self-checks on an ideal gas: closed forms and shared/reference-notes.md.
+
+
+def self_checks():
+    results = []
+
+    def check(name, got, want, tol):
+        """Relative tolerance; for want == 0, absolute."""
+        ok = abs(got - want) <= tol * (abs(want) if want else 1.0)
+        results.append((name, got, want, tol, ok))
+
+    air = IdealGas("ideal air", 287.05, 1.4)
+    g = air.gamma
+    # Stored energy, reference-notes.md: air, gamma 1.4, 1 m3, 1.0 MPa(g), pa = 101 kPa, 293.15 K.
+    pa, p1, V, T = 101e3, 1.0e6 + 101e3, 1.0, 293.15
+    e = stored_energy(air, V, p1, T, pa)
+    check("ideal isentropic energy = closed form", e["isentropic"],
+          p1 * V / (g - 1) * (1 - (pa / p1) ** ((g - 1) / g)), 1e-12)
+    check("ideal isothermal energy = p1 V ln(p1/pa)", e["isothermal"], p1 * V * math.log(p1 / pa), 1e-12)
+    check("ideal availability = closed form", e["availability"],
+          p1 * V * (math.log(p1 / pa) - (1 - pa / p1)), 1e-12)
+    check("reference-notes isentropic 1.362 MJ", e["isentropic"], 1.362e6, 5e-4)
+    check("reference-notes isothermal 2.630 MJ", e["isothermal"], 2.630e6, 5e-4)
+    check("reference-notes availability 1.630 MJ", e["availability"], 1.630e6, 5e-4)
+    # Fast fill, reference-notes.md: T0 = Ti = 293.15 K, 50 -> 300 bar(a) and 100 -> 300 bar(a).
+    for p_i, want in ((50 * BAR, 384.8), (100 * BAR, 362.1)):
+        f = fast_fill(air, p_i, T, 300 * BAR, 300 * BAR, T, T)
+        closed = 300 * BAR / (p_i / T + (300 * BAR - p_i) / (g * T))
+        check(f"ideal fill {p_i / BAR:.0f}->300 bar = closed form", f["T_f"], closed, 1e-12)
+        check(f"reference-notes fill {p_i / BAR:.0f}->300 bar {want} K", f["T_f"], want, 2e-4)
+    # Nozzle: the choked flux of an ideal gas is p0*Psi/sqrt(R*T0), Psi = 0.6847 for 1.4.
+    st = air.at(10 * BAR / (air.R * T), T)
+    flux, throat, choked = nozzle_flux(air, st, P_ATM)
+    psi = math.sqrt(g) * (2 / (g + 1)) ** ((g + 1) / (2 * (g - 1)))
+    check("ideal choked flux = p0*Psi/sqrt(R T0)", flux, 10 * BAR * psi / math.sqrt(air.R * T), 1e-12)
+    check("ideal critical pressure ratio", throat.p / (10 * BAR), (2 / (g + 1)) ** (g / (g - 1)), 1e-12)
+    st = air.at(1.5 * BAR / (air.R * T), T)
+    flux, throat, choked = nozzle_flux(air, st, P_ATM)
+    r = P_ATM / (1.5 * BAR)
+    sub = 1.5 * BAR * math.sqrt(2 * g / ((g - 1) * air.R * T) * (r ** (2 / g) - r ** ((g + 1) / g)))
+    check("ideal subsonic flux = closed form", flux, sub, 1e-12)
+    # Blow-down, reference-notes.md: R 287.05, 1 m3, 10 bar(g), 293.15 K, 10 mm, Cd 1.
+    p0 = 10 * BAR + P_ATM
+    A = math.pi * 0.01 ** 2 / 4
+    tau = 1.0 / (A * psi * math.sqrt(air.R * T))
+    check("reference-notes tau 64.10 s", tau, 64.10, 1e-4)
+    p = 5 * BAR + P_ATM
+    v = vent(air, "isothermal", 1.0, p0, T, 0.01, 1.0, P_ATM, p)
+    check("ideal isothermal vent = tau ln(p0/p)", v["time"], tau * math.log(p0 / p), 1e-9)
+    check("reference-notes isothermal vent 38.8 s", v["time"], 38.8, 2e-3)
+    v = vent(air, "isentropic", 1.0, p0, T, 0.01, 1.0, P_ATM, p)
+    check("ideal isentropic vent = closed form", v["time"],
+          2 * tau / (g - 1) * ((p0 / p) ** ((g - 1) / (2 * g)) - 1), 1e-9)
+    check("reference-notes isentropic vent 28.9 s", v["time"], 28.9, 2e-3)
+    check("ideal isentropic vent end temperature", v["T_end"], T * (p / p0) ** ((g - 1) / g), 1e-12)
+    v = vent(air, "isothermal", 1.0, p0, T, 0.01, 1.0, P_ATM, 1.01 * P_ATM)
+    check("reference-notes isothermal vent to 1.01 pa 165 s", v["time"], 165.0, 5e-3)
+    v = vent(air, "isentropic", 1.0, p0, T, 0.01, 1.0, P_ATM, 1.01 * P_ATM)
+    check("reference-notes isentropic vent to 1.01 pa 142 s", v["time"], 142.0, 5e-3)
+    check("reference-notes isentropic vent to 1.01 pa 149 K", v["T_end"], 149.0, 5e-3)
+    # Real gas, by other means: CoolProp's own (p, s) flashes, the flux maximised by a bounded
+    # search instead of the sonic condition, Gauss-Legendre quadrature over pressure.
+    air_r = RealFluid("air", "Air")
+    for process in ("isothermal", "isentropic"):
+        mine = vent(air_r, process, 1.0, p0, T, 0.01, 1.0, P_ATM, p)["time"]
+        check(f"real air vent 10 -> 5 bar(g), {process}: independent integration", mine,
+              independent_vent_time("Air", process, 1.0, p0, T, 0.01, P_ATM, p), 1e-7)
+    n2 = RealFluid("nitrogen", "Nitrogen")
+    e = stored_energy(n2, 1.0, 200 * BAR, T, P_ATM)
+    s1 = CP.PropsSI("S", "P", 200 * BAR, "T", T, "Nitrogen")
+    u_end = CP.PropsSI("U", "P", P_ATM, "S", s1, "Nitrogen")
+    check("real nitrogen 200 bar isentropic energy: CoolProp's (p, s) flash for the two-phase end",
+          e["isentropic"], e["mass"] * (CP.PropsSI("U", "P", 200 * BAR, "T", T, "Nitrogen") - u_end), 1e-8)
+    # Real-gas fast fill, reference-notes.md (computed there with CoolProp).
+    f = fast_fill(air_r, P_ATM, T, 300 * BAR, 300 * BAR, T, T)
+    check("reference-notes real air fill 1.013 -> 300 bar 396.3 K", f["T_f"], 396.3, 2e-4)
+    h2 = RealFluid("hydrogen", "Hydrogen")
+    f = fast_fill(h2, 20 * BAR, 288.15, 700 * BAR, 700 * BAR, 233.15, 288.15)
+    check("reference-notes real hydrogen fill 20 -> 700 bar, supply -40 C: 369 K", f["T_f"], 369.0, 2e-3)
+    # The Maxwell solution agrees with CoolProp's own saturation for the pure fluids.
+    for name, cp_name in GASES:
+        fl = RealFluid(name, cp_name)
+        if fl.pseudo_pure:
+            continue
+        worst = 0.0
+        for frac in (0.1, 0.5, 0.9):
+            T_s = fl.Ttriple + frac * (fl.Tc - fl.Ttriple)
+            mine, theirs = maxwell(fl, T_s), fl.coolprop_saturation(T_s)
+            worst = max(worst, max(abs(a - b) / b for a, b in zip(mine, theirs)))
+        check(f"{name}: Maxwell saturation p, rho_l, rho_v vs CoolProp's: worst relative difference",
+              worst, 0.0, 1e-8)
+    return results
+
+
+def independent_vent_time(cp_name, process, V, p0, T0, d, pa, p_end, n=40):
+    """Vent time (Cd = 1) by PropsSI alone, for a vent that stays choked: t = V/A * integral
+    over vessel pressure of (drho/dp)/G, G the largest rho*sqrt(2*(h0 - h)) on the isentrope."""
+    P = CP.PropsSI
+    s_ves = P("S", "P", p0, "T", T0, cp_name)
+
+    def flux(pv):
+        s = s_ves if process == "isentropic" else P("S", "P", pv, "T", T0, cp_name)
+        h0 = P("H", "P", pv, "S", s, cp_name)
+
+        def neg(pt):
+            return -P("D", "P", pt, "S", s, cp_name) * math.sqrt(max(2 * (h0 - P("H", "P", pt, "S", s, cp_name)), 0.0))
+
+        return -optimize.minimize_scalar(neg, bounds=(max(pa, 0.3 * pv), pv), method="bounded",
+                                         options={"xatol": 1e-7 * pv}).fun
+
+    def drho_dp(pv):
+        if process == "isentropic":
+            return 1.0 / P("A", "P", pv, "S", s_ves, cp_name) ** 2
+        return P("d(D)/d(P)|T", "P", pv, "T", T0, cp_name)
+
+    xs, ws = numpy.polynomial.legendre.leggauss(n)
+    mid, half = (p0 + p_end) / 2, (p0 - p_end) / 2
+    return V / (math.pi * d * d / 4) * sum(w * half * drho_dp(mid + half * x) / flux(mid + half * x)
+                                           for x, w in zip(xs, ws))
+
+
+# --------------------------------------------------------------------------------------------
+# Tables.
+
+
+def fmt(x):
+    if x is None:
+        return ""
+    if isinstance(x, str):
+        return x
+    if isinstance(x, bool):
+        return "true" if x else "false"
+    if isinstance(x, int):
+        return str(x)
+    if not math.isfinite(x):
+        raise ValueError(f"non-finite value {x}")
+    return repr(float(x))
+
+
+def write_csv(path, header, rows):
+    with open(path, "w", newline="") as fh:
+        w = csv.writer(fh, lineterminator="\n")
+        w.writerow(header)
+        for row in rows:
+            w.writerow([fmt(x) for x in row])
+    return len(rows)
+
+
+def bibtex(key):
+    """Citation text for a CoolProp bibliography key, from the bibliography CoolProp ships."""
+    path = os.path.join(os.path.dirname(CoolProp.__file__), "CoolPropBibTeXLibrary.bib")
+    with open(path, encoding="utf-8", errors="replace") as fh:
+        text = fh.read()
+    m = re.search(r"@\w+\{" + re.escape(key) + r",(.*?)\n\}", text, re.S)
+    if not m:
+        return key
+    fields = {k.lower(): v.strip().strip("{}").strip() for k, v in
+              re.findall(r"^\s*(\w+)\s*=\s*\{(.*)\},?\s*$", m.group(1), re.M)}
+    parts = [fields.get("author", ""), f"({fields.get('year', '')})", fields.get("title", "").strip("{}")]
+    where = fields.get("journal")
+    if where:
+        where += f" {fields.get('volume', '')}, {fields.get('pages', '')}".rstrip(", ")
+        parts.append(where)
+    elif fields.get("note"):
+        parts.append(fields["note"])
+    if fields.get("doi"):
+        parts.append("doi:" + fields["doi"])
+    return ". ".join(p for p in parts if p)
+
+
+def eos_keys(cp_name):
+    return [k.strip() for k in CP.get_fluid_param_string(cp_name, "BibTeX-EOS").split(",")]
+
+
+def table_fluids(fluids_):
+    header = ["gas", "coolprop_name", "eos_bibtex_keys", "pseudo_pure", "molar_mass_kg_mol",
+              "eos_gas_constant_J_molK", "specific_gas_constant_J_kgK", "T_critical_K",
+              "p_critical_Pa", "rho_critical_kg_m3", "T_triple_K", "p_triple_Pa",
+              "T_min_K", "T_max_K", "p_max_Pa", "T_normal_boiling_K",
+              "T_ref_K", "p_ref_Pa", "rho_ref_kg_m3", "cp0_300K_J_kgK", "gamma0_300K"]
+    rows = []
+    for fl in fluids_:
+        # Triple-point pressure and normal boiling point by the Maxwell solution on the EOS.
+        p_triple = maxwell(fl, fl.Ttriple)[0]
+        T_nb = saturation_temperature(fl, P_ATM) if p_triple < P_ATM else None
+        rho_ref = density(fl, P_REF, T_REF)[0]
+        f = fl.flash
+        f.update(CP.DmassT_INPUTS, rho_ref, T_REF)
+        cp0 = f.cp0mass()
+        rows.append([fl.name, fl.cp_name, " ".join(eos_keys(fl.cp_name)), fl.pseudo_pure, fl.M,
+                     fl.R_molar, fl.R, fl.Tc, fl.pc, fl.rhoc, fl.Ttriple, p_triple,
+                     fl.Tmin, fl.Tmax, fl.pmax, T_nb, T_REF, P_REF, rho_ref, cp0, cp0 / (cp0 - fl.R)])
+    return header, rows
+
+
+def reference_state(fl):
+    return density_state(fl, P_REF, T_REF)
+
+
+def table_properties(fluids_):
+    header = ["gas", "T_K", "p_Pa", "rho_kg_m3", "phase", "Z", "u_minus_ref_J_kg",
+              "h_minus_ref_J_kg", "s_minus_ref_J_kgK", "cv_J_kgK", "cp_J_kgK", "w_m_s"]
+    rows = []
+    for fl in fluids_:
+        ref = reference_state(fl)
+        for T in GRID_T:
+            if T < fl.Tmin + 0.5 or T > fl.Tmax:
+                continue
+            psat = maxwell(fl, T)[0] if T < fl.Tc else None
+            for p in GRID_P:
+                if p > min(fl.pmax, P_GRID_MAX) * (1 + 1e-12):
+                    continue
+                if psat is not None and abs(p - psat) < SAT_BAND * psat:
+                    continue
+                try:
+                    rho, phase = density(fl, p, T)
+                except OutOfRange:
+                    continue  # a solid: below the melting line
+                st = fl.at(rho, T)
+                rows.append([fl.name, T, st.p, rho, phase, st.p / (rho * fl.R * T),
+                             st.u - ref.u, st.h - ref.h, st.s - ref.s, st.cv, st.cp, st.w])
+    return header, rows
+
+
+def table_saturation(fluids_):
+    header = ["gas", "T_K", "p_Pa", "rho_liquid_kg_m3", "rho_vapour_kg_m3",
+              "u_liquid_minus_ref_J_kg", "u_vapour_minus_ref_J_kg",
+              "h_liquid_minus_ref_J_kg", "h_vapour_minus_ref_J_kg",
+              "s_liquid_minus_ref_J_kgK", "s_vapour_minus_ref_J_kgK"]
+    rows = []
+    for fl in fluids_:
+        ref = reference_state(fl)
+        temps = [fl.Ttriple] + [fl.Ttriple + f * (fl.Tc - fl.Ttriple) for f in
+                                (0.1, 0.2, 0.3, 0.4, 0.5, 0.6, 0.7, 0.8, 0.9, 0.95)]
+        if maxwell(fl, fl.Ttriple)[0] < P_ATM:
+            temps.append(saturation_temperature(fl, P_ATM))
+        for T in sorted(temps):
+            p, rho_l, rho_v = maxwell(fl, T)
+            a, b = fl.at(rho_l, T), fl.at(rho_v, T)
+            rows.append([fl.name, T, p, rho_l, rho_v, a.u - ref.u, b.u - ref.u, a.h - ref.h,
+                         b.h - ref.h, a.s - ref.s, b.s - ref.s])
+    return header, rows
+
+
+def table_energy(fluids_):
+    header = ["gas", "volume_m3", "p1_Pa", "T1_K", "pa_Pa", "rho1_kg_m3", "mass_kg",
+              "isothermal_J", "isentropic_J", "availability_J", "end_T_K", "end_quality"]
+    rows = []
+    pressures = [2 * BAR, 5 * BAR, 10 * BAR + P_ATM, 20 * BAR, 50 * BAR, 100 * BAR, 200 * BAR,
+                 300 * BAR, 350 * BAR, 500 * BAR, 700 * BAR, 1000 * BAR]
+    for fl in fluids_:
+        for T1 in (273.15, 293.15, 313.15):
+            psat = maxwell(fl, T1)[0] if T1 < fl.Tc else math.inf
+            for p1 in pressures:
+                if p1 > min(fl.pmax, P_GRID_MAX) or p1 > psat * (1 - SAT_BAND):
+                    continue
+                try:
+                    e = stored_energy(fl, 1.0, p1, T1, P_ATM)
+                except OutOfRange:
+                    continue  # e.g. carbon dioxide expanding past its triple point: dry ice
+                end = e["end"]
+                rows.append([fl.name, 1.0, p1, T1, P_ATM, e["rho1"], e["mass"], e["isothermal"],
+                             e["isentropic"], e["availability"], end.T, end.quality])
+    return header, rows
+
+
+# (gas, p_initial, T_initial, p_final, p_supply, T_supply, T_ambient)
+FILL_CASES = [
+    ("air", P_ATM, 293.15, 300 * BAR, 300 * BAR, 293.15, 293.15),  # reference-notes: 396.3 K
+    ("air", 50 * BAR, 293.15, 300 * BAR, 300 * BAR, 293.15, 293.15),
+    ("air", 100 * BAR, 293.15, 300 * BAR, 300 * BAR, 293.15, 293.15),
+    ("air", 20 * BAR, 293.15, 300 * BAR, 300 * BAR, 293.15, 293.15),
+    ("air", P_ATM, 293.15, 200 * BAR, 200 * BAR, 293.15, 293.15),
+    ("air", 10 * BAR, 303.15, 200 * BAR, 250 * BAR, 313.15, 303.15),
+    ("nitrogen", P_ATM, 293.15, 200 * BAR, 200 * BAR, 293.15, 293.15),
+    ("nitrogen", 50 * BAR, 293.15, 200 * BAR, 200 * BAR, 293.15, 293.15),
+    ("nitrogen", 20 * BAR, 293.15, 300 * BAR, 300 * BAR, 293.15, 293.15),
+    ("oxygen", P_ATM, 293.15, 200 * BAR, 200 * BAR, 293.15, 293.15),
+    ("oxygen", 20 * BAR, 293.15, 150 * BAR, 150 * BAR, 293.15, 293.15),
+    ("argon", P_ATM, 293.15, 200 * BAR, 200 * BAR, 293.15, 293.15),
+    ("argon", 20 * BAR, 293.15, 300 * BAR, 300 * BAR, 293.15, 293.15),
+    ("helium", P_ATM, 293.15, 200 * BAR, 200 * BAR, 293.15, 293.15),
+    ("helium", 20 * BAR, 293.15, 300 * BAR, 300 * BAR, 293.15, 293.15),
+    ("hydrogen", 20 * BAR, 288.15, 700 * BAR, 700 * BAR, 233.15, 288.15),  # reference-notes: 369 K
+    ("hydrogen", 20 * BAR, 288.15, 350 * BAR, 350 * BAR, 233.15, 288.15),
+    ("hydrogen", 20 * BAR, 293.15, 700 * BAR, 700 * BAR, 293.15, 293.15),
+    ("hydrogen", 50 * BAR, 293.15, 350 * BAR, 350 * BAR, 293.15, 293.15),
+    ("hydrogen", P_ATM, 293.15, 200 * BAR, 200 * BAR, 293.15, 293.15),
+    ("methane", P_ATM, 293.15, 200 * BAR, 200 * BAR, 293.15, 293.15),
+    ("methane", 20 * BAR, 293.15, 250 * BAR, 250 * BAR, 293.15, 293.15),
+    ("carbon-dioxide", P_ATM, 293.15, 50 * BAR, 50 * BAR, 293.15, 293.15),
+    ("carbon-dioxide", 5 * BAR, 303.15, 40 * BAR, 45 * BAR, 303.15, 303.15),
+]
+
+
+def table_fill(by_name):
+    header = ["gas", "p_initial_Pa", "T_initial_K", "p_final_Pa", "p_supply_Pa", "T_supply_K",
+              "T_ambient_K", "T_final_K", "rho_initial_kg_m3", "rho_final_kg_m3",
+              "mass_added_per_volume_kg_m3", "settled_pressure_Pa"]
+    rows = []
+    for gas, p_i, T_i, p_f, p_s, T_s, T_amb in FILL_CASES:
+        r = fast_fill(by_name[gas], p_i, T_i, p_f, p_s, T_s, T_amb)
+        rows.append([gas, p_i, T_i, p_f, p_s, T_s, T_amb, r["T_f"], r["rho_i"], r["rho_f"],
+                     r["rho_f"] - r["rho_i"], r["settled"]])
+    return header, rows
+
+
+def table_nozzle(fluids_):
+    header = ["gas", "p0_Pa", "T0_K", "rho0_kg_m3", "back_pressure_Pa", "choked", "throat_p_Pa",
+              "throat_T_K", "throat_rho_kg_m3", "throat_velocity_m_s", "mass_flux_kg_m2s"]
+    rows = []
+    for fl in fluids_:
+        for T0 in (250.0, 293.15, 350.0):
+            psat = maxwell(fl, T0)[0] if T0 < fl.Tc else math.inf
+            for p0 in (1.2 * BAR, 1.5 * BAR, 2 * BAR, 10 * BAR, 50 * BAR, 100 * BAR, 200 * BAR,
+                       350 * BAR, 700 * BAR):
+                if p0 > min(fl.pmax, P_GRID_MAX) or p0 > psat * (1 - SAT_BAND):
+                    continue
+                st = density_state(fl, p0, T0)
+                try:
+                    flux, t, choked = nozzle_flux(fl, st, P_ATM)
+                except OutOfRange:
+                    continue  # the throat would be two-phase: not a single-phase nozzle
+                rows.append([fl.name, p0, T0, st.rho, P_ATM, choked, t.p, t.T, t.rho,
+                             flux / t.rho, flux])
+    return header, rows
+
+
+# (gas, process, V m3, p0, T0, orifice d m, Cd, p_end); ambient 101325 Pa.
+VENT_CASES = [
+    ("air", "isothermal", 1.0, 10 * BAR + P_ATM, 293.15, 0.010, 1.0, 5 * BAR + P_ATM),
+    ("air", "isentropic", 1.0, 10 * BAR + P_ATM, 293.15, 0.010, 1.0, 5 * BAR + P_ATM),
+    ("air", "isothermal", 1.0, 10 * BAR + P_ATM, 293.15, 0.010, 1.0, 1.01 * P_ATM),
+    ("air", "isentropic", 1.0, 10 * BAR + P_ATM, 293.15, 0.010, 1.0, 1.01 * P_ATM),
+    ("air", "isentropic", 0.05, 300 * BAR, 293.15, 0.002, 0.61, 50 * BAR),
+    ("nitrogen", "isothermal", 0.05, 200 * BAR, 293.15, 0.002, 0.61, 1.5 * BAR),
+    ("nitrogen", "isentropic", 0.05, 200 * BAR, 293.15, 0.002, 0.61, 30 * BAR),
+    ("oxygen", "isothermal", 0.05, 200 * BAR, 293.15, 0.002, 0.97, 5 * BAR),
+    ("argon", "isentropic", 0.05, 200 * BAR, 293.15, 0.002, 0.97, 50 * BAR),
+    ("helium", "isentropic", 0.05, 200 * BAR, 293.15, 0.002, 0.97, 2 * BAR),
+    ("hydrogen", "isothermal", 0.1, 700 * BAR, 288.15, 0.001, 1.0, 2 * BAR),
+    ("hydrogen", "isentropic", 0.1, 700 * BAR, 288.15, 0.001, 1.0, 20 * BAR),
+    ("methane", "isentropic", 0.08, 250 * BAR, 293.15, 0.003, 0.61, 100 * BAR),
+    ("methane", "isothermal", 0.08, 250 * BAR, 293.15, 0.003, 0.61, 2 * BAR),
+    ("carbon-dioxide", "isothermal", 0.05, 20 * BAR, 293.15, 0.002, 0.61, 2 * BAR),
+]
+
+
+def table_vent(by_name):
+    header = ["gas", "process", "volume_m3", "p0_Pa", "T0_K", "orifice_diameter_m", "Cd",
+              "ambient_pressure_Pa", "p_end_Pa", "time_s", "T_end_K", "rho0_kg_m3",
+              "rho_end_kg_m3", "initial_mass_flow_kg_s"]
+    rows = []
+    for gas, process, V, p0, T0, d, Cd, p_end in VENT_CASES:
+        r = vent(by_name[gas], process, V, p0, T0, d, Cd, P_ATM, p_end)
+        rows.append([gas, process, V, p0, T0, d, Cd, P_ATM, p_end, r["time"], r["T_end"],
+                     r["rho0"], r["rho_end"], r["initial_flow"]])
+    return header, rows
+
+
+ELEVATIONS_M = [-500.0, -100.0, 0.0, 100.0, 200.0, 300.0, 500.0, 750.0, 1000.0, 1500.0, 1609.344,
+                2000.0, 2500.0, 3000.0, 3500.0, 4000.0, 4500.0, 5000.0, 6000.0, 8000.0, 10000.0,
+                11000.0, 15000.0, 20000.0]
+
+
+def table_atmosphere():
+    """Standard atmosphere at geometric elevation: ambiance (ICAO 1993 / ISO 2533) and fluids
+    (US 1976), which must agree below 32 km."""
+    header = ["geometric_altitude_m", "geopotential_altitude_m", "pressure_Pa", "temperature_K",
+              "density_kg_m3"]
+    rows = []
+    worst = 0.0
+    for z in ELEVATIONS_M:
+        a = ambiance.Atmosphere(z)
+        p, T, rho, H = (float(a.pressure[0]), float(a.temperature[0]), float(a.density[0]),
+                        float(a.H[0]))
+        u = fluids.atmosphere.ATMOSPHERE_1976(z)
+        for mine, theirs in ((p, u.P), (T, u.T), (rho, u.rho)):
+            worst = max(worst, abs(mine - theirs) / theirs)
+        rows.append([z, H, p, T, rho])
+    return header, rows, worst
+
+
+# --------------------------------------------------------------------------------------------
+
+
+def versions():
+    return {name: importlib.metadata.version(name) for name in PINNED}
+
+
+def main():
+    ap = argparse.ArgumentParser(description=__doc__.split("\n\n")[0])
+    ap.add_argument("--out", default=os.path.join(os.path.dirname(os.path.abspath(__file__)),
+                                                  "..", "tests", "reference"))
+    args = ap.parse_args()
+    out = os.path.normpath(args.out)
+
+    got = versions()
+    mismatched = {k: (v, PINNED[k]) for k, v in got.items() if v != PINNED[k]}
+    for k, (v, want) in mismatched.items():
+        print(f"warning: {k} {v} installed, tables were made with {want}; "
+              f"the tables' README records what you have", file=sys.stderr)
+
+    checks = self_checks()
+    for name, g, w, tol, ok in checks:
+        print(f"{'ok  ' if ok else 'FAIL'} {name}: {g:.10g} vs {w:.10g} (tol {tol:g}{'' if w else ', absolute'})")
+    if not all(c[-1] for c in checks):
+        print("self-checks failed: nothing written", file=sys.stderr)
+        return 1
+
+    fluids_ = [RealFluid(n, c) for n, c in GASES]
+    by_name = {fl.name: fl for fl in fluids_}
+    os.makedirs(out, exist_ok=True)
+    counts = {}
+    for fname, maker in (("fluids.csv", lambda: table_fluids(fluids_)),
+                         ("properties.csv", lambda: table_properties(fluids_)),
+                         ("saturation.csv", lambda: table_saturation(fluids_)),
+                         ("energy.csv", lambda: table_energy(fluids_)),
+                         ("fill.csv", lambda: table_fill(by_name)),
+                         ("nozzle.csv", lambda: table_nozzle(fluids_)),
+                         ("vent.csv", lambda: table_vent(by_name))):
+        header, rows = maker()
+        counts[fname] = write_csv(os.path.join(out, fname), header, rows)
+        print(f"wrote {fname}: {counts[fname]} rows")
+    header, rows, atm_worst = table_atmosphere()
+    if atm_worst > 1e-5:
+        print(f"ambiance and fluids disagree by {atm_worst:g}", file=sys.stderr)
+        return 1
+    counts["atmosphere.csv"] = write_csv(os.path.join(out, "atmosphere.csv"), header, rows)
+    print(f"wrote atmosphere.csv: {counts['atmosphere.csv']} rows "
+          f"(ambiance vs fluids: worst relative difference {atm_worst:.1e})")
+
+    with open(os.path.join(out, "README.md"), "w") as fh:
+        fh.write(readme(got, counts, checks, fluids_, atm_worst))
+    print(f"wrote README.md in {out}")
+    return 0
+
+
+def readme(got, counts, checks, fluids_, atm_worst):
+    lines = [
+        "# Reference tables",
+        "",
+        "Generated by `tools/gen_reference_tables.py` — do not edit by hand; rerun the script",
+        "(`pip install -r tools/requirements-reference.txt`, then `python3 tools/gen_reference_tables.py`).",
+        "pvhazard never reads these at run time: only its tests do.",
+        "",
+        "## Made with",
+        "",
+    ]
+    lines += [f"- {k} {v}" for k, v in got.items()]
+    lines += [f"- CoolProp git revision {CoolProp.__gitrevision__}",
+              f"- Python {platform.python_version()}", ""]
+    lines += [
+        "## Conventions (all files)",
+        "",
+        "- Plain CSV: one header row, comma-separated, no comments, no quoting needed. SI units, named",
+        "  in each column header (`_Pa`, `_K`, `_kg_m3`, `_J_kg`, `_J_kgK`, `_m_s`, …). Pressures are",
+        "  absolute. Numbers are written with Python's `repr` (shortest text that round-trips the",
+        "  double exactly). Empty cell = not applicable. Booleans are `true`/`false`.",
+        "- `gas` uses pvhazard's names: " + ", ".join(f"`{fl.name}`" for fl in fluids_) + ".",
+        f"- Energy properties (u, h, s) are **differences from each gas's reference state**, T = {T_REF} K,",
+        f"  p = {P_REF} Pa (gas; `rho_ref_kg_m3` in fluids.csv), because absolute values depend on each",
+        "  library's reference state. Compare `u(state) - u(ref)` from pvhazard's model with the column.",
+        "  Near the reference state these differences approach zero, so compare them with a tolerance",
+        "  scaled by a typical magnitude (e.g. cp·T), not purely relative.",
+        "- Every property row is the equation of state evaluated at (rho, T), where it is explicit;",
+        "  `p_Pa` is that evaluated pressure. It equals the nominal grid pressure to ~1e-15 relative",
+        "  for gases; for liquids at low pressure, where one unit in the last place of rho moves p a",
+        "  lot, to ~1e-11. Feed `p_Pa` as written to the density solver under test.",
+        "- Saturation everywhere is the Maxwell construction on the equation itself (equal p and",
+        "  Gibbs energy in both phases). For the pure fluids this equals CoolProp's own saturation",
+        "  (checked, below). For `air` (a pseudo-pure fluid) CoolProp's own bubble and dew lines come",
+        "  from ancillary curves of the mixture and differ from this; the tables follow the Maxwell",
+        "  construction, which is what an implementation of the equation alone can reproduce.",
+        "- Each equation uses its own molar gas constant (`eos_gas_constant_J_molK` in fluids.csv);",
+        "  Z in properties.csv uses it. A model that uses CODATA R everywhere differs by up to ~6e-6",
+        "  in density at the same (p, T).",
+        "",
+        "## Files",
+        "",
+        f"### fluids.csv ({counts['fluids.csv']} rows) — one row a gas",
+        "Critical point, triple point, limits (`T_min_K`, `T_max_K`, `p_max_Pa`: the range CoolProp",
+        "states for the equation), molar mass, the equation's gas constant, the Maxwell triple-point",
+        "pressure (`p_triple_Pa`) and normal boiling point (`T_normal_boiling_K`, at 101325 Pa; empty",
+        "for carbon dioxide, whose triple-point pressure is above 1 atm), the reference state, and the",
+        "ideal-gas cp and gamma at 300 K from the equation's ideal part (`cp0_300K_J_kgK`, `gamma0_300K`).",
+        "`eos_bibtex_keys` names the equation's papers (cited below). The critical point is",
+        "CoolProp's, which it recomputes from the equation (e.g. nitrogen 126.19199999958556 K for the",
+        "paper's 126.192 K): check published values against the papers, not this file.",
+        "",
+        f"### properties.csv ({counts['properties.csv']} rows) — single-phase states on a (T, p) grid",
+        "Temperatures " + ", ".join(f"{t:g}" for t in GRID_T) + " K (those within each equation's range);",
+        "pressures 1 kPa to 1000 bar or the equation's `p_max_Pa` (oxygen: 800 bar). Points within",
+        f"{SAT_BAND * 100:g} % of the saturation pressure are left out, and so are solids (below",
+        "CoolProp's melting line for the gas). `phase`: `gas` / `liquid` (below",
+        "Tc, below / above the Maxwell saturation pressure), `supercritical` (T ≥ Tc, p ≥ pc),",
+        "`supercritical_gas` (T ≥ Tc, p < pc), `supercritical_liquid` (T < Tc, p ≥ pc). Columns: Z =",
+        "p/(rho·R·T), u, h, s minus the reference state, cv, cp, speed of sound w.",
+        "",
+        f"### saturation.csv ({counts['saturation.csv']} rows) — Maxwell saturation",
+        "At the triple point, at 10 %, 20 %, …, 90 % and 95 % of the way from the triple point to",
+        "the critical temperature, and at the normal boiling point where there is one: p, both",
+        "densities, u, h, s of both phases minus the reference state.",
+        "",
+        f"### energy.csv ({counts['energy.csv']} rows) — stored energy of 1 m³ of gas released to 101325 Pa",
+        "Real-gas forms: `isothermal_J` = m·[a(p1,T1) − a(pa,T1)], a = u − T·s (reference-state free",
+        "since both are at T1); `isentropic_J` = m·[u(p1,T1) − u(pa, s1)], where the end state at",
+        "(pa, s1) may be two-phase (`end_quality` = vapour mass fraction, 1 for a single-phase gas);",
+        "`availability_J` = m·[(u1−u0) + pa·(1/rho1 − 1/rho0) − T1·(s1−s0)], dead state (pa, T1) —",
+        "the non-flow exergy, whose ideal-gas limit is p1·V·[ln(p1/pa) − (1 − pa/p1)]. T1 = 273.15,",
+        "293.15, 313.15 K; p1 from 2 bar to 1000 bar (10 bar(g) = 1101325 Pa among them), capped at",
+        "the equation's limit and, for carbon dioxide, kept below its saturation pressure at T1.",
+        "Cases whose isentrope leaves the equation's range are left out: carbon dioxide from 5 bar",
+        "and up would end below its triple point (it forms dry ice), which pvhazard should refuse.",
+        "",
+        f"### fill.csv ({counts['fill.csv']} rows) — adiabatic fast fill of a rigid tank",
+        "Solves rho_f·u_f − rho_i·u_i = (rho_f − rho_i)·h_in for T_final at p_final, h_in the",
+        "enthalpy at the supply pressure and temperature. `settled_pressure_Pa`: the pressure at the",
+        "final density once the gas has cooled to T_ambient. `mass_added_per_volume_kg_m3` =",
+        "rho_f − rho_i (multiply by the water capacity).",
+        "",
+        f"### nozzle.csv ({counts['nozzle.csv']} rows) — isentropic nozzle mass flux from a stagnation state",
+        "From (p0, T0) along the isentrope to the back pressure (101325 Pa): when the sonic state",
+        "(velocity = speed of sound, the maximum of rho·sqrt(2·(h0 − h))) is at or above the back",
+        "pressure the flow is `choked` and the throat is sonic; otherwise the throat is at the back",
+        "pressure. Multiply `mass_flux_kg_m2s` by Cd·A for the mass flow. Cases whose throat would be",
+        "two-phase are left out.",
+        "",
+        f"### vent.csv ({counts['vent.csv']} rows) — blow-down time of a rigid vessel through an orifice",
+        "The gas left in the vessel is `isothermal` (stays at T0) or `isentropic` (adiabatic vessel:",
+        "its entropy stays s0); the orifice is the nozzle above with area π·d²/4 and coefficient Cd,",
+        "discharging to `ambient_pressure_Pa`, choked or not. time = V/(Cd·A)·∫ drho/G(rho) from",
+        "rho_end to rho0 (adaptive quadrature, relative error below 1e-9). `T_end_K`: vessel gas",
+        "temperature at p_end. `initial_mass_flow_kg_s`: Cd·A·G at the start.",
+        "",
+        f"### atmosphere.csv ({counts['atmosphere.csv']} rows) — standard atmosphere at a geometric elevation",
+        "Pressure, temperature and density from ambiance (ICAO Standard Atmosphere 1993, identical",
+        "to ISO 2533:1975 below 32 km); the geopotential altitude H = r0·z/(r0 + z), r0 = 6356766 m, is",
+        "the one the standard's formulas take. The U.S. Standard Atmosphere 1976 (from fluids) agrees",
+        f"to {atm_worst:.1e} relative at every row (the two differ in how they write the constants).",
+        "",
+        "## Self-checks run before writing (ideal gas through the same code, and CoolProp)",
+        "",
+        "| check | got | expected | tolerance |",
+        "| --- | --- | --- | --- |",
+    ]
+    lines += [f"| {n} | {g:.10g} | {w:.10g} | {t:g}{'' if w else ' (absolute)'} |" for n, g, w, t, _ in checks]
+    lines += ["", "The reference-notes values are those of `shared/reference-notes.md` (Stored energy, Fast",
+              "fill, Blow-down), given there to 3–4 figures.", "", "## Equations of state (from CoolProp's bibliography)", ""]
+    for fl in fluids_:
+        for key in eos_keys(fl.cp_name):
+            lines.append(f"- `{fl.name}` — `{key}`: {bibtex(key)}")
+    lines += ["",
+              "Helium-4: CoolProp's entry is marked unpublished (coefficients from REFPROP 10, with",
+              "permission). Oxygen: CoolProp cites the Schmidt & Wagner (1985) form with Stewart,",
+              "Jacobsen & Wagner (1991), whose title states the range triple point to 300 K at pressures",
+              "to 80 MPa; CoolProp states 54.361–2000 K, and the grid above goes to 400 K: those oxygen",
+              "rows above 300 K are the equation extrapolated as CoolProp evaluates it.", ""]
+    return "\n".join(lines)
+
+
+if __name__ == "__main__":
+    sys.exit(main())
