@@ -437,7 +437,7 @@ fn gases_command(a: GasesArgs) -> Result<String, Failure> {
     }
     let mut s = format!(
         "{:<15} {:<8} {:>10} {:>11} {:>11} {:>7} {:>9} {:>10}\n",
-        "gas", "formula", "M g/mol", "R J/(kg·K)", "cp J/(kg·K)", "γ", "Tc K", "pc bar(a)"
+        "gas", "formula", "M g/mol", "R J/(kg K)", "cp J/(kg K)", "gamma", "Tc K", "pc bar(a)"
     );
     for r in &rows {
         s.push_str(&format!(

@@ -24,8 +24,9 @@ which CoolProp treats as a pseudo-pure fluid whose own saturation lines come fro
 bubble and dew curves; for the pure fluids the Maxwell solution is checked against CoolProp's.
 
 Before writing anything the script runs the same derived-table code on an ideal gas and checks
-it against the closed forms and the check values in shared/reference-notes.md; it stops with a
-non-zero exit if any self-check fails. Output is deterministic: rerunning with the same library
+it against the closed forms and the check values in shared/reference-notes.md, and checks the
+real-gas code against CoolProp's own flashes and saturation and an independent integration of a
+vent-down; it stops with a non-zero exit, writing nothing, if any self-check fails. Output is deterministic: rerunning with the same library
 versions gives byte-identical files.
 """
 import argparse
@@ -67,7 +68,7 @@ BAR = 1e5
 # eight), because absolute u, h, s depend on each library's reference state.
 T_REF, P_REF = 300.0, P_ATM
 
-# Property grid: the issue's 200-400 K and pressures to 1000 bar (or the equation's limit), plus
+# Property grid: the real-gas issue's 200-400 K and pressures to 1000 bar (or the equation's limit), plus
 # colder temperatures that vent-downs reach, and a few fill and service temperatures.
 GRID_T = [90.0, 100.0, 110.0, 125.0, 150.0, 175.0, 200.0, 225.0, 233.15, 250.0, 273.15, 288.15,
           293.15, 300.0, 313.15, 325.0, 338.15, 350.0, 358.15, 375.0, 400.0]
@@ -119,16 +120,19 @@ class RealFluid:
         if not (self.Tmin <= T <= self.Tmax):
             raise OutOfRange(f"{self.name}: T = {T} K outside {self.Tmin}..{self.Tmax} K")
 
+    def lowest_T(self, p):
+        """The lowest fluid temperature at p: the equation's minimum or the melting line."""
+        try:
+            return max(self.Tmin, self.flash.melting_line(CP.iT, CP.iP, p))
+        except ValueError:
+            return self.Tmin  # below the melting curve's lowest pressure (the triple point)
+
     def check_p(self, p, T):
         """The equation's pressure limit, and the melting line: no solid states."""
         if p > self.pmax:
             raise OutOfRange(f"{self.name}: p = {p} Pa above {self.pmax} Pa")
-        try:
-            T_melt = self.flash.melting_line(CP.iT, CP.iP, p)
-        except ValueError:
-            return  # below the melting curve's lowest pressure (the triple point): no melting
-        if T < T_melt:
-            raise OutOfRange(f"{self.name}: T = {T} K below the melting line ({T_melt} K) at {p} Pa")
+        if T < self.lowest_T(p):
+            raise OutOfRange(f"{self.name}: T = {T} K below the melting line at {p} Pa")
 
     def density_guess(self, p, T, phase):
         f = self.flash
@@ -176,6 +180,9 @@ class IdealGas:
 
     def check_p(self, p, T):
         pass
+
+    def lowest_T(self, p):
+        return self.Tmin
 
     def density_guess(self, p, T, phase):
         return p / (self.R * T)
@@ -259,7 +266,7 @@ def density(fl, p, T, root=None):
     if T < fl.Tc and sat is None and root is None:
         raise RuntimeError(f"{fl.name}: which root at {p} Pa, {T} K, this close to critical?")
     if T < fl.Tc:
-        psat, rho_l, rho_v = sat or (None, math.inf, 0.0)
+        psat, rho_l, rho_v = sat or (None, 0.0, math.inf)  # no check where no saturation is known
         root = root or ("gas" if p < psat else "liquid")
         phase = root
         guess = fl.density_guess(p, T, CP.iphase_gas if root == "gas" else CP.iphase_liquid)
@@ -290,7 +297,7 @@ def check_single_phase(fl, rho, T):
 
 
 def temperature_on_isentrope(fl, rho, s0, T_guess):
-    """T with s(rho, T) = s0 (single phase); ds/dT at constant rho is cv/T."""
+    """T with s(rho, T) = s0, single phase (raises OutOfRange inside the dome)."""
     try:
         # Newton's method in ln T, where ds/d(ln T) at constant rho is cv: exact in one step
         # for an ideal gas of constant cv, and nearly so for a real one.
@@ -331,10 +338,10 @@ def isentropic_end(fl, p, s, T_start):
         T_lo = T_sat * (1 + 1e-12)
         root = "gas"
     else:
-        T_lo = fl.Tmin if fl.Tc > 0 else T_start * 1e-6
+        T_lo = fl.lowest_T(p) if fl.Tc > 0 else T_start * 1e-6
         root = None
         if density_state(fl, p, T_lo, root).s > s:
-            raise OutOfRange(f"{fl.name}: isentrope to {p} Pa ends below {fl.Tmin} K")
+            raise OutOfRange(f"{fl.name}: isentrope to {p} Pa ends below {T_lo} K")
     T = optimize.brentq(lambda T: density_state(fl, p, T, root).s - s, T_lo, T_start,
                         xtol=1e-13, rtol=1e-15)
     st = density_state(fl, p, T, root)
@@ -426,11 +433,11 @@ def vent(fl, process, V, p0, T0, d, Cd, pa, p_end):
     A = math.pi * d * d / 4
     rho0 = density(fl, p0, T0)[0]
     s0 = fl.at(rho0, T0).s
-
-    def vessel(rho):
-        if process == "isothermal":
+    if process == "isothermal":
+        def vessel(rho):
             return fl.at(rho, T0)
-        return fl.at(rho, temperature_on_isentrope(fl, rho, s0, T0 * (rho / rho0) ** 0.3))
+    else:
+        vessel = _isentrope(fl, fl.at(rho0, T0))
 
     if process == "isothermal":
         rho_end = density(fl, p_end, T0)[0]
@@ -443,11 +450,11 @@ def vent(fl, process, V, p0, T0, d, Cd, pa, p_end):
     def inv_flux(rho):
         return 1.0 / nozzle_flux(fl, vessel(rho), pa)[0]
 
-    # The flow unchokes where the sonic throat pressure reaches pa: split the integral there.
-    pieces = [rho_end, rho0]
     def unchoking(rho):
         return sonic_state(fl, vessel(rho)).p - pa
 
+    # The flow unchokes where the sonic throat pressure reaches pa: split the integral there.
+    pieces = [rho_end, rho0]
     if unchoking(rho0) > 0 > unchoking(rho_end):
         rho_u = optimize.brentq(unchoking, rho_end, rho0, xtol=1e-300, rtol=1e-15)
         pieces = [rho_end, rho_u, rho0]
@@ -463,7 +470,8 @@ def vent(fl, process, V, p0, T0, d, Cd, pa, p_end):
 
 
 # --------------------------------------------------------------------------------------------
-# Self-checks on an ideal gas: closed forms and shared/reference-notes.md.
+# Self-checks: an ideal gas through the same code against closed forms and the check values of
+# shared/reference-notes.md; the real gas against CoolProp's own flashes and saturation.
 
 
 def self_checks():
@@ -630,7 +638,7 @@ def bibtex(key):
         parts.append(fields["note"])
     if fields.get("doi"):
         parts.append("doi:" + fields["doi"])
-    return ". ".join(p for p in parts if p)
+    return ". ".join(p.rstrip(".") for p in parts if p)
 
 
 def eos_keys(cp_name):

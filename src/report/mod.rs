@@ -150,8 +150,8 @@ pub struct FillReport {
     pub mass_added_kg: Mass,
     /// Pressure after cooling to ambient, Pa(a).
     pub settled_pressure_pa: Pressure,
-    /// Stop pressure that settles at the target, Pa(a).
-    pub fill_to_pressure_pa: Pressure,
+    /// Stop pressure that settles at the target, Pa(a); null when no fill is needed.
+    pub fill_to_pressure_pa: Option<Pressure>,
     /// Cautions, highest first, the deferral last.
     pub cautions: Vec<Caution>,
 }
@@ -501,7 +501,7 @@ impl From<&FillReport> for Worksheet {
             i.rated_temperature_k
                 .map(|t| entry("Rated temperature", Value::Temperature(t))),
         );
-        let results = vec![
+        let mut results = vec![
             result(
                 "Final gas temperature (adiabatic)",
                 Value::Temperature(r.final_temperature_k),
@@ -522,12 +522,14 @@ impl From<&FillReport> for Worksheet {
                 Value::Pressure(r.settled_pressure_pa),
                 "constant mass, cooled to ambient",
             ),
+        ];
+        results.extend(r.fill_to_pressure_pa.map(|p| {
             result(
                 "Fill to (settles at target)",
-                Value::Pressure(r.fill_to_pressure_pa),
+                Value::Pressure(p),
                 "stop pressure whose mass settles at the target",
-            ),
-        ];
+            )
+        }));
         Worksheet {
             title: format!("Fill check — {}, {} gas model", r.gas, r.model.name()),
             ambient: i.ambient_pressure_pa,

@@ -278,6 +278,25 @@ fn energy_cautions(model: &dyn GasModel, input: &EnergyInput, r: &EnergyResult) 
             ));
         }
     }
+    match (input.energy_limit, r.vent_down_target) {
+        (Some(limit), None) => out.push(Caution::new(
+            Level::Notice,
+            format!(
+                "The stored isentropic energy ({} MJ) is already at or below the energy limit ({} MJ): no vent-down is needed to meet it.",
+                fmt_sig(e_mj, 4),
+                fmt_sig(limit.get::<joule>() / 1e6, 4)
+            ),
+        )),
+        (Some(limit), Some(p)) => out.push(Caution::new(
+            Level::Notice,
+            format!(
+                "Vent down to {} bar(a) or below before the stored energy is within the limit of {} MJ.",
+                fmt_sig(p.get::<pascal>() / 1e5, 4),
+                fmt_sig(limit.get::<joule>() / 1e6, 4)
+            ),
+        )),
+        _ => {}
+    }
     if r.exclusion_basis == DistanceBasis::BeyondRule {
         out.push(Caution::new(
             Level::Danger,

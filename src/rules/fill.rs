@@ -43,8 +43,9 @@ pub struct FillResult {
     pub mass_added: Mass,
     /// Pressure once the gas has cooled to ambient at constant mass.
     pub settled_pressure: Pressure,
-    /// Pressure at which to stop a fill (at the same conditions) so it settles at `to`.
-    pub fill_to_pressure: Pressure,
+    /// Pressure at which to stop a fill (at the same conditions) so it settles at `to`;
+    /// `None` when the gas already in the cylinder settles at or above `to`.
+    pub fill_to_pressure: Option<Pressure>,
 }
 
 /// The adiabatic fill from `from` to `to`, with its cautions.
@@ -91,7 +92,7 @@ pub fn adiabatic_fill(
     let settled = model
         .state_rho_t(end.density, input.ambient_temperature)
         .map_err(gas_error("ambient-temperature"))?;
-    let fill_to = fill_to_pressure(model, &initial, &supply, input.volume, target.density)?;
+    let fill_to = fill_to_pressure(model, &initial, &supply, input.volume, target.density);
     let initial_mass = initial.density * input.volume;
     let result = FillResult {
         final_temperature: end.temperature,
@@ -143,39 +144,32 @@ fn fill_end_state(
         .map_err(gas_error("to"))
 }
 
-/// The stop pressure of a hot fill whose gas, once cooled to ambient, has `settled_density`.
+/// The stop pressure of a hot fill whose gas, once cooled to ambient, has `settled_density`,
+/// or `None` when the gas already there has that density or more (a cold cylinder that
+/// settles above the target when it warms).
 fn fill_to_pressure(
     model: &dyn GasModel,
     initial: &State,
     supply: &State,
     volume: Volume,
     settled_density: uom::si::f64::MassDensity,
-) -> Result<Pressure, InputError> {
+) -> Option<Pressure> {
     use uom::si::mass_density::kilogram_per_cubic_meter;
+    if initial.density >= settled_density {
+        return None;
+    }
     let want = settled_density.get::<kilogram_per_cubic_meter>();
     let gap = |ln_p: f64| -> f64 {
-        fill_end_state(
-            model,
-            initial,
-            supply,
-            volume,
-            Pressure::new::<pascal>(ln_p.exp()),
-        )
-        .map_or(f64::NAN, |st| {
-            st.density.get::<kilogram_per_cubic_meter>() / want - 1.0
-        })
+        fill_end_state(model, initial, supply, volume, Pressure::new::<pascal>(ln_p.exp()))
+            .map_or(f64::NAN, |st| {
+                st.density.get::<kilogram_per_cubic_meter>() / want - 1.0
+            })
     };
     let lo = initial.pressure.get::<pascal>().ln() + 1e-9;
     let hi = (10.0 * supply.pressure.get::<pascal>()).ln();
     crate::solve::root(gap, lo, hi, 1e-12)
+        .ok()
         .map(|ln_p| Pressure::new::<pascal>(ln_p.exp()))
-        .map_err(|_| {
-            InputError::new(
-                "from",
-                format!("{} bar(a)", fmt_sig(initial.pressure.get::<pascal>() / 1e5, 6)),
-                "the cylinder already holds at least the mass that settles at --to; accepted: a starting pressure whose gas settles below the target",
-            )
-        })
 }
 
 fn fill_cautions(input: &FillInput, r: &FillResult) -> Vec<Caution> {
@@ -205,17 +199,27 @@ fn fill_cautions(input: &FillInput, r: &FillResult) -> Vec<Caution> {
         ),
     ));
     let shortfall = 1.0 - r.settled_pressure.get::<pascal>() / input.to.get::<pascal>();
-    if shortfall > 0.01 {
-        out.push(Caution::new(
+    match r.fill_to_pressure {
+        Some(fill_to) if shortfall > 0.01 => out.push(Caution::new(
             Level::Notice,
             format!(
                 "A fill stopped at {} bar(a) settles to {} bar(a) ({:.0} % short). To settle at the target, stop at {} bar(a), but never above the cylinder's permitted filling pressure at the fill temperature.",
                 fmt_sig(input.to.get::<pascal>() / 1e5, 4),
                 fmt_sig(r.settled_pressure.get::<pascal>() / 1e5, 4),
                 shortfall * 100.0,
-                fmt_sig(r.fill_to_pressure.get::<pascal>() / 1e5, 4)
+                fmt_sig(fill_to.get::<pascal>() / 1e5, 4)
             ),
-        ));
+        )),
+        Some(_) => {}
+        None => out.push(Caution::new(
+            Level::Warning,
+            format!(
+                "The gas already in the cylinder settles at or above {} bar(a) once it reaches {:.0} °C: no fill is needed to reach the target, and this fill settles {:.0} % above it. Check the settled pressure against the cylinder's service pressure.",
+                fmt_sig(input.to.get::<pascal>() / 1e5, 4),
+                input.ambient_temperature.get::<kelvin>() - 273.15,
+                -shortfall * 100.0
+            ),
+        )),
     }
     out
 }

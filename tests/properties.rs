@@ -1,0 +1,169 @@
+//! Physical invariants of the rules, over wide ranges of inputs (proptest).
+
+use proptest::prelude::*;
+use pvhazard::gas::{Gas, IdealGas, GASES};
+use pvhazard::rules::energy::{stored_energy, EnergyInput, DEFAULT_TNT_ENERGY_J_PER_KG};
+use pvhazard::rules::fill::{adiabatic_fill, FillInput};
+use pvhazard::rules::vent::{blow_down, Process, VentInput};
+use uom::si::f64::{AvailableEnergy, Length, Pressure, ThermodynamicTemperature, Volume};
+use uom::si::{
+    available_energy::joule_per_kilogram, energy::joule, length::meter, pressure::pascal,
+    thermodynamic_temperature::kelvin, volume::cubic_meter,
+};
+
+const AMBIENT_PA: f64 = 101_325.0;
+
+/// The gases that stay gaseous over the whole sampled range (carbon dioxide liquefies).
+fn permanent_gas() -> impl Strategy<Value = &'static Gas> {
+    prop::sample::select(
+        GASES
+            .iter()
+            .filter(|g| g.name != "carbon-dioxide")
+            .collect::<Vec<_>>(),
+    )
+}
+
+fn energy_input(volume_m3: f64, pressure_pa: f64, temperature_k: f64) -> EnergyInput {
+    EnergyInput {
+        volume: Volume::new::<cubic_meter>(volume_m3),
+        pressure: Pressure::new::<pascal>(pressure_pa),
+        temperature: ThermodynamicTemperature::new::<kelvin>(temperature_k),
+        ambient: Pressure::new::<pascal>(AMBIENT_PA),
+        tnt_energy: AvailableEnergy::new::<joule_per_kilogram>(DEFAULT_TNT_ENERGY_J_PER_KG),
+        overpressures: vec![Pressure::new::<pascal>(6_900.0)],
+        energy_limit: None,
+        mawp: None,
+        clearance: None,
+    }
+}
+
+fn vent_input(orifice_m: f64, cd: f64, process: Process) -> VentInput {
+    VentInput {
+        volume: Volume::new::<cubic_meter>(0.5),
+        pressure: Pressure::new::<pascal>(20e5),
+        temperature: ThermodynamicTemperature::new::<kelvin>(293.15),
+        ambient: Pressure::new::<pascal>(AMBIENT_PA),
+        orifice: Some(Length::new::<meter>(orifice_m)),
+        cd,
+        down_to: Pressure::new::<pascal>(1.2 * AMBIENT_PA),
+        process,
+        min_metal_temperature: None,
+        within: None,
+    }
+}
+
+fn process() -> impl Strategy<Value = Process> {
+    prop_oneof![Just(Process::Isentropic), Just(Process::Isothermal)]
+}
+
+proptest! {
+    #[test]
+    fn isentropic_is_the_smallest_energy(
+        gas in permanent_gas(),
+        v in 0.001f64..100.0,
+        p in 1.1e5f64..5e7,
+        t in 250.0f64..400.0,
+    ) {
+        let model = IdealGas::new(gas);
+        let e = stored_energy(&model, &energy_input(v, p, t)).unwrap().value.energy;
+        // The adiabatic expansion does less work than the isothermal one (which draws heat
+        // from the surroundings) and than Brode's constant-volume energy; the exergy is the
+        // isothermal work less the work of pushing back the atmosphere.
+        prop_assert!(e.isentropic <= e.brode);
+        prop_assert!(e.isentropic <= e.isothermal);
+        prop_assert!(e.availability <= e.isothermal);
+        prop_assert!(e.isentropic.get::<joule>() > 0.0);
+    }
+
+    #[test]
+    fn energy_rises_with_pressure_and_volume(
+        gas in permanent_gas(),
+        v in 0.001f64..100.0,
+        p in 1.1e5f64..5e7,
+        factor in 1.001f64..3.0,
+    ) {
+        let model = IdealGas::new(gas);
+        let base = stored_energy(&model, &energy_input(v, p, 293.15)).unwrap().value;
+        let higher = stored_energy(&model, &energy_input(v, p * factor, 293.15)).unwrap().value;
+        let larger = stored_energy(&model, &energy_input(v * factor, p, 293.15)).unwrap().value;
+        for e in [higher.energy, larger.energy] {
+            prop_assert!(e.isentropic > base.energy.isentropic);
+            prop_assert!(e.isothermal > base.energy.isothermal);
+            prop_assert!(e.brode > base.energy.brode);
+            prop_assert!(e.availability > base.energy.availability);
+        }
+        prop_assert!(higher.exclusion_distance >= base.exclusion_distance);
+    }
+
+    #[test]
+    fn fill_temperature_stays_below_gamma_times_supply(
+        gas in permanent_gas(),
+        from in 1.0e4f64..1e7,
+        span in 1.01f64..50.0,
+        supply in 250.0f64..330.0,
+        colder in 0.0f64..60.0,
+    ) {
+        // For T_i ≤ T0 the ideal adiabatic fill ends below γ·T0, the limit from vacuum.
+        let model = IdealGas::new(gas);
+        let input = FillInput {
+            volume: Volume::new::<cubic_meter>(0.05),
+            from: Pressure::new::<pascal>(from),
+            to: Pressure::new::<pascal>(from * span),
+            initial_temperature: ThermodynamicTemperature::new::<kelvin>(supply - colder),
+            supply_temperature: ThermodynamicTemperature::new::<kelvin>(supply),
+            ambient_temperature: ThermodynamicTemperature::new::<kelvin>(293.15),
+            rated_temperature: None,
+        };
+        let r = adiabatic_fill(&model, &input).unwrap().value;
+        let tf = r.final_temperature.get::<kelvin>();
+        prop_assert!(tf <= model.gamma() * supply * (1.0 + 1e-9));
+        prop_assert!(r.mass_added.get::<uom::si::mass::kilogram>() > 0.0);
+    }
+
+    #[test]
+    fn vent_time_falls_with_orifice_size_and_cd(
+        d in 0.001f64..0.05,
+        bigger in 1.01f64..3.0,
+        cd in 0.3f64..0.95,
+        process in process(),
+    ) {
+        let model = IdealGas::new(Gas::find("air").unwrap());
+        let time = |d: f64, cd: f64| {
+            blow_down(&model, &vent_input(d, cd, process)).unwrap().value.time.unwrap()
+        };
+        let base = time(d, cd);
+        prop_assert!(time(d * bigger, cd) < base);
+        prop_assert!(time(d, (cd * bigger).min(1.0)) < base);
+    }
+
+    #[test]
+    fn inverse_orifice_reproduces_the_time(
+        d in 0.001f64..0.05,
+        cd in 0.3f64..1.0,
+        process in process(),
+    ) {
+        let model = IdealGas::new(Gas::find("nitrogen").unwrap());
+        let mut input = vent_input(d, cd, process);
+        let t = blow_down(&model, &input).unwrap().value.time.unwrap();
+        input.orifice = None;
+        input.within = Some(t);
+        let found = blow_down(&model, &input).unwrap().value.required_orifice.unwrap();
+        prop_assert!((found.get::<meter>() / d - 1.0).abs() < 1e-9);
+    }
+
+    #[test]
+    fn isentropic_vent_is_faster_and_colder_than_isothermal(
+        d in 0.002f64..0.05,
+        p in 2.0e5f64..1e7,
+    ) {
+        let model = IdealGas::new(Gas::find("air").unwrap());
+        let run = |process| {
+            let mut input = vent_input(d, 0.61, process);
+            input.pressure = Pressure::new::<pascal>(p);
+            blow_down(&model, &input).unwrap().value
+        };
+        let (fast, slow) = (run(Process::Isentropic), run(Process::Isothermal));
+        prop_assert!(fast.time.unwrap() < slow.time.unwrap());
+        prop_assert!(fast.final_temperature < slow.final_temperature);
+    }
+}
