@@ -143,7 +143,7 @@ struct VentArgs {
     #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_length, required_unless_present = "within")]
     orifice: Option<Length>,
     /// Discharge coefficient, 0 < Cd <= 1 (0.61 sharp-edged orifice, 0.97 rounded nozzle).
-    #[arg(long, value_name = "X", default_value_t = vent::SHARP_EDGED_CD, value_parser = parse_cd)]
+    #[arg(long, value_name = "X", allow_hyphen_values = true, default_value_t = vent::SHARP_EDGED_CD, value_parser = parse_cd)]
     cd: f64,
     /// Target pressure [default: ambient + 1 %].
     #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_pressure)]
@@ -360,7 +360,27 @@ fn fill_command(a: FillArgs) -> Result<String, Failure> {
         ambient_temperature: a.ambient_temperature,
         rated_temperature: a.rated_temperature,
     };
-    let out = fill::adiabatic_fill(model.as_ref(), &input)?;
+    // An error on a temperature left to default is the ambient temperature's.
+    let out = fill::adiabatic_fill(model.as_ref(), &input).map_err(|e| {
+        let defaulted = match e.field.as_str() {
+            "initial-temperature" => a.initial_temperature.is_none(),
+            "supply-temperature" => a.supply_temperature.is_none(),
+            _ => false,
+        };
+        if defaulted {
+            let problem = format!(
+                "{} (it was used for the {} temperature, which was not given)",
+                e.problem,
+                e.field.trim_end_matches("-temperature")
+            );
+            InputError {
+                problem,
+                ..e.with_field("ambient-temperature")
+            }
+        } else {
+            e
+        }
+    })?;
     let report = FillReport::new(model.as_ref(), &input, pa, out);
     render(&report, a.common.json, a.common.units)
 }

@@ -15,7 +15,9 @@ use uom::si::{
 fn rows(name: &str) -> Vec<std::collections::HashMap<String, String>> {
     let path = format!("{}/tests/data/{name}", env!("CARGO_MANIFEST_DIR"));
     let text = std::fs::read_to_string(&path).unwrap_or_else(|e| panic!("{path}: {e}"));
-    let mut lines = text.lines().filter(|l| !l.starts_with('#') && !l.trim().is_empty());
+    let mut lines = text
+        .lines()
+        .filter(|l| !l.starts_with('#') && !l.trim().is_empty());
     let header: Vec<String> = lines
         .next()
         .expect("header")
@@ -23,12 +25,20 @@ fn rows(name: &str) -> Vec<std::collections::HashMap<String, String>> {
         .map(str::to_string)
         .collect();
     lines
-        .map(|l| header.iter().cloned().zip(l.split(',').map(str::to_string)).collect())
+        .map(|l| {
+            header
+                .iter()
+                .cloned()
+                .zip(l.split(',').map(str::to_string))
+                .collect()
+        })
         .collect()
 }
 
 fn num(row: &std::collections::HashMap<String, String>, col: &str) -> f64 {
-    row[col].parse().unwrap_or_else(|_| panic!("{col} = {}", row[col]))
+    row[col]
+        .parse()
+        .unwrap_or_else(|_| panic!("{col} = {}", row[col]))
 }
 
 #[test]
@@ -39,14 +49,38 @@ fn gas_constants_match_coolprop() {
     assert_eq!(table.len(), 8);
     for row in &table {
         let gas = Gas::find(&row["gas"]).unwrap_or_else(|| panic!("{}", row["gas"]));
-        assert_relative_eq!(gas.molar_mass_kg_per_mol, num(row, "molar_mass_kg_per_mol"), max_relative = 5e-5);
+        assert_relative_eq!(
+            gas.molar_mass_kg_per_mol,
+            num(row, "molar_mass_kg_per_mol"),
+            max_relative = 5e-5
+        );
         // JANAF cp° at 300 K against the equations' ideal parts: within 0.1 %.
-        assert_relative_eq!(gas.cp_300k_j_per_kg_k, num(row, "cp0_j_per_kg_k"), max_relative = 1e-3);
+        assert_relative_eq!(
+            gas.cp_300k_j_per_kg_k,
+            num(row, "cp0_j_per_kg_k"),
+            max_relative = 1e-3
+        );
         assert_relative_eq!(gas.gamma_300k(), num(row, "gamma0"), max_relative = 5e-4);
-        assert_relative_eq!(gas.critical_temperature_k, num(row, "critical_temperature_k"), max_relative = 1e-4);
-        assert_relative_eq!(gas.critical_pressure_pa, num(row, "critical_pressure_pa"), max_relative = 1e-3);
-        assert!((gas.acentric_factor - num(row, "acentric_factor")).abs() < 1e-3, "{}", gas.name);
-        assert_relative_eq!(gas.min_temperature_k, num(row, "triple_point_temperature_k"), max_relative = 1e-4);
+        assert_relative_eq!(
+            gas.critical_temperature_k,
+            num(row, "critical_temperature_k"),
+            max_relative = 1e-4
+        );
+        assert_relative_eq!(
+            gas.critical_pressure_pa,
+            num(row, "critical_pressure_pa"),
+            max_relative = 1e-3
+        );
+        assert!(
+            (gas.acentric_factor - num(row, "acentric_factor")).abs() < 1e-3,
+            "{}",
+            gas.name
+        );
+        assert_relative_eq!(
+            gas.min_temperature_k,
+            num(row, "triple_point_temperature_k"),
+            max_relative = 1e-4
+        );
     }
 }
 
@@ -92,7 +126,11 @@ fn carbon_dioxide_at_20_c_saturates_at_57_bar() {
         .saturation_pressure(ThermodynamicTemperature::new::<kelvin>(293.15))
         .unwrap()
         .get::<pascal>();
-    assert_relative_eq!(got, num(&row, "saturation_pressure_pa"), max_relative = 0.005);
+    assert_relative_eq!(
+        got,
+        num(&row, "saturation_pressure_pa"),
+        max_relative = 0.005
+    );
 }
 
 #[test]
@@ -101,7 +139,11 @@ fn standard_atmosphere_matches_the_1976_model() {
     for row in rows("standard_atmosphere.csv") {
         let z = num(&row, "elevation_m");
         let p = atmosphere::pressure_at(Length::new::<meter>(z)).unwrap();
-        assert_relative_eq!(p.get::<pascal>(), num(&row, "pressure_pa"), max_relative = 1e-4);
+        assert_relative_eq!(
+            p.get::<pascal>(),
+            num(&row, "pressure_pa"),
+            max_relative = 1e-4
+        );
     }
 }
 

@@ -42,7 +42,8 @@ pub struct Gas {
     pub critical_pressure_pa: f64,
     /// Pitzer acentric factor.
     pub acentric_factor: f64,
-    /// The lowest temperature accepted for the gas (its triple point), K.
+    /// The lowest temperature accepted for the gas (its triple point; helium's lambda
+    /// point, having none), K.
     pub min_temperature_k: f64,
     /// The reference equation of state for the gas, the source of its critical point.
     pub eos: &'static str,
@@ -251,7 +252,7 @@ pub enum GasError {
         saturation_pa: f64,
     },
     /// Below the triple point the substance is solid or liquid.
-    #[error("{gas} at {temperature_k:.2} K is below its triple point ({min_k:.2} K); accepted: a temperature above it")]
+    #[error("{gas} at {temperature_k:.2} K is below {min_k:.2} K, the lowest temperature accepted for it (its triple point; for helium, its lambda point), where it is no longer a gas; accepted: a temperature above it")]
     BelowTriplePoint {
         /// The gas.
         gas: &'static str,

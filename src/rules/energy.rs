@@ -10,7 +10,7 @@ use uom::si::{
 };
 
 use super::blast::{self, DistanceBasis};
-use super::{check_positive, gas_error, initial_state};
+use super::{check_positive, gas_error, initial_state, MAX_PRESSURE_PA, MAX_VOLUME_M3};
 use crate::caution::{Assessed, Caution, Level};
 use crate::gas::{GasModel, State};
 use crate::units::fmt_sig;
@@ -100,17 +100,37 @@ pub fn stored_energy(
     model: &dyn GasModel,
     input: &EnergyInput,
 ) -> Result<Assessed<EnergyResult>, InputError> {
-    check_positive("volume", input.volume.get::<cubic_meter>(), "m3")?;
     check_positive(
-        "tnt-energy",
-        input.tnt_energy.get::<joule_per_kilogram>(),
-        "J/kg",
+        "volume",
+        input.volume.get::<cubic_meter>(),
+        "m3",
+        MAX_VOLUME_M3,
     )?;
+    let tnt = input.tnt_energy.get::<joule_per_kilogram>();
+    if !(1.0e6..=1.0e7).contains(&tnt) {
+        return Err(InputError::new(
+            "tnt-energy",
+            format!("{tnt} J/kg"),
+            "must be above zero and within the published range of TNT blast energies; accepted: 1 MJ/kg to 10 MJ/kg (4.184 MJ/kg is the 1000 cal/g convention)",
+        ));
+    }
     for p in &input.overpressures {
-        check_positive("overpressure", p.get::<pascal>(), "Pa")?;
+        check_positive("overpressure", p.get::<pascal>(), "Pa", 1.0e7)?;
     }
     if let Some(e) = input.energy_limit {
-        check_positive("energy-limit", e.get::<joule>(), "J")?;
+        if !(e.get::<joule>() >= 1.0 && e.get::<joule>() <= 1.0e15) {
+            return Err(InputError::new(
+                "energy-limit",
+                format!("{} J", e.get::<joule>()),
+                "must be above zero; accepted: 1 J to 1e15 J",
+            ));
+        }
+    }
+    if let Some(m) = input.mawp {
+        check_positive("mawp", m.get::<pascal>(), "Pa(a)", MAX_PRESSURE_PA)?;
+    }
+    if let Some(c) = input.clearance {
+        check_positive("clearance", c.get::<meter>(), "m", 1.0e5)?;
     }
     let (state, mut cautions) = initial_state(
         model,

@@ -7,7 +7,7 @@ use uom::si::{
     thermodynamic_temperature::kelvin, volume::cubic_meter,
 };
 
-use super::{check_positive, gas_error, initial_state};
+use super::{check_positive, check_temperature, gas_error, initial_state, MAX_VOLUME_M3};
 use crate::caution::{Assessed, Caution, Level};
 use crate::gas::{GasModel, State};
 use crate::units::fmt_sig;
@@ -57,7 +57,17 @@ pub fn adiabatic_fill(
     model: &dyn GasModel,
     input: &FillInput,
 ) -> Result<Assessed<FillResult>, InputError> {
-    check_positive("volume", input.volume.get::<cubic_meter>(), "m3")?;
+    check_positive(
+        "volume",
+        input.volume.get::<cubic_meter>(),
+        "m3",
+        MAX_VOLUME_M3,
+    )?;
+    check_temperature("supply-temperature", input.supply_temperature)?;
+    check_temperature("ambient-temperature", input.ambient_temperature)?;
+    if let Some(t) = input.rated_temperature {
+        check_temperature("rated-temperature", t)?;
+    }
     let (initial, mut cautions) = initial_state(
         model,
         ("from", "initial-temperature"),
@@ -84,6 +94,10 @@ pub fn adiabatic_fill(
     )?;
     cautions.extend(target_cautions);
     // The supply is at the fill's end pressure: for an ideal gas h does not depend on it.
+    model
+        .gas()
+        .check_gas_phase(input.to, input.supply_temperature)
+        .map_err(gas_error("supply-temperature"))?;
     let supply = model
         .state_pt(input.to, input.supply_temperature)
         .map_err(gas_error("supply-temperature"))?;
@@ -160,10 +174,16 @@ fn fill_to_pressure(
     }
     let want = settled_density.get::<kilogram_per_cubic_meter>();
     let gap = |ln_p: f64| -> f64 {
-        fill_end_state(model, initial, supply, volume, Pressure::new::<pascal>(ln_p.exp()))
-            .map_or(f64::NAN, |st| {
-                st.density.get::<kilogram_per_cubic_meter>() / want - 1.0
-            })
+        fill_end_state(
+            model,
+            initial,
+            supply,
+            volume,
+            Pressure::new::<pascal>(ln_p.exp()),
+        )
+        .map_or(f64::NAN, |st| {
+            st.density.get::<kilogram_per_cubic_meter>() / want - 1.0
+        })
     };
     let lo = initial.pressure.get::<pascal>().ln() + 1e-9;
     let hi = (10.0 * supply.pressure.get::<pascal>()).ln();
@@ -283,7 +303,7 @@ mod tests {
         // Fill-to pressure, closed form: p_f = p_i + γ·T0·(p_target/T_amb − p_i/T_i).
         let fill_to = pi + g * t0 * (pf / 293.15 - pi / ti);
         assert_relative_eq!(
-            r.fill_to_pressure.get::<pascal>(),
+            r.fill_to_pressure.unwrap().get::<pascal>(),
             fill_to,
             max_relative = 1e-8
         );

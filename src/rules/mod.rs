@@ -15,17 +15,29 @@ use crate::caution::{Caution, Level};
 use crate::gas::{GasError, GasModel, State};
 use crate::InputError;
 
-/// Refuses a value that is not finite and above zero.
-fn check_positive(field: &str, value: f64, unit: &str) -> Result<(), InputError> {
-    if value.is_finite() && value > 0.0 {
+/// Largest absolute pressure accepted, Pa (10 000 bar: above any gas vessel in service).
+pub const MAX_PRESSURE_PA: f64 = 1.0e9;
+/// Highest gas temperature accepted, K.
+pub const MAX_TEMPERATURE_K: f64 = 2_000.0;
+/// Largest vessel volume accepted, m³.
+pub const MAX_VOLUME_M3: f64 = 1.0e5;
+
+/// Refuses a value that is not finite, not above zero, or above `max`.
+fn check_positive(field: &str, value: f64, unit: &str, max: f64) -> Result<(), InputError> {
+    if value.is_finite() && value > 0.0 && value <= max {
         Ok(())
     } else {
         Err(InputError::new(
             field,
             format!("{value} {unit}"),
-            "must be above zero; accepted: a positive quantity",
+            format!("must be above zero and at most {max} {unit}; accepted: a value in that range"),
         ))
     }
+}
+
+/// Refuses a temperature outside (0, MAX_TEMPERATURE_K].
+fn check_temperature(field: &str, t: ThermodynamicTemperature) -> Result<(), InputError> {
+    check_positive(field, t.get::<kelvin>(), "K", MAX_TEMPERATURE_K)
 }
 
 /// Turns a gas model's refusal into an input error on `field`.
@@ -59,13 +71,8 @@ fn initial_state(
             "the absolute pressure must be above zero (a gauge pressure below -1 atm is a vacuum beyond perfect); accepted: a pressure above vacuum",
         ));
     }
-    if !(t.get::<kelvin>().is_finite() && t.get::<kelvin>() > 0.0) {
-        return Err(InputError::new(
-            temperature_field,
-            format!("{} K", t.get::<kelvin>()),
-            "must be above absolute zero",
-        ));
-    }
+    check_positive(pressure_field, p.get::<pascal>(), "Pa(a)", MAX_PRESSURE_PA)?;
+    check_temperature(temperature_field, t)?;
     model.gas().check_gas_phase(p, t).map_err(|e| match e {
         GasError::BelowTriplePoint { .. } => gas_error(temperature_field)(e),
         _ => gas_error(pressure_field)(e),

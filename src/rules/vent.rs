@@ -11,7 +11,7 @@ use uom::si::{
     thermodynamic_temperature::kelvin, time::second, volume::cubic_meter,
 };
 
-use super::{check_positive, gas_error, initial_state};
+use super::{check_positive, check_temperature, gas_error, initial_state, MAX_VOLUME_M3};
 use crate::caution::{Assessed, Caution, Level};
 use crate::gas::{GasModel, State};
 use crate::units::fmt_sig;
@@ -19,6 +19,10 @@ use crate::InputError;
 
 /// Discharge coefficient of a sharp-edged orifice, the default (Perry's, ch. 10).
 pub const SHARP_EDGED_CD: f64 = 0.61;
+/// Smallest orifice accepted, m (0.01 mm: below it the flow is no longer an orifice flow).
+pub const MIN_ORIFICE_M: f64 = 1.0e-5;
+/// Largest orifice accepted, m.
+pub const MAX_ORIFICE_M: f64 = 5.0;
 /// The default target is ambient plus this fraction of it: at ambient itself the flow stops.
 pub const DEFAULT_TARGET_MARGIN: f64 = 0.01;
 
@@ -85,7 +89,12 @@ pub fn blow_down(
     model: &dyn GasModel,
     input: &VentInput,
 ) -> Result<Assessed<VentResult>, InputError> {
-    check_positive("volume", input.volume.get::<cubic_meter>(), "m3")?;
+    check_positive(
+        "volume",
+        input.volume.get::<cubic_meter>(),
+        "m3",
+        MAX_VOLUME_M3,
+    )?;
     if !(input.cd.is_finite() && input.cd > 0.0 && input.cd <= 1.0) {
         return Err(InputError::new(
             "cd",
@@ -93,11 +102,20 @@ pub fn blow_down(
             "a discharge coefficient lies in (0, 1]; accepted: e.g. 0.61 (sharp-edged orifice), 0.97 (well-rounded nozzle)",
         ));
     }
+    if let Some(t) = input.min_metal_temperature {
+        check_temperature("min-metal-temperature", t)?;
+    }
     if let Some(d) = input.orifice {
-        check_positive("orifice", d.get::<meter>(), "m")?;
+        if !(d.get::<meter>() >= MIN_ORIFICE_M && d.get::<meter>() <= MAX_ORIFICE_M) {
+            return Err(InputError::new(
+                "orifice",
+                format!("{} mm", d.get::<meter>() * 1e3),
+                "must be above zero, from 0.01 mm to 5 m; accepted: an orifice diameter in that range",
+            ));
+        }
     }
     if let Some(t) = input.within {
-        check_positive("within", t.get::<second>(), "s")?;
+        check_positive("within", t.get::<second>(), "s", 1.0e8)?;
     }
     if input.orifice.is_none() && input.within.is_none() {
         return Err(InputError::new(

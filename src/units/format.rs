@@ -25,7 +25,10 @@ pub enum UnitSystem {
 
 /// Formats `x` with `sig` significant figures, without exponent for everyday magnitudes.
 pub fn fmt_sig(x: f64, sig: usize) -> String {
-    if x == 0.0 || !x.is_finite() {
+    if !x.is_finite() {
+        return "(not a finite number)".to_string();
+    }
+    if x == 0.0 {
         return "0".to_string();
     }
     let magnitude = x.abs().log10().floor() as i32;
