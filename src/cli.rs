@@ -365,6 +365,13 @@ fn fill_command(a: FillArgs) -> Result<String, Failure> {
         let defaulted = match e.field.as_str() {
             "initial-temperature" => a.initial_temperature.is_none(),
             "supply-temperature" => a.supply_temperature.is_none(),
+            "from" if a.initial_temperature.is_none() => {
+                let problem = format!(
+                    "{} (at the ambient temperature, which --initial-temperature defaults to)",
+                    e.problem
+                );
+                return InputError { problem, ..e };
+            }
             _ => false,
         };
         if defaulted {

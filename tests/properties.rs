@@ -164,6 +164,6 @@ proptest! {
         };
         let (fast, slow) = (run(Process::Isentropic), run(Process::Isothermal));
         prop_assert!(fast.time.unwrap() < slow.time.unwrap());
-        prop_assert!(fast.final_temperature < slow.final_temperature);
+        prop_assert!(fast.end.temperature < slow.end.temperature);
     }
 }

@@ -2,11 +2,13 @@
 //! inputs. The JSON form is the contract other tools read; the [`Worksheet`] form is what the
 //! text (and, later, PDF) renderers lay out. Nothing here computes physics.
 
+mod document;
 mod json;
 mod text;
 
+pub use document::{Axis, AxisKind, Document, Plot, Section, Series};
 pub use json::to_json;
-pub use text::render_text;
+pub use text::{render_text, value_text};
 
 use serde::Serialize;
 use uom::si::f64::{
@@ -18,8 +20,8 @@ use crate::caution::{ordered, Assessed, Caution};
 use crate::gas::{GasModel, ModelKind};
 use crate::rules::blast::DistanceBasis;
 use crate::rules::energy::{Energies, EnergyInput, EnergyResult};
-use crate::rules::fill::{FillInput, FillResult};
-use crate::rules::vent::{Process, VentInput, VentResult};
+use crate::rules::fill::{FillInput, FillResult, FillSample};
+use crate::rules::vent::{Process, VentInput, VentResult, VentSample};
 
 /// The tool's version, written into every record.
 pub const TOOL_VERSION: &str = env!("CARGO_PKG_VERSION");
@@ -110,7 +112,7 @@ impl EnergyReport {
             },
             gas_mass_kg: r.gas_mass,
             energy_j: r.energy,
-            isentropic_end_temperature_k: r.isentropic_end_temperature,
+            isentropic_end_temperature_k: r.isentropic_end.temperature,
             tnt_equivalent_kg: r.tnt_equivalent,
             exclusion_distance_m: r.exclusion_distance,
             exclusion_basis: r.exclusion_basis,
@@ -152,6 +154,8 @@ pub struct FillReport {
     pub settled_pressure_pa: Pressure,
     /// Stop pressure that settles at the target, Pa(a); null when no fill is needed.
     pub fill_to_pressure_pa: Option<Pressure>,
+    /// Gas temperature against pressure through the fill.
+    pub path: Vec<FillSample>,
     /// Cautions, highest first, the deferral last.
     pub cautions: Vec<Caution>,
 }
@@ -206,6 +210,7 @@ impl FillReport {
             mass_added_kg: r.mass_added,
             settled_pressure_pa: r.settled_pressure,
             fill_to_pressure_pa: r.fill_to_pressure,
+            path: r.path,
             cautions: ordered(out.cautions),
         }
     }
@@ -236,6 +241,8 @@ pub struct VentReport {
     pub initial_mass_flow_kg_per_s: Option<MassRate>,
     /// Orifice diameter that vents within `--within`, m.
     pub required_orifice_m: Option<Length>,
+    /// Pressure and gas temperature against time through the given orifice.
+    pub history: Vec<VentSample>,
     /// Cautions, highest first, the deferral last.
     pub cautions: Vec<Caution>,
 }
@@ -288,10 +295,11 @@ impl VentReport {
             },
             time_s: r.time,
             choked_time_s: r.choked_time,
-            final_temperature_k: r.final_temperature,
+            final_temperature_k: r.end.temperature,
             mass_vented_kg: r.mass_vented,
             initial_mass_flow_kg_per_s: r.initial_mass_flow,
             required_orifice_m: r.required_orifice,
+            history: r.history,
             cautions: ordered(out.cautions),
         }
     }

@@ -34,7 +34,7 @@ fn section(out: &mut String, heading: &str, entries: &[Entry], d: &Display) {
             "  {}{}  {}\n",
             e.label,
             " ".repeat(pad),
-            value(&e.value, d)
+            value_text(&e.value, d)
         ));
         if let Some(m) = e.method {
             out.push_str(&format!("  {}  [{}]\n", " ".repeat(label_width), m));
@@ -42,7 +42,8 @@ fn section(out: &mut String, heading: &str, entries: &[Entry], d: &Display) {
     }
 }
 
-fn value(v: &Value, d: &Display) -> String {
+/// A worksheet value as text in the display's units (shared by every renderer).
+pub fn value_text(v: &Value, d: &Display) -> String {
     match v {
         Value::Pressure(p) => d.pressure(*p),
         Value::AbsolutePressure(p) => d.absolute_pressure(*p),

@@ -83,11 +83,15 @@ pub enum DistanceBasis {
     /// Scaled distance 20 m/kg^(1/3) times the cube root of the TNT mass.
     Scaled,
     /// The 30 m floor for stored energy up to 135.5 MJ.
+    #[serde(rename = "floor-30m")]
     Floor30m,
     /// The 60 m floor for stored energy from 135.5 MJ to 271 MJ.
+    #[serde(rename = "floor-60m")]
     Floor60m,
     /// Above 271 MJ: the rule does not settle it; engineering analysis is required.
     BeyondRule,
+    /// At or below ambient pressure there is no stored energy and no distance.
+    NoStoredEnergy,
 }
 
 /// Stored energy above which the rule requires engineering analysis, J.

@@ -10,7 +10,10 @@ use uom::si::{
 };
 
 use super::blast::{self, DistanceBasis};
-use super::{check_positive, gas_error, initial_state, MAX_PRESSURE_PA, MAX_VOLUME_M3};
+use super::{
+    check_positive, end_phase_caution, gas_cautions, gas_error, user_state, MAX_PRESSURE_PA,
+    MAX_VOLUME_M3,
+};
 use crate::caution::{Assessed, Caution, Level};
 use crate::gas::{GasModel, State};
 use crate::units::fmt_sig;
@@ -75,8 +78,8 @@ pub struct EnergyResult {
     pub gas_mass: Mass,
     /// The expansion energies.
     pub energy: Energies,
-    /// Gas temperature at the end of the isentropic expansion to ambient.
-    pub isentropic_end_temperature: ThermodynamicTemperature,
+    /// The gas's state at the end of the isentropic expansion to ambient.
+    pub isentropic_end: State,
     /// TNT mass equivalent of the isentropic energy.
     pub tnt_equivalent: Mass,
     /// The pneumatic-test exclusion distance.
@@ -132,12 +135,13 @@ pub fn stored_energy(
     if let Some(c) = input.clearance {
         check_positive("clearance", c.get::<meter>(), "m", 1.0e5)?;
     }
-    let (state, mut cautions) = initial_state(
+    let state = user_state(
         model,
         ("pressure", "temperature"),
         input.pressure,
         input.temperature,
     )?;
+    let mut cautions = gas_cautions(model, &state);
     let gas_mass = state.density * input.volume;
     let pa = input.ambient;
 
@@ -160,10 +164,10 @@ pub fn stored_energy(
                     brode: zero,
                     availability: zero,
                 },
-                isentropic_end_temperature: input.temperature,
+                isentropic_end: state,
                 tnt_equivalent: Mass::new::<uom::si::mass::kilogram>(0.0),
                 exclusion_distance: Length::new::<meter>(0.0),
-                exclusion_basis: DistanceBasis::Floor30m,
+                exclusion_basis: DistanceBasis::NoStoredEnergy,
                 standoffs: Vec::new(),
                 hydrotest_energy: zero,
                 vent_down_target: None,
@@ -201,7 +205,7 @@ pub fn stored_energy(
     let result = EnergyResult {
         gas_mass,
         energy,
-        isentropic_end_temperature: end.temperature,
+        isentropic_end: end,
         tnt_equivalent,
         exclusion_distance: safe.distance,
         exclusion_basis: safe.basis,
@@ -310,7 +314,7 @@ fn energy_cautions(model: &dyn GasModel, input: &EnergyInput, r: &EnergyResult) 
         (Some(limit), Some(p)) => out.push(Caution::new(
             Level::Notice,
             format!(
-                "Vent down to {} bar(a) or below before the stored energy is within the limit of {} MJ.",
+                "Vent down to {} bar(a) or below to bring the stored energy within the limit of {} MJ.",
                 fmt_sig(p.get::<pascal>() / 1e5, 4),
                 fmt_sig(limit.get::<joule>() / 1e6, 4)
             ),
@@ -336,6 +340,7 @@ fn energy_cautions(model: &dyn GasModel, input: &EnergyInput, r: &EnergyResult) 
                 DistanceBasis::Floor30m => "30 m minimum for up to 135.5 MJ",
                 DistanceBasis::Floor60m => "60 m minimum for up to 271 MJ",
                 DistanceBasis::BeyondRule => "rule exceeded",
+                DistanceBasis::NoStoredEnergy => "no stored energy",
             }
         ),
     ));
@@ -394,19 +399,11 @@ fn energy_cautions(model: &dyn GasModel, input: &EnergyInput, r: &EnergyResult) 
             ));
         }
     }
-    if let Some(tsat) = model.gas().saturation_temperature(input.ambient) {
-        if r.isentropic_end_temperature < tsat {
-            out.push(Caution::new(
-                Level::Caution,
-                format!(
-                    "The isentropic expansion to ambient ends at {:.0} K, below {}'s condensation temperature at ambient ({:.0} K): part of the gas would condense, which these gas methods do not model. The energy shown is an estimate.",
-                    r.isentropic_end_temperature.get::<kelvin>(),
-                    model.gas().name,
-                    tsat.get::<kelvin>()
-                ),
-            ));
-        }
-    }
+    out.extend(end_phase_caution(
+        model,
+        "The isentropic expansion to ambient",
+        &r.isentropic_end,
+    ));
     out.push(Caution::new(
         Level::Notice,
         "Before opening or working on the vessel: isolate, lock out and tag out, vent to zero, verify zero on two independent indications, and open slowly.",

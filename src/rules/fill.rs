@@ -7,7 +7,9 @@ use uom::si::{
     thermodynamic_temperature::kelvin, volume::cubic_meter,
 };
 
-use super::{check_positive, check_temperature, gas_error, initial_state, MAX_VOLUME_M3};
+use super::{
+    check_positive, check_temperature, gas_cautions, gas_error, user_state, MAX_VOLUME_M3,
+};
 use crate::caution::{Assessed, Caution, Level};
 use crate::gas::{GasModel, State};
 use crate::units::fmt_sig;
@@ -32,8 +34,23 @@ pub struct FillInput {
     pub rated_temperature: Option<ThermodynamicTemperature>,
 }
 
+/// Points on the fill's temperature–pressure path (besides the start).
+const PATH_POINTS: usize = 40;
+
+/// A point on the adiabatic fill's path: the gas temperature once the cylinder is at
+/// `pressure`.
+#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
+pub struct FillSample {
+    /// Absolute pressure in the cylinder.
+    #[serde(rename = "pressure_pa")]
+    pub pressure: Pressure,
+    /// Gas temperature.
+    #[serde(rename = "temperature_k")]
+    pub temperature: ThermodynamicTemperature,
+}
+
 /// What the fill rule computes.
-#[derive(Debug, Clone, Copy, PartialEq)]
+#[derive(Debug, Clone, PartialEq)]
 pub struct FillResult {
     /// Gas temperature at the end of an adiabatic fill.
     pub final_temperature: ThermodynamicTemperature,
@@ -46,6 +63,8 @@ pub struct FillResult {
     /// Pressure at which to stop a fill (at the same conditions) so it settles at `to`;
     /// `None` when the gas already in the cylinder settles at or above `to`.
     pub fill_to_pressure: Option<Pressure>,
+    /// Gas temperature against pressure from the start to the end of the fill.
+    pub path: Vec<FillSample>,
 }
 
 /// The adiabatic fill from `from` to `to`, with its cautions.
@@ -68,7 +87,7 @@ pub fn adiabatic_fill(
     if let Some(t) = input.rated_temperature {
         check_temperature("rated-temperature", t)?;
     }
-    let (initial, mut cautions) = initial_state(
+    let initial = user_state(
         model,
         ("from", "initial-temperature"),
         input.from,
@@ -85,14 +104,14 @@ pub fn adiabatic_fill(
         ));
     }
     // The settled target must be a gas too, and the model's limits apply at the top of
-    // the fill; identical cautions are merged when printed.
-    let (target, target_cautions) = initial_state(
+    // the fill.
+    let target = user_state(
         model,
         ("to", "ambient-temperature"),
         input.to,
         input.ambient_temperature,
     )?;
-    cautions.extend(target_cautions);
+    let mut cautions = gas_cautions(model, &target);
     // The supply is at the fill's end pressure: for an ideal gas h does not depend on it.
     model
         .gas()
@@ -103,6 +122,21 @@ pub fn adiabatic_fill(
         .map_err(gas_error("supply-temperature"))?;
 
     let end = fill_end_state(model, &initial, &supply, input.volume, input.to)?;
+    let path = (1..=PATH_POINTS)
+        .map(|i| {
+            let p = input.from + (input.to - input.from) * (i as f64 / PATH_POINTS as f64);
+            fill_end_state(model, &initial, &supply, input.volume, p).map(|st| FillSample {
+                pressure: st.pressure,
+                temperature: st.temperature,
+            })
+        })
+        .collect::<Result<Vec<_>, _>>()?;
+    let path = std::iter::once(FillSample {
+        pressure: initial.pressure,
+        temperature: initial.temperature,
+    })
+    .chain(path)
+    .collect();
     let settled = model
         .state_rho_t(end.density, input.ambient_temperature)
         .map_err(gas_error("ambient-temperature"))?;
@@ -114,6 +148,7 @@ pub fn adiabatic_fill(
         mass_added: end.density * input.volume - initial_mass,
         settled_pressure: settled.pressure,
         fill_to_pressure: fill_to,
+        path,
     };
     cautions.extend(fill_cautions(input, &result));
     Ok(Assessed {
@@ -210,12 +245,23 @@ fn fill_cautions(input: &FillInput, r: &FillResult) -> Vec<Caution> {
             "No --rated-temperature given: compare the fill temperature with the maximum marked on the cylinder or in its standard (often 65 °C).",
         )),
     }
+    // The wall starts at the initial gas temperature: where the gas ends hotter than that,
+    // heat to the wall could only cool it, so the adiabatic result bounds it from above.
+    let ambient_c = input.ambient_temperature.get::<kelvin>() - 273.15;
+    let then = if r.final_temperature > input.ambient_temperature {
+        "cools"
+    } else {
+        "warms"
+    };
+    let bound = if r.final_temperature >= input.initial_temperature {
+        format!("{:.0} °C is the upper bound of the gas temperature for any fill rate; a real fill is cooler", tf - 273.15)
+    } else {
+        format!("the gas ends at {:.0} °C, colder than the cylinder started, so heat from the wall would warm it: this is not a bound", tf - 273.15)
+    };
     out.push(Caution::new(
         Level::Notice,
         format!(
-            "Adiabatic fill: no heat passes to the cylinder wall, so {:.0} °C is the upper bound of the gas temperature for any fill rate. A real fill is cooler; the settled pressure assumes the gas then cools to {:.0} °C at constant mass.",
-            tf - 273.15,
-            input.ambient_temperature.get::<kelvin>() - 273.15
+            "Adiabatic fill: no heat passes between the gas and the cylinder wall, so {bound}. The settled pressure assumes the gas then {then} to {ambient_c:.0} °C at constant mass."
         ),
     ));
     let shortfall = 1.0 - r.settled_pressure.get::<pascal>() / input.to.get::<pascal>();

@@ -56,14 +56,14 @@ fn gas_error(field: &'static str) -> impl Fn(GasError) -> InputError {
     }
 }
 
-/// The user's starting state, checked for phase, with the model's own NOTICE and limits
-/// and the released gas's hazard. `fields` names the pressure and temperature inputs.
-fn initial_state(
+/// The user's state, checked for range and phase. `fields` names the pressure and
+/// temperature inputs, for the error.
+fn user_state(
     model: &dyn GasModel,
     (pressure_field, temperature_field): (&'static str, &'static str),
     p: Pressure,
     t: ThermodynamicTemperature,
-) -> Result<(State, Vec<Caution>), InputError> {
+) -> Result<State, InputError> {
     if !(p.get::<pascal>().is_finite() && p.get::<pascal>() > 0.0) {
         return Err(InputError::new(
             pressure_field,
@@ -77,12 +77,46 @@ fn initial_state(
         GasError::BelowTriplePoint { .. } => gas_error(temperature_field)(e),
         _ => gas_error(pressure_field)(e),
     })?;
-    let state = model.state_pt(p, t).map_err(gas_error(pressure_field))?;
+    model.state_pt(p, t).map_err(gas_error(pressure_field))
+}
+
+/// The cautions every result carries about its gas: which model, the model's limits at
+/// `state` (the highest-pressure state of the calculation), and the released gas's hazard.
+fn gas_cautions(model: &dyn GasModel, state: &State) -> Vec<Caution> {
     let mut cautions = vec![Caution::new(
         Level::Notice,
         format!("Gas model: {} ({}).", model.describe(), model.gas().name),
     )];
-    cautions.extend(model.limitations(&state));
+    cautions.extend(model.limitations(state));
     cautions.extend(model.gas().hazard.caution(model.gas().name));
-    Ok((state, cautions))
+    cautions
+}
+
+/// A CAUTION when an expansion's end state (`what`, at `end`) lies where the gas would no
+/// longer be a gas: below its condensation temperature, or below its triple point.
+fn end_phase_caution(model: &dyn GasModel, what: &str, end: &State) -> Option<Caution> {
+    let gas = model.gas();
+    let t = end.temperature.get::<kelvin>();
+    if t < gas.min_temperature_k {
+        return Some(Caution::new(
+            Level::Caution,
+            format!(
+                "{what} ends at {t:.0} K, below {}'s triple point ({:.0} K): the gas would partly condense or freeze{}, which these gas methods do not model. Treat the result as an estimate and expect ice or liquid in the vent path.",
+                gas.name,
+                gas.min_temperature_k,
+                if gas.name == "carbon-dioxide" { " (dry-ice snow, which can block a vent)" } else { "" }
+            ),
+        ));
+    }
+    let tsat = gas.saturation_temperature(end.pressure)?;
+    (end.temperature < tsat).then(|| {
+        Caution::new(
+            Level::Caution,
+            format!(
+                "{what} ends at {t:.0} K, below {}'s condensation temperature there ({:.0} K): part of the gas would condense, which these gas methods do not model. Treat the result as an estimate.",
+                gas.name,
+                tsat.get::<kelvin>()
+            ),
+        )
+    })
 }

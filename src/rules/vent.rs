@@ -11,7 +11,10 @@ use uom::si::{
     thermodynamic_temperature::kelvin, time::second, volume::cubic_meter,
 };
 
-use super::{check_positive, check_temperature, gas_error, initial_state, MAX_VOLUME_M3};
+use super::{
+    check_positive, check_temperature, end_phase_caution, gas_cautions, gas_error, user_state,
+    MAX_VOLUME_M3,
+};
 use crate::caution::{Assessed, Caution, Level};
 use crate::gas::{GasModel, State};
 use crate::units::fmt_sig;
@@ -61,21 +64,40 @@ pub struct VentInput {
     pub within: Option<Time>,
 }
 
+/// Number of segments the vent history is sampled in (plus the choke point).
+const HISTORY_SEGMENTS: usize = 48;
+
+/// One moment of the vent-down.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct VentSample {
+    /// Time since the vent opened.
+    #[serde(rename = "time_s")]
+    pub time: Time,
+    /// Absolute pressure in the vessel.
+    #[serde(rename = "pressure_pa")]
+    pub pressure: Pressure,
+    /// Gas temperature in the vessel.
+    #[serde(rename = "temperature_k")]
+    pub temperature: ThermodynamicTemperature,
+}
+
 /// What the blow-down rule computes.
-#[derive(Debug, Clone, Copy, PartialEq)]
+#[derive(Debug, Clone, PartialEq)]
 pub struct VentResult {
     /// Time to reach the target through the given orifice (`None` without one).
     pub time: Option<Time>,
     /// Part of that time with the orifice choked.
     pub choked_time: Option<Time>,
-    /// Gas temperature at the target pressure.
-    pub final_temperature: ThermodynamicTemperature,
+    /// The gas's state at the target pressure.
+    pub end: State,
     /// Mass of gas vented.
     pub mass_vented: Mass,
     /// Mass flow at the start (the largest), through the given orifice.
     pub initial_mass_flow: Option<MassRate>,
     /// Orifice diameter that reaches the target in `within`, at the same Cd.
     pub required_orifice: Option<Length>,
+    /// Pressure and temperature against time through the given orifice (empty without one).
+    pub history: Vec<VentSample>,
 }
 
 /// Quasi-steady blow-down: the gas in the vessel follows `process` while an isentropic
@@ -134,12 +156,13 @@ pub fn blow_down(
             ),
         ));
     }
-    let (start, mut cautions) = initial_state(
+    let start = user_state(
         model,
         ("pressure", "temperature"),
         input.pressure,
         input.temperature,
     )?;
+    let mut cautions = gas_cautions(model, &start);
     let path = Path {
         model,
         process: input.process,
@@ -157,10 +180,11 @@ pub fn blow_down(
         let value = VentResult {
             time: input.orifice.map(|_| Time::new::<second>(0.0)),
             choked_time: input.orifice.map(|_| Time::new::<second>(0.0)),
-            final_temperature: start.temperature,
+            end: start,
             mass_vented: mass(start.density) * 0.0,
             initial_mass_flow: None,
             required_orifice: None,
+            history: Vec::new(),
         };
         return Ok(Assessed { value, cautions });
     }
@@ -187,9 +211,33 @@ pub fn blow_down(
         };
         input.volume.get::<cubic_meter>() * crate::solve::integrate(inverse_flux, a, b, 1e-10)
     };
-    let choked_unit = unit_time(start.density, choke_density.max(end.density));
-    let subsonic_unit = unit_time(choke_density.min(start.density), end.density);
-    let total_unit = choked_unit + subsonic_unit;
+    // Densities from the start to the end, evenly in ln ρ, with the choke point among them
+    // so the choked time is a partial sum; each segment is integrated to 1e-10.
+    let (rho0, rho_end) = (
+        start.density.get::<kilogram_per_cubic_meter>(),
+        end.density.get::<kilogram_per_cubic_meter>(),
+    );
+    let rho_choke = choke_density.get::<kilogram_per_cubic_meter>();
+    let mut densities: Vec<f64> = (0..=HISTORY_SEGMENTS)
+        .map(|i| rho0 * (rho_end / rho0).powf(i as f64 / HISTORY_SEGMENTS as f64))
+        .collect();
+    if rho_choke < rho0 && rho_choke > rho_end {
+        densities.push(rho_choke);
+        densities.sort_by(|a, b| b.total_cmp(a));
+    }
+    let density = MassDensity::new::<kilogram_per_cubic_meter>;
+    let mut elapsed = vec![0.0];
+    for pair in densities.windows(2) {
+        let last = elapsed[elapsed.len() - 1];
+        elapsed.push(last + unit_time(density(pair[0]), density(pair[1])));
+    }
+    let total_unit = elapsed[elapsed.len() - 1];
+    let choked_unit = densities
+        .iter()
+        .zip(&elapsed)
+        .filter(|(rho, _)| **rho >= rho_choke)
+        .map(|(_, t)| *t)
+        .fold(0.0, f64::max);
     if !(total_unit.is_finite() && total_unit > 0.0) {
         return Err(InputError::new(
             "pressure",
@@ -213,13 +261,29 @@ pub fn blow_down(
         let area = total_unit / t.get::<second>() / input.cd;
         Length::new::<meter>((4.0 * area / std::f64::consts::PI).sqrt())
     });
+    let history = match input.orifice {
+        Some(d) => densities
+            .iter()
+            .zip(&elapsed)
+            .map(|(&rho, &t)| {
+                path.state(density(rho)).map(|st| VentSample {
+                    time: Time::new::<second>(t / effective_area(d)),
+                    pressure: st.pressure,
+                    temperature: st.temperature,
+                })
+            })
+            .collect::<Result<Vec<_>, _>>()
+            .map_err(gas_error("pressure"))?,
+        None => Vec::new(),
+    };
     let result = VentResult {
         time,
         choked_time,
-        final_temperature: end.temperature,
+        end,
         mass_vented: mass(start.density) - mass(end.density),
         initial_mass_flow,
         required_orifice,
+        history,
     };
     cautions.extend(vent_cautions(model, input, &result));
     Ok(Assessed {
@@ -283,9 +347,9 @@ impl Path<'_> {
 
 fn vent_cautions(model: &dyn GasModel, input: &VentInput, r: &VentResult) -> Vec<Caution> {
     let mut out = Vec::new();
-    let tf = r.final_temperature.get::<kelvin>();
+    let tf = r.end.temperature.get::<kelvin>();
     if let Some(mdmt) = input.min_metal_temperature {
-        if r.final_temperature < mdmt {
+        if r.end.temperature < mdmt {
             out.push(Caution::new(
                 Level::Warning,
                 format!(
@@ -301,19 +365,7 @@ fn vent_cautions(model: &dyn GasModel, input: &VentInput, r: &VentResult) -> Vec
             "No --min-metal-temperature (MDMT) given: compare the final gas temperature with the vessel's MDMT on its rating plate.",
         ));
     }
-    if let Some(tsat) = model.gas().saturation_temperature(input.down_to) {
-        if r.final_temperature < tsat {
-            out.push(Caution::new(
-                Level::Caution,
-                format!(
-                    "The isentropic vent ends at {:.0} K, below {}'s condensation temperature at the target ({:.0} K): liquid could form, which these gas methods do not model.",
-                    tf,
-                    model.gas().name,
-                    tsat.get::<kelvin>()
-                ),
-            ));
-        }
-    }
+    out.extend(end_phase_caution(model, "The vent-down", &r.end));
     out.push(Caution::new(
         Level::Notice,
         match input.process {
@@ -391,7 +443,7 @@ mod tests {
             .value;
         assert_relative_eq!(secs(r.time), 142.0, max_relative = 0.01);
         assert_relative_eq!(
-            r.final_temperature.get::<kelvin>(),
+            r.end.temperature.get::<kelvin>(),
             149.0,
             max_relative = 0.01
         );
@@ -417,6 +469,35 @@ mod tests {
             .value;
         let closed = 2.0 * tau / (g - 1.0) * ((p0 / p).powf((g - 1.0) / (2.0 * g)) - 1.0);
         assert_relative_eq!(secs(r.time), closed, max_relative = 1e-9);
+    }
+
+    #[test]
+    fn history_runs_from_start_to_target_and_ends_at_the_time() {
+        let r = blow_down(&air(), &air_vent(1e4, Process::Isentropic))
+            .unwrap()
+            .value;
+        let first = r.history.first().unwrap();
+        let last = r.history.last().unwrap();
+        assert_eq!(first.time.get::<second>(), 0.0);
+        assert_relative_eq!(
+            first.pressure.get::<pascal>(),
+            11.01325e5,
+            max_relative = 1e-12
+        );
+        assert_relative_eq!(
+            last.time.get::<second>(),
+            secs(r.time),
+            max_relative = 1e-12
+        );
+        assert_relative_eq!(
+            last.pressure.get::<pascal>(),
+            1.11325e5,
+            max_relative = 1e-9
+        );
+        assert!(r
+            .history
+            .windows(2)
+            .all(|w| w[1].time > w[0].time && w[1].pressure < w[0].pressure));
     }
 
     #[test]

@@ -120,7 +120,7 @@ impl Display {
         let j = e.get::<joule>();
         let si = match j.abs() {
             x if x >= 1e5 => format!("{} MJ", fmt_sig(j / 1e6, 4)),
-            x if x >= 1e2 => format!("{} kJ", fmt_sig(j / 1e3, 4)),
+            x if x >= 1e3 => format!("{} kJ", fmt_sig(j / 1e3, 4)),
             _ => format!("{} J", fmt_sig(j, 4)),
         };
         self.pair(si, format!("{} ft·lbf", fmt_sig(j / J_PER_FT_LBF, 4)))
@@ -169,6 +169,34 @@ impl Display {
             format!("{} kg/s", fmt_sig(kg, 3)),
             format!("{} lb/s", fmt_sig(kg / KG_PER_LB, 3)),
         )
+    }
+
+    /// A plot axis's unit for `kind`, given the largest SI value on it.
+    pub fn axis_unit(&self, kind: crate::report::AxisKind, max_si: f64) -> &'static str {
+        use crate::report::AxisKind;
+        match (kind, self.system) {
+            (AxisKind::Time, _) if max_si >= 600.0 => "min",
+            (AxisKind::Time, _) => "s",
+            (AxisKind::Pressure, UnitSystem::Si) => "barg",
+            (AxisKind::Pressure, UnitSystem::Us) => "psig",
+            (AxisKind::Temperature, UnitSystem::Si) => "°C",
+            (AxisKind::Temperature, UnitSystem::Us) => "°F",
+        }
+    }
+
+    /// An SI plot value in the unit [`Display::axis_unit`] chose for it.
+    pub fn axis_value(&self, kind: crate::report::AxisKind, max_si: f64, si: f64) -> f64 {
+        use crate::report::AxisKind;
+        match (kind, self.system) {
+            (AxisKind::Time, _) if max_si >= 600.0 => si / 60.0,
+            (AxisKind::Time, _) => si,
+            (AxisKind::Pressure, UnitSystem::Si) => (si - self.ambient.get::<pascal>()) / 1e5,
+            (AxisKind::Pressure, UnitSystem::Us) => {
+                (si - self.ambient.get::<pascal>()) / PA_PER_PSI
+            }
+            (AxisKind::Temperature, UnitSystem::Si) => si - 273.15,
+            (AxisKind::Temperature, UnitSystem::Us) => (si - 273.15) * 9.0 / 5.0 + 32.0,
+        }
     }
 
     /// A duration in s, with minutes where long.
