@@ -11,7 +11,16 @@ use uom::si::f64::{
 };
 use uom::si::pressure::pascal;
 
+use std::io::IsTerminal;
+
 use crate::atmosphere;
+use crate::caution::{Caution, Level};
+use crate::record;
+use crate::report::{render_pdf, Paper};
+use crate::site::{self, Equipment, EquipmentKind, Site};
+use crate::source::FileError;
+use crate::template;
+use crate::worksheet::{self, Meta};
 use crate::gas::{Gas, GasModel, IdealGas, ModelKind, GASES};
 use crate::report::{render_text, to_json, EnergyReport, FillReport, VentReport, Worksheet};
 use crate::rules::energy::{self, EnergyInput};
@@ -26,6 +35,8 @@ pub const EXIT_OK: i32 = 0;
 pub const EXIT_INTERNAL: i32 = 1;
 /// Exit code: bad input; the message names the field, the value and what is accepted.
 pub const EXIT_BAD_INPUT: i32 = 2;
+/// Exit code of `check`: the site was checked and some item raises DANGER.
+pub const EXIT_DANGER: i32 = 3;
 
 /// Stored energy, safe distances, blow-down times and fill temperatures of compressed-gas
 /// vessels, with cautions. Every quantity takes a unit; every pressure says gauge or
@@ -47,6 +58,66 @@ enum Command {
     Vent(VentArgs),
     /// The gases known, with their constants and sources.
     Gases(GasesArgs),
+    /// Dated PDF worksheets, each with a JSON record beside it, for equipment on a site file.
+    Worksheet(WorksheetArgs),
+    /// Checks a site file and ranks its equipment by hazard; exits 3 if any item raises DANGER.
+    Check(CheckArgs),
+}
+
+#[derive(Debug, Args)]
+struct WorksheetArgs {
+    /// The site file (TOML).
+    #[arg(value_name = "SITE.toml")]
+    site: std::path::PathBuf,
+    /// Tag of an item on the site; repeatable.
+    #[arg(long, value_name = "TAG", required_unless_present = "all", conflicts_with = "all")]
+    tag: Vec<String>,
+    /// Every item on the site.
+    #[arg(long)]
+    all: bool,
+    /// A built-in template's name (pre-maintenance, fill-check, pressure-test) or a template file [default: pre-maintenance for vessels, fill-check for cylinders].
+    #[arg(long, value_name = "NAME|PATH")]
+    template: Option<String>,
+    /// The work order the worksheet is attached to.
+    #[arg(long, value_name = "ID")]
+    work_order: Option<String>,
+    /// The name of the person preparing the worksheet.
+    #[arg(long, value_name = "NAME")]
+    prepared_by: Option<String>,
+    /// The worksheet's date and time, RFC 3339 (e.g. 2026-03-14T09:30:00+01:00) [default: SOURCE_DATE_EPOCH if set, else now, in the site's time zone].
+    #[arg(long, value_name = "RFC3339", value_parser = parse_date)]
+    date: Option<chrono::DateTime<chrono::FixedOffset>>,
+    /// Paper size.
+    #[arg(long, value_enum, default_value = "a4")]
+    paper: Paper,
+    /// Folder for the PDFs and their JSON records (created if missing).
+    #[arg(long, value_name = "DIR", default_value = ".")]
+    out: std::path::PathBuf,
+    /// Replace existing records of the same name.
+    #[arg(long)]
+    force: bool,
+    /// Gas model.
+    #[arg(long, value_enum, default_value = "ideal")]
+    model: ModelKind,
+}
+
+#[derive(Debug, Args)]
+struct CheckArgs {
+    /// The site file (TOML).
+    #[arg(value_name = "SITE.toml")]
+    site: std::path::PathBuf,
+    /// Print one JSON object instead of a table.
+    #[arg(long)]
+    json: bool,
+    /// Gas model.
+    #[arg(long, value_enum, default_value = "ideal")]
+    model: ModelKind,
+}
+
+fn parse_date(s: &str) -> Result<chrono::DateTime<chrono::FixedOffset>, String> {
+    chrono::DateTime::parse_from_rfc3339(s.trim()).map_err(|e| {
+        format!("'{s}' is not an RFC 3339 date and time ({e}); accepted: e.g. 2026-03-14T09:30:00+01:00 or 2026-03-14T08:30:00Z")
+    })
 }
 
 /// Options every calculation takes.
@@ -189,8 +260,18 @@ fn parse_cd(s: &str) -> Result<f64, String> {
 pub enum Failure {
     /// The user's input; exit 2.
     Input(InputError),
+    /// A user's file (site or template); exit 2.
+    File(FileError),
+    /// A record that would be overwritten; exit 2.
+    Exists(String),
     /// A defect or an I/O failure; exit 1.
     Internal(String),
+}
+
+impl From<FileError> for Failure {
+    fn from(e: FileError) -> Failure {
+        Failure::File(e)
+    }
 }
 
 impl From<InputError> for Failure {
@@ -215,8 +296,8 @@ pub fn run(args: impl IntoIterator<Item = std::ffi::OsString>, out: &mut dyn Wri
         }
     };
     match execute(cli.command) {
-        Ok(text) => match out.write_all(text.as_bytes()).and_then(|_| out.flush()) {
-            Ok(()) => EXIT_OK,
+        Ok((text, code)) => match out.write_all(text.as_bytes()).and_then(|_| out.flush()) {
+            Ok(()) => code,
             // A closed pipe (`pvhazard ... | head`) is the reader's choice, not an error.
             Err(e) if e.kind() == std::io::ErrorKind::BrokenPipe => EXIT_OK,
             Err(e) => {
@@ -228,6 +309,14 @@ pub fn run(args: impl IntoIterator<Item = std::ffi::OsString>, out: &mut dyn Wri
             eprintln!("pvhazard: error: --{}", e);
             EXIT_BAD_INPUT
         }
+        Err(Failure::File(e)) => {
+            eprintln!("pvhazard: error: {e}");
+            EXIT_BAD_INPUT
+        }
+        Err(Failure::Exists(msg)) => {
+            eprintln!("pvhazard: error: {msg}");
+            EXIT_BAD_INPUT
+        }
         Err(Failure::Internal(msg)) => {
             eprintln!("pvhazard: {msg}");
             EXIT_INTERNAL
@@ -235,13 +324,229 @@ pub fn run(args: impl IntoIterator<Item = std::ffi::OsString>, out: &mut dyn Wri
     }
 }
 
-fn execute(command: Command) -> Result<String, Failure> {
+/// Runs a command: its output and exit code.
+fn execute(command: Command) -> Result<(String, i32), Failure> {
+    let computed = |text: String| (text, EXIT_OK);
     match command {
-        Command::Energy(a) => energy_command(a),
-        Command::Fill(a) => fill_command(a),
-        Command::Vent(a) => vent_command(a),
-        Command::Gases(a) => gases_command(a),
+        Command::Energy(a) => energy_command(a).map(computed),
+        Command::Fill(a) => fill_command(a).map(computed),
+        Command::Vent(a) => vent_command(a).map(computed),
+        Command::Gases(a) => gases_command(a).map(computed),
+        Command::Worksheet(a) => worksheet_command(a).map(computed),
+        Command::Check(a) => check_command(a),
     }
+}
+
+/// The gas model `kind` for `gas`, for site items.
+fn site_model(kind: ModelKind, gas: &'static Gas) -> Result<Box<dyn GasModel>, InputError> {
+    match kind {
+        ModelKind::Ideal => Ok(Box::new(IdealGas::new(gas))),
+        ModelKind::Real => Err(InputError::new(
+            "model",
+            "real",
+            "the real-gas model is not available yet in this version; accepted: ideal",
+        )),
+    }
+}
+
+/// The worksheet date: `--date`, else SOURCE_DATE_EPOCH, else now; in the site's zone
+/// unless `--date` gave its own offset.
+fn worksheet_date(
+    given: Option<chrono::DateTime<chrono::FixedOffset>>,
+    zone: chrono::FixedOffset,
+) -> Result<chrono::DateTime<chrono::FixedOffset>, Failure> {
+    if let Some(d) = given {
+        return Ok(d);
+    }
+    if let Ok(epoch) = std::env::var("SOURCE_DATE_EPOCH") {
+        let secs: i64 = epoch.trim().parse().map_err(|_| {
+            Failure::Input(InputError::new(
+                "SOURCE_DATE_EPOCH",
+                epoch.clone(),
+                "not a number of seconds since 1970-01-01 UTC",
+            ))
+        })?;
+        let utc = chrono::DateTime::from_timestamp(secs, 0).ok_or_else(|| {
+            Failure::Input(InputError::new("SOURCE_DATE_EPOCH", epoch.clone(), "out of range"))
+        })?;
+        return Ok(utc.with_timezone(&zone));
+    }
+    Ok(chrono::Utc::now().with_timezone(&zone))
+}
+
+/// The items `--tag` names (in the order given), or every item with `--all`.
+fn selected<'a>(site: &'a Site, tags: &[String], all: bool) -> Result<Vec<&'a Equipment>, InputError> {
+    if all {
+        return Ok(site.equipment.iter().collect());
+    }
+    tags.iter()
+        .map(|t| {
+            site.equipment
+                .iter()
+                .find(|e| e.tag().eq_ignore_ascii_case(t))
+                .ok_or_else(|| {
+                    InputError::new(
+                        "tag",
+                        t.clone(),
+                        format!(
+                            "no item with this tag on the site; accepted: {}",
+                            site.equipment.iter().map(|e| e.tag()).collect::<Vec<_>>().join(", ")
+                        ),
+                    )
+                })
+        })
+        .collect()
+}
+
+fn worksheet_command(a: WorksheetArgs) -> Result<String, Failure> {
+    let site = site::load(&a.site)?;
+    let items = selected(&site, &a.tag, a.all)?;
+    let date = worksheet_date(a.date, site.time_zone)?;
+    let meta = Meta {
+        work_order: a.work_order.clone(),
+        prepared_by: a.prepared_by.clone(),
+        date,
+    };
+    let given_template = a.template.as_deref().map(template::resolve).transpose()?;
+    // Every worksheet is computed and rendered before any is written, so a bad item leaves
+    // no partial batch behind.
+    let progress = a.all && std::io::stderr().is_terminal();
+    let mut records = Vec::new();
+    for (i, item) in items.iter().enumerate() {
+        if progress {
+            eprint!("\r[{}/{}] {:<24}", i + 1, items.len(), item.tag());
+        }
+        let template = match &given_template {
+            Some(t) => t.clone(),
+            None => template::resolve(template::default_for(item.kind()))?,
+        };
+        let model = site_model(a.model, item.gas())?;
+        let sheet = worksheet::build(model.as_ref(), &site, item, &template, &meta)?;
+        let pdf = render_pdf(&sheet.document, a.paper).map_err(|e| Failure::Internal(e.to_string()))?;
+        let json = to_json(&sheet.record).map_err(Failure::Internal)? + "\n";
+        let stem = record::stem(
+            &site.name,
+            item.tag(),
+            a.work_order.as_deref(),
+            &date.format("%Y-%m-%d").to_string(),
+        );
+        records.push((item.tag().to_string(), sheet.highest, stem, pdf, json));
+    }
+    if progress {
+        eprintln!();
+    }
+    std::fs::create_dir_all(&a.out).map_err(|e| {
+        Failure::Internal(format!("cannot create the folder {}: {e}", a.out.display()))
+    })?;
+    let batches: Vec<record::Files> = records
+        .iter()
+        .map(|(_, _, stem, pdf, json)| record::Files {
+            files: vec![
+                (a.out.join(format!("{stem}.json")), json.as_bytes()),
+                (a.out.join(format!("{stem}.pdf")), pdf.as_slice()),
+            ],
+        })
+        .collect();
+    if !a.force {
+        if let Some(p) = batches.iter().flat_map(|b| b.existing()).next() {
+            return Err(Failure::Exists(record::RecordError::Exists(p.to_path_buf()).to_string()));
+        }
+    }
+    let mut text = String::new();
+    for ((tag, highest, _, _, _), batch) in records.iter().zip(&batches) {
+        let written = batch.write(a.force).map_err(|e| match e {
+            record::RecordError::Exists(_) => Failure::Exists(e.to_string()),
+            record::RecordError::Io { .. } => Failure::Internal(e.to_string()),
+        })?;
+        let names: Vec<String> = written.iter().map(|p| p.display().to_string()).collect();
+        text.push_str(&format!("{tag}: {} (highest caution: {})\n", names.join(", "), highest.word()));
+    }
+    Ok(text)
+}
+
+fn check_command(a: CheckArgs) -> Result<(String, i32), Failure> {
+    #[derive(serde::Serialize)]
+    struct Item {
+        tag: String,
+        kind: EquipmentKind,
+        gas: &'static str,
+        template: String,
+        stored_energy_j: uom::si::f64::Energy,
+        highest_level: Level,
+        cautions: Vec<Caution>,
+    }
+    #[derive(serde::Serialize)]
+    struct Summary {
+        command: &'static str,
+        tool_version: &'static str,
+        site: String,
+        items: Vec<Item>,
+        danger: bool,
+    }
+    let site = site::load(&a.site)?;
+    // The check's results do not depend on the date; a fixed one keeps runs identical.
+    let meta = Meta {
+        work_order: None,
+        prepared_by: None,
+        date: chrono::DateTime::from_timestamp(0, 0)
+            .unwrap_or_default()
+            .with_timezone(&site.time_zone),
+    };
+    let mut items = Vec::new();
+    for item in &site.equipment {
+        let template = template::resolve(template::default_for(item.kind()))?;
+        let model = site_model(a.model, item.gas())?;
+        let sheet = worksheet::build(model.as_ref(), &site, item, &template, &meta)?;
+        items.push(Item {
+            tag: item.tag().to_string(),
+            kind: item.kind(),
+            gas: item.gas().name,
+            template: template.name.clone(),
+            stored_energy_j: sheet.stored_energy,
+            highest_level: sheet.highest,
+            cautions: sheet.record.cautions,
+        });
+    }
+    items.sort_by(|x, y| {
+        y.highest_level
+            .cmp(&x.highest_level)
+            .then(y.stored_energy_j.value.total_cmp(&x.stored_energy_j.value))
+    });
+    let danger = items.iter().any(|i| i.highest_level == Level::Danger);
+    let code = if danger { EXIT_DANGER } else { EXIT_OK };
+    if a.json {
+        let summary = Summary {
+            command: "check",
+            tool_version: crate::report::TOOL_VERSION,
+            site: site.name.clone(),
+            items,
+            danger,
+        };
+        return Ok((to_json(&summary).map_err(Failure::Internal)? + "\n", code));
+    }
+    let display = crate::units::Display { system: site.units, ambient: site.ambient };
+    let mut text = format!("{} — {} item(s), ranked by hazard\n\n", site.name, items.len());
+    text.push_str(&format!("{:<12} {:<9} {:<15} {:<8} {}\n", "tag", "kind", "gas", "highest", "stored energy (isentropic)"));
+    for i in &items {
+        text.push_str(&format!(
+            "{:<12} {:<9} {:<15} {:<8} {}\n",
+            i.tag,
+            format!("{:?}", i.kind).to_lowercase(),
+            i.gas,
+            i.highest_level.word(),
+            display.energy(i.stored_energy_j)
+        ));
+    }
+    for i in items.iter().filter(|i| i.highest_level >= Level::Warning) {
+        text.push_str(&format!("\n{}:\n", i.tag));
+        for c in i.cautions.iter().filter(|c| c.level >= Level::Warning) {
+            text.push_str(&format!("  {:<8} {}\n", c.level.word(), c.message));
+        }
+    }
+    if danger {
+        text.push_str("\nAt least one item raises DANGER (exit code 3).\n");
+    }
+    Ok((text, code))
 }
 
 /// The gas model asked for.

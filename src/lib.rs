@@ -11,9 +11,14 @@ pub mod caution;
 pub mod cli;
 mod error;
 pub mod gas;
+pub mod record;
 pub mod report;
 pub mod rules;
+pub mod site;
 pub mod solve;
+pub mod source;
+pub mod template;
 pub mod units;
+pub mod worksheet;
 
 pub use error::InputError;

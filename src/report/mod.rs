@@ -4,10 +4,12 @@
 
 mod document;
 mod json;
+mod pdf;
 mod text;
 
 pub use document::{Axis, AxisKind, Document, Plot, Section, Series};
 pub use json::to_json;
+pub use pdf::{render_pdf, Paper, PdfError};
 pub use text::{render_text, value_text};
 
 use serde::Serialize;
@@ -380,6 +382,60 @@ pub struct Worksheet {
     pub results: Vec<Entry>,
 }
 
+impl EnergyReport {
+    /// Stored energy and TNT equivalent, with methods.
+    pub fn stored_entries(&self) -> Vec<Entry> {
+        vec![
+            result("Gas mass", Value::Mass(self.gas_mass_kg), "density from the gas model × volume"),
+            result("Isentropic expansion energy", Value::Energy(self.energy_j.isentropic), "m·[u(p1,T1) − u(pa,s1)]; ASME PCC-2 stored-energy form; basis of TNT and distances"),
+            result("Isothermal expansion energy", Value::Energy(self.energy_j.isothermal), "m·[a(p1,T1) − a(pa,T1)] = p1·V·ln(p1/pa) ideal"),
+            result("Brode energy", Value::Energy(self.energy_j.brode), "(p1 − pa)·V/(γ−1) ideal; Brode 1959"),
+            result("Availability (exergy)", Value::Energy(self.energy_j.availability), "dead state at ambient pressure and gas temperature"),
+            result("Isentropic end temperature", Value::Temperature(self.isentropic_end_temperature_k), "state at (pa, s1)"),
+            result("TNT equivalent", Value::Mass(self.tnt_equivalent_kg), "isentropic energy / TNT energy"),
+        ]
+    }
+
+    /// Exclusion distance and overpressure standoffs.
+    pub fn distance_entries(&self) -> Vec<Entry> {
+        let mut out = vec![result(
+            "Exclusion distance",
+            Value::Distance(self.exclusion_distance_m),
+            "ASME PCC-2 pneumatic-test safe distance",
+        )];
+        for s in &self.standoff_m {
+            let pa = s.overpressure_pa.get::<uom::si::pressure::pascal>();
+            let label = format!(
+                "Standoff to {} kPa ({} psi) overpressure",
+                crate::units::fmt_sig(pa / 1e3, 3),
+                crate::units::fmt_sig(pa / crate::units::PA_PER_PSI, 2)
+            );
+            let value = s
+                .distance_m
+                .map_or(Value::Text("outside the fits".to_string()), Value::Distance);
+            out.push(result(label, value, "Kingery–Bulmash surface burst, Swisdak 1994 fits"));
+        }
+        out
+    }
+
+    /// The same vessel on a hydrostatic test.
+    pub fn liquid_test_entries(&self) -> Vec<Entry> {
+        vec![result(
+            "Same vessel on a hydrostatic test",
+            Value::Energy(self.hydrotest_energy_j),
+            "p²·V/(2K), water K = 2.2 GPa",
+        )]
+    }
+
+    /// The vent-down target for the energy limit, if one was asked for.
+    pub fn target_entries(&self) -> Vec<Entry> {
+        self.vent_down_target_pa
+            .map(|p| result("Vent down to", Value::Pressure(p), "isentropic energy at the limit"))
+            .into_iter()
+            .collect()
+    }
+}
+
 impl From<&EnergyReport> for Worksheet {
     fn from(r: &EnergyReport) -> Worksheet {
         let i = &r.inputs;
@@ -403,77 +459,13 @@ impl From<&EnergyReport> for Worksheet {
             i.clearance_m
                 .map(|d| entry("Site clearance", Value::Distance(d))),
         );
-        let mut results = vec![
-            result(
-                "Gas mass",
-                Value::Mass(r.gas_mass_kg),
-                "density from the gas model × volume",
-            ),
-            result(
-                "Isentropic expansion energy",
-                Value::Energy(r.energy_j.isentropic),
-                "m·[u(p1,T1) − u(pa,s1)]; ASME PCC-2 stored-energy form",
-            ),
-            result(
-                "Isothermal expansion energy",
-                Value::Energy(r.energy_j.isothermal),
-                "m·[a(p1,T1) − a(pa,T1)] = p1·V·ln(p1/pa) ideal",
-            ),
-            result(
-                "Brode energy",
-                Value::Energy(r.energy_j.brode),
-                "(p1 − pa)·V/(γ−1) ideal; Brode 1959",
-            ),
-            result(
-                "Availability (exergy)",
-                Value::Energy(r.energy_j.availability),
-                "dead state at ambient pressure and gas temperature",
-            ),
-            result(
-                "Isentropic end temperature",
-                Value::Temperature(r.isentropic_end_temperature_k),
-                "state at (pa, s1)",
-            ),
-            result(
-                "TNT equivalent",
-                Value::Mass(r.tnt_equivalent_kg),
-                "isentropic energy / TNT energy",
-            ),
-            result(
-                "Exclusion distance",
-                Value::Distance(r.exclusion_distance_m),
-                "ASME PCC-2 pneumatic-test safe distance",
-            ),
-        ];
-        for s in &r.standoff_m {
-            let label = format!(
-                "Standoff to {} kPa overpressure",
-                crate::units::fmt_sig(
-                    s.overpressure_pa.get::<uom::si::pressure::pascal>() / 1e3,
-                    3
-                )
-            );
-            let value = s
-                .distance_m
-                .map_or(Value::Text("outside the fits".to_string()), Value::Distance);
-            results.push(result(
-                label,
-                value,
-                "Kingery–Bulmash surface burst, Swisdak 1994 fits",
-            ));
-        }
-        results.push(result(
-            "Same vessel on a hydrostatic test",
-            Value::Energy(r.hydrotest_energy_j),
-            "p²·V/(2K), water K = 2.2 GPa",
-        ));
-        results.extend(r.vent_down_target_pa.map(|p| {
-            result(
-                "Vent down to",
-                Value::Pressure(p),
-                "isentropic energy at the limit",
-            )
-        }));
+        let results = [
+            r.stored_entries(),
+            r.distance_entries(),
+            r.liquid_test_entries(),
+            r.target_entries(),
+        ]
+        .concat();
         Worksheet {
             title: format!("Stored energy — {}, {} gas model", r.gas, r.model.name()),
             ambient: i.ambient_pressure_pa,
@@ -481,6 +473,42 @@ impl From<&EnergyReport> for Worksheet {
             inputs,
             results,
         }
+    }
+}
+
+impl FillReport {
+    /// The fill's results, with methods.
+    pub fn result_entries(&self) -> Vec<Entry> {
+        let mut results = vec![
+            result(
+                "Final gas temperature (adiabatic)",
+                Value::Temperature(self.final_temperature_k),
+                "m_f·u_f − m_i·u_i = (m_f − m_i)·h_in, no heat to the wall",
+            ),
+            result(
+                "Gas mass before",
+                Value::Mass(self.initial_mass_kg),
+                "density × volume",
+            ),
+            result(
+                "Mass added",
+                Value::Mass(self.mass_added_kg),
+                "density × volume",
+            ),
+            result(
+                "Settled pressure at ambient",
+                Value::Pressure(self.settled_pressure_pa),
+                "constant mass, cooled to ambient",
+            ),
+        ];
+        results.extend(self.fill_to_pressure_pa.map(|p| {
+            result(
+                "Fill to (settles at target)",
+                Value::Pressure(p),
+                "stop pressure whose mass settles at the target",
+            )
+        }));
+        results
     }
 }
 
@@ -509,35 +537,7 @@ impl From<&FillReport> for Worksheet {
             i.rated_temperature_k
                 .map(|t| entry("Rated temperature", Value::Temperature(t))),
         );
-        let mut results = vec![
-            result(
-                "Final gas temperature (adiabatic)",
-                Value::Temperature(r.final_temperature_k),
-                "m_f·u_f − m_i·u_i = (m_f − m_i)·h_in, no heat to the wall",
-            ),
-            result(
-                "Gas mass before",
-                Value::Mass(r.initial_mass_kg),
-                "density × volume",
-            ),
-            result(
-                "Mass added",
-                Value::Mass(r.mass_added_kg),
-                "density × volume",
-            ),
-            result(
-                "Settled pressure at ambient",
-                Value::Pressure(r.settled_pressure_pa),
-                "constant mass, cooled to ambient",
-            ),
-        ];
-        results.extend(r.fill_to_pressure_pa.map(|p| {
-            result(
-                "Fill to (settles at target)",
-                Value::Pressure(p),
-                "stop pressure whose mass settles at the target",
-            )
-        }));
+        let results = r.result_entries();
         Worksheet {
             title: format!("Fill check — {}, {} gas model", r.gas, r.model.name()),
             ambient: i.ambient_pressure_pa,
@@ -545,6 +545,47 @@ impl From<&FillReport> for Worksheet {
             inputs,
             results,
         }
+    }
+}
+
+impl VentReport {
+    /// The vent-down's results, with methods.
+    pub fn result_entries(&self) -> Vec<Entry> {
+        let method = "V·dρ/dt = −Cd·A·G(ρ), isentropic nozzle, integrated";
+        let mut results = Vec::new();
+        results.extend(
+            self.time_s
+                .map(|t| result("Time to target", Value::Time(t), method)),
+        );
+        results.extend(
+            self.choked_time_s
+                .map(|t| result("of which choked", Value::Time(t), method)),
+        );
+        results.push(result(
+            "Final gas temperature",
+            Value::Temperature(self.final_temperature_k),
+            "end of the process path at the target",
+        ));
+        results.push(result(
+            "Mass vented",
+            Value::Mass(self.mass_vented_kg),
+            "density change × volume",
+        ));
+        results.extend(self.initial_mass_flow_kg_per_s.map(|m| {
+            result(
+                "Initial mass flow",
+                Value::MassFlow(m),
+                "Cd·A·G at the starting state",
+            )
+        }));
+        results.extend(self.required_orifice_m.map(|d| {
+            result(
+                "Orifice needed for the time allowed",
+                Value::Diameter(d),
+                "time scales as 1/(Cd·A)",
+            )
+        }));
+        results
     }
 }
 
@@ -573,40 +614,7 @@ impl From<&VentReport> for Worksheet {
                 .map(|t| entry("MDMT", Value::Temperature(t))),
         );
         inputs.extend(i.within_s.map(|t| entry("Required within", Value::Time(t))));
-        let method = "V·dρ/dt = −Cd·A·G(ρ), isentropic nozzle, integrated";
-        let mut results = Vec::new();
-        results.extend(
-            r.time_s
-                .map(|t| result("Time to target", Value::Time(t), method)),
-        );
-        results.extend(
-            r.choked_time_s
-                .map(|t| result("of which choked", Value::Time(t), method)),
-        );
-        results.push(result(
-            "Final gas temperature",
-            Value::Temperature(r.final_temperature_k),
-            "end of the process path at the target",
-        ));
-        results.push(result(
-            "Mass vented",
-            Value::Mass(r.mass_vented_kg),
-            "density change × volume",
-        ));
-        results.extend(r.initial_mass_flow_kg_per_s.map(|m| {
-            result(
-                "Initial mass flow",
-                Value::MassFlow(m),
-                "Cd·A·G at the starting state",
-            )
-        }));
-        results.extend(r.required_orifice_m.map(|d| {
-            result(
-                "Orifice needed for the time allowed",
-                Value::Diameter(d),
-                "time scales as 1/(Cd·A)",
-            )
-        }));
+        let results = r.result_entries();
         Worksheet {
             title: format!("Vent-down — {}, {} gas model", r.gas, r.model.name()),
             ambient: i.ambient_pressure_pa,

@@ -30,7 +30,7 @@ pub const MAX_ORIFICE_M: f64 = 5.0;
 pub const DEFAULT_TARGET_MARGIN: f64 = 0.01;
 
 /// How the gas left in the vessel behaves while it vents.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, clap::ValueEnum)]
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, serde::Deserialize, clap::ValueEnum)]
 #[serde(rename_all = "lowercase")]
 pub enum Process {
     /// No heat from the wall: the fastest vent and the coldest gas.

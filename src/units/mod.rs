@@ -10,8 +10,9 @@ mod parse;
 
 pub use format::{fmt_sig, Display, UnitSystem};
 pub use parse::{
-    parse_energy, parse_length, parse_overpressure, parse_pressure, parse_specific_energy,
-    parse_temperature, parse_time, parse_volume, PressureReading,
+    parse_energy, parse_length, parse_mass, parse_overpressure, parse_pressure,
+    parse_pressure_rate, parse_specific_energy, parse_temperature, parse_time, parse_volume,
+    PressureRate, PressureReading,
 };
 
 /// Pascals in one pound-force per square inch (exact, NIST SP 811).

@@ -4,11 +4,11 @@
 //! the field name (see [`crate::InputError`]).
 
 use uom::si::f64::{
-    AvailableEnergy, Energy, Length, Pressure, ThermodynamicTemperature, Time, Volume,
+    AvailableEnergy, Energy, Length, Mass, Pressure, ThermodynamicTemperature, Time, Volume,
 };
 use uom::si::{
-    available_energy::joule_per_kilogram, energy::joule, length::meter, pressure::pascal,
-    thermodynamic_temperature::kelvin, time::second, volume::cubic_meter,
+    available_energy::joule_per_kilogram, energy::joule, length::meter, mass::kilogram,
+    pressure::pascal, thermodynamic_temperature::kelvin, time::second, volume::cubic_meter,
 };
 
 use super::{J_PER_BTU, J_PER_CAL, J_PER_FT_LBF, KG_PER_LB, M3_PER_US_GAL, M_PER_FT, PA_PER_PSI};
@@ -187,6 +187,50 @@ pub fn parse_specific_energy(text: &str) -> Result<AvailableEnergy, String> {
         "accepted: J/kg, kJ/kg, MJ/kg, cal/g or BTU/lb, e.g. '4.184 MJ/kg', '1000 cal/g'",
     )?;
     Ok(AvailableEnergy::new::<joule_per_kilogram>(f))
+}
+
+/// Parses a mass: `520 kg`, `1150 lb`, `1.2 t`.
+pub fn parse_mass(text: &str) -> Result<Mass, String> {
+    const UNITS: &[(&[&str], f64)] = &[
+        (&["kg"], 1.0),
+        (&["g"], 1.0e-3),
+        (&["t", "tonne", "tonnes"], 1.0e3),
+        (&["lb", "lbs", "lbm"], KG_PER_LB),
+    ];
+    let f = lookup(text, UNITS, "a mass", "accepted: g, kg, t or lb, e.g. '520 kg', '1150 lb'")?;
+    Ok(Mass::new::<kilogram>(f))
+}
+
+/// A rate of pressure change, as a fill rate: the pressure gained per second.
+#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
+pub struct PressureRate {
+    /// Pressure change in one second.
+    pub per_second: Pressure,
+}
+
+/// Parses a rate of pressure change: `25 bar/min`, `400 psi/min`, `0.5 MPa/min`, `2 bar/s`.
+/// A rate is a difference, so it needs no gauge or absolute mark.
+pub fn parse_pressure_rate(text: &str) -> Result<PressureRate, String> {
+    const ACCEPTED: &str = "accepted: Pa, kPa, MPa, bar or psi per s, min or h, e.g. '25 bar/min', '400 psi/min'";
+    let (value, unit) = split(text)?;
+    let norm = normalise(unit);
+    let Some((pressure, time)) = norm.split_once('/') else {
+        return Err(unknown_unit(unit, "a pressure rate", ACCEPTED));
+    };
+    let per = match time {
+        "s" | "sec" => 1.0,
+        "min" => 60.0,
+        "h" | "hr" => 3600.0,
+        _ => return Err(unknown_unit(unit, "a pressure rate", ACCEPTED)),
+    };
+    let factor = PRESSURE_UNITS
+        .iter()
+        .find(|(base, _)| *base == pressure)
+        .map(|&(_, f)| f)
+        .ok_or_else(|| unknown_unit(unit, "a pressure rate", ACCEPTED))?;
+    Ok(PressureRate {
+        per_second: Pressure::new::<pascal>(value * factor / per),
+    })
 }
 
 /// Parses a duration: `90 s`, `15 min`, `2 h`.
@@ -443,6 +487,16 @@ mod tests {
             4.184e6,
             max_relative = 1e-12
         );
+    }
+
+    #[test]
+    fn pressure_rates_and_masses() {
+        let r = parse_pressure_rate("25 bar/min").unwrap();
+        assert_relative_eq!(r.per_second.get::<pascal>(), 25.0e5 / 60.0);
+        let r = parse_pressure_rate("400 psi/min").unwrap();
+        assert_relative_eq!(r.per_second.get::<pascal>(), 400.0 * 6894.757293168 / 60.0, max_relative = 1e-12);
+        assert!(parse_pressure_rate("25 barg/min").is_err());
+        assert_relative_eq!(parse_mass("1150 lb").unwrap().get::<kilogram>(), 1150.0 * 0.45359237);
     }
 
     #[test]

@@ -1,0 +1,584 @@
+//! Site files: a site's ambient conditions and its equipment, each with a unique tag.
+//!
+//! Quantities use the command line's unit strings (every pressure gauge or absolute); each
+//! is parsed where it stands, so a problem is reported with its file, line and key.
+
+use std::collections::HashMap;
+use std::path::Path;
+
+use chrono::FixedOffset;
+use serde::Deserialize;
+use uom::si::f64::{Length, Mass, Pressure, ThermodynamicTemperature, Volume};
+use uom::si::pressure::pascal;
+
+use crate::atmosphere;
+use crate::gas::Gas;
+use crate::source::{located, FileError, Source, Spanned};
+use crate::units::{self, PressureRate, PressureReading, UnitSystem};
+
+/// A site: where the equipment is and the conditions there.
+#[derive(Debug, Clone)]
+pub struct Site {
+    /// The site file it was read from.
+    pub path: std::path::PathBuf,
+    /// The site's name.
+    pub name: String,
+    /// Where on the site, or its address.
+    pub location: String,
+    /// Local atmospheric pressure, absolute.
+    pub ambient: Pressure,
+    /// How the ambient pressure was set, for the record ("elevation 350 m", "given").
+    pub ambient_basis: String,
+    /// Usual ambient temperature.
+    pub ambient_temperature: ThermodynamicTemperature,
+    /// The lowest ambient temperature in winter, if known.
+    pub winter_minimum: Option<ThermodynamicTemperature>,
+    /// The units the crew reads.
+    pub units: UnitSystem,
+    /// The site's time zone, for dates on its worksheets.
+    pub time_zone: FixedOffset,
+    /// The distance the site can keep clear around equipment under pressure.
+    pub clearance: Option<Length>,
+    /// The equipment, in file order.
+    pub equipment: Vec<Equipment>,
+}
+
+/// One item on a site.
+#[derive(Debug, Clone)]
+pub enum Equipment {
+    /// A pressure vessel or air receiver.
+    Vessel(Vessel),
+    /// A gas cylinder filled on site.
+    Cylinder(Cylinder),
+}
+
+impl Equipment {
+    /// The item's tag.
+    pub fn tag(&self) -> &str {
+        match self {
+            Equipment::Vessel(v) => &v.tag,
+            Equipment::Cylinder(c) => &c.tag,
+        }
+    }
+
+    /// The item's description.
+    pub fn description(&self) -> &str {
+        match self {
+            Equipment::Vessel(v) => &v.description,
+            Equipment::Cylinder(c) => &c.description,
+        }
+    }
+
+    /// The item's gas.
+    pub fn gas(&self) -> &'static Gas {
+        match self {
+            Equipment::Vessel(v) => v.gas,
+            Equipment::Cylinder(c) => c.gas,
+        }
+    }
+
+    /// `vessel` or `cylinder`, as templates name them.
+    pub fn kind(&self) -> EquipmentKind {
+        match self {
+            Equipment::Vessel(_) => EquipmentKind::Vessel,
+            Equipment::Cylinder(_) => EquipmentKind::Cylinder,
+        }
+    }
+}
+
+/// The two kinds of equipment, as templates name them.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Deserialize, serde::Serialize)]
+#[serde(rename_all = "lowercase")]
+pub enum EquipmentKind {
+    /// Vessels and receivers.
+    Vessel,
+    /// Cylinders and fill stations.
+    Cylinder,
+}
+
+/// Wall materials, with the names used everywhere (site files, command line).
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Deserialize, serde::Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum Material {
+    /// Carbon steel.
+    CarbonSteel,
+    /// Austenitic stainless steel.
+    StainlessSteel,
+    /// Aluminium alloy.
+    Aluminium,
+    /// Fibre-reinforced composite.
+    Composite,
+}
+
+/// Cylinder construction.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Deserialize, serde::Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum Construction {
+    /// Seamless steel (carbon steel).
+    Steel,
+    /// Seamless aluminium alloy.
+    Aluminium,
+    /// Composite-wrapped, with a metal or plastic liner.
+    Composite,
+}
+
+/// A vessel or receiver.
+#[derive(Debug, Clone, serde::Serialize)]
+pub struct Vessel {
+    /// Unique tag on the site.
+    pub tag: String,
+    /// What and where it is.
+    pub description: String,
+    /// The gas it holds.
+    #[serde(serialize_with = "gas_name")]
+    pub gas: &'static Gas,
+    /// Gas volume.
+    pub volume: Volume,
+    /// Maximum allowable working pressure (design pressure), absolute.
+    pub mawp: Pressure,
+    /// Normal operating pressure, absolute.
+    pub operating_pressure: Pressure,
+    /// Relief device set pressure, absolute, if fitted.
+    pub relief_set_pressure: Option<Pressure>,
+    /// Minimum design metal temperature, if known.
+    pub mdmt: Option<ThermodynamicTemperature>,
+    /// Shell material.
+    pub material: Option<Material>,
+    /// Shell wall thickness.
+    pub wall_thickness: Option<Length>,
+    /// Empty mass.
+    pub empty_mass: Option<Mass>,
+    /// Gas temperature in service.
+    pub temperature: ThermodynamicTemperature,
+    /// The path used to depressurise it.
+    pub drain: Option<Drain>,
+    /// Pneumatic or hydrostatic test pressure, absolute, if a test is planned.
+    pub test_pressure: Option<Pressure>,
+}
+
+/// A vent or drain path: the orifice that limits the flow.
+#[derive(Debug, Clone, serde::Serialize)]
+pub struct Drain {
+    /// What it is ("1/2 in ball valve to vent stack").
+    pub description: String,
+    /// The limiting orifice diameter.
+    pub orifice: Length,
+    /// Its discharge coefficient.
+    pub cd: f64,
+}
+
+/// A cylinder filled on site.
+#[derive(Debug, Clone, serde::Serialize)]
+pub struct Cylinder {
+    /// Unique tag on the site.
+    pub tag: String,
+    /// What it is.
+    pub description: String,
+    /// The gas it is filled with.
+    #[serde(serialize_with = "gas_name")]
+    pub gas: &'static Gas,
+    /// Water (internal) capacity.
+    pub water_capacity: Volume,
+    /// Service (working) pressure at the reference temperature, absolute.
+    pub service_pressure: Pressure,
+    /// Rated maximum gas temperature.
+    pub rated_temperature: ThermodynamicTemperature,
+    /// Construction.
+    pub construction: Construction,
+    /// Supply gas temperature at the fill station.
+    pub supply_temperature: ThermodynamicTemperature,
+    /// Planned fill rate.
+    pub fill_rate: Option<PressureRate>,
+    /// Pressure left in the cylinder when it comes to be filled, absolute.
+    pub residual_pressure: Pressure,
+}
+
+fn gas_name<S: serde::Serializer>(gas: &&'static Gas, s: S) -> Result<S::Ok, S::Error> {
+    s.serialize_str(gas.name)
+}
+
+#[derive(Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawFile {
+    site: RawSite,
+    #[serde(default)]
+    vessel: Vec<RawVessel>,
+    #[serde(default)]
+    cylinder: Vec<RawCylinder>,
+}
+
+#[derive(Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawSite {
+    name: String,
+    location: String,
+    ambient_pressure: Option<Spanned<String>>,
+    elevation: Option<Spanned<String>>,
+    ambient_temperature: Spanned<String>,
+    winter_minimum_temperature: Option<Spanned<String>>,
+    units: Option<Spanned<String>>,
+    time_zone: Option<Spanned<String>>,
+    clearance: Option<Spanned<String>>,
+}
+
+#[derive(Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawVessel {
+    tag: Spanned<String>,
+    description: String,
+    gas: Spanned<String>,
+    volume: Spanned<String>,
+    mawp: Spanned<String>,
+    operating_pressure: Spanned<String>,
+    relief_set_pressure: Option<Spanned<String>>,
+    mdmt: Option<Spanned<String>>,
+    material: Option<Spanned<String>>,
+    wall_thickness: Option<Spanned<String>>,
+    empty_mass: Option<Spanned<String>>,
+    temperature: Option<Spanned<String>>,
+    drain: Option<RawDrain>,
+    test_pressure: Option<Spanned<String>>,
+}
+
+#[derive(Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawDrain {
+    description: Option<String>,
+    orifice: Spanned<String>,
+    cd: Option<Spanned<f64>>,
+}
+
+#[derive(Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RawCylinder {
+    tag: Spanned<String>,
+    description: String,
+    gas: Spanned<String>,
+    water_capacity: Spanned<String>,
+    service_pressure: Spanned<String>,
+    rated_temperature: Spanned<String>,
+    construction: Spanned<String>,
+    supply_temperature: Option<Spanned<String>>,
+    fill_rate: Option<Spanned<String>>,
+    residual_pressure: Option<Spanned<String>>,
+}
+
+/// Reads and checks a site file.
+pub fn load(path: &Path) -> Result<Site, FileError> {
+    let src = Source::read(path)?;
+    let raw: RawFile = src.parse()?;
+    let s = &raw.site;
+    let ambient = match (&s.ambient_pressure, &s.elevation) {
+        (Some(p), None) => {
+            let reading = located(&src, "site.ambient_pressure", p, units::parse_pressure)?;
+            match reading {
+                PressureReading::Absolute(p) => (p, "given on the site file".to_string()),
+                PressureReading::Gauge(_) => {
+                    return Err(src.error(
+                        p.span().start,
+                        "site.ambient_pressure",
+                        format!("'{}': the ambient pressure is what gauge readings are measured from, so it must be absolute, e.g. '101.3 kPa(a)'", p.get_ref()),
+                    ))
+                }
+            }
+        }
+        (None, Some(z)) => {
+            let elevation = located(&src, "site.elevation", z, units::parse_length)?;
+            let p = atmosphere::pressure_at(elevation)
+                .map_err(|e| src.error(z.span().start, "site.elevation", e.problem))?;
+            (p, format!("standard atmosphere at elevation {}", z.get_ref()))
+        }
+        (None, None) => (
+            Pressure::new::<pascal>(atmosphere::SEA_LEVEL_PRESSURE_PA),
+            "standard sea-level atmosphere (neither ambient_pressure nor elevation given)"
+                .to_string(),
+        ),
+        (Some(p), Some(_)) => {
+            return Err(src.error(
+                p.span().start,
+                "site.ambient_pressure",
+                "give either ambient_pressure or elevation, not both",
+            ))
+        }
+    };
+    let (ambient, ambient_basis) = ambient;
+    let temperature = |key: &str, v: &Spanned<String>| located(&src, key, v, units::parse_temperature);
+    let ambient_temperature = temperature("site.ambient_temperature", &s.ambient_temperature)?;
+    let winter_minimum = s
+        .winter_minimum_temperature
+        .as_ref()
+        .map(|v| temperature("site.winter_minimum_temperature", v))
+        .transpose()?;
+    let units = match &s.units {
+        None => UnitSystem::Si,
+        Some(u) => match u.get_ref().to_lowercase().as_str() {
+            "si" => UnitSystem::Si,
+            "us" => UnitSystem::Us,
+            other => {
+                return Err(src.error(
+                    u.span().start,
+                    "site.units",
+                    format!("'{other}' is not a unit system; accepted: si, us"),
+                ))
+            }
+        },
+    };
+    let time_zone = match &s.time_zone {
+        None => FixedOffset::east_opt(0).expect("zero offset"),
+        Some(z) => located(&src, "site.time_zone", z, parse_offset)?,
+    };
+    let clearance = s
+        .clearance
+        .as_ref()
+        .map(|v| located(&src, "site.clearance", v, positive(units::parse_length)))
+        .transpose()?;
+
+    let ctx = Context {
+        src: &src,
+        ambient,
+        ambient_temperature,
+    };
+    let mut equipment = Vec::new();
+    for (i, v) in raw.vessel.iter().enumerate() {
+        equipment.push(Equipment::Vessel(ctx.vessel(i, v)?));
+    }
+    for (i, c) in raw.cylinder.iter().enumerate() {
+        equipment.push(Equipment::Cylinder(ctx.cylinder(i, c)?));
+    }
+    let mut seen: HashMap<String, usize> = HashMap::new();
+    let tags = raw
+        .vessel
+        .iter()
+        .map(|v| (&v.tag, "vessel"))
+        .chain(raw.cylinder.iter().map(|c| (&c.tag, "cylinder")));
+    for (tag, kind) in tags {
+        let line = src.line_of(tag.span().start);
+        if let Some(first) = seen.insert(tag.get_ref().to_lowercase(), line) {
+            return Err(src.error(
+                tag.span().start,
+                format!("{kind}.tag"),
+                format!("tag '{}' is used twice (first on line {first}); every item needs its own tag", tag.get_ref()),
+            ));
+        }
+    }
+    Ok(Site {
+        path: path.to_path_buf(),
+        name: s.name.clone(),
+        location: s.location.clone(),
+        ambient,
+        ambient_basis,
+        ambient_temperature,
+        winter_minimum,
+        units,
+        time_zone,
+        clearance,
+        equipment,
+    })
+}
+
+/// What each item's parsing needs from the site.
+struct Context<'a> {
+    src: &'a Source,
+    ambient: Pressure,
+    ambient_temperature: ThermodynamicTemperature,
+}
+
+impl Context<'_> {
+    fn pressure(&self, key: &str, v: &Spanned<String>) -> Result<Pressure, FileError> {
+        let reading = located(self.src, key, v, units::parse_pressure)?;
+        let p = reading.to_absolute(self.ambient);
+        if p.get::<pascal>() <= 0.0 {
+            return Err(self.src.error(
+                v.span().start,
+                key,
+                format!("'{}' is below a perfect vacuum; accepted: a pressure above vacuum", v.get_ref()),
+            ));
+        }
+        Ok(p)
+    }
+
+    fn gas(&self, key: &str, v: &Spanned<String>) -> Result<&'static Gas, FileError> {
+        located(self.src, key, v, |s| {
+            Gas::find(s).ok_or_else(|| format!("unknown gas; accepted: {}", Gas::accepted_names()))
+        })
+    }
+
+    fn vessel(&self, i: usize, v: &RawVessel) -> Result<Vessel, FileError> {
+        let src = self.src;
+        let key = |k: &str| format!("vessel[{}].{k}", i + 1);
+        let temp = |k: &str, x: &Spanned<String>| located(src, &key(k), x, units::parse_temperature);
+        let opt_pressure = |k: &str, x: &Option<Spanned<String>>| {
+            x.as_ref().map(|x| self.pressure(&key(k), x)).transpose()
+        };
+        let drain = v
+            .drain
+            .as_ref()
+            .map(|d| -> Result<Drain, FileError> {
+                let orifice = located(src, &key("drain.orifice"), &d.orifice, positive(units::parse_length))?;
+                let cd = match &d.cd {
+                    None => crate::rules::vent::SHARP_EDGED_CD,
+                    Some(cd) => {
+                        let x = *cd.get_ref();
+                        if !(x > 0.0 && x <= 1.0) {
+                            return Err(src.error(cd.span().start, key("drain.cd"), format!("{x} is outside (0, 1]; accepted: a discharge coefficient above 0 and at most 1 (0.61 sharp-edged)")));
+                        }
+                        x
+                    }
+                };
+                Ok(Drain {
+                    description: d.description.clone().unwrap_or_else(|| "vent or drain".to_string()),
+                    orifice,
+                    cd,
+                })
+            })
+            .transpose()?;
+        Ok(Vessel {
+            tag: v.tag.get_ref().clone(),
+            description: v.description.clone(),
+            gas: self.gas(&key("gas"), &v.gas)?,
+            volume: located(src, &key("volume"), &v.volume, positive(units::parse_volume))?,
+            mawp: self.pressure(&key("mawp"), &v.mawp)?,
+            operating_pressure: self.pressure(&key("operating_pressure"), &v.operating_pressure)?,
+            relief_set_pressure: opt_pressure("relief_set_pressure", &v.relief_set_pressure)?,
+            mdmt: v.mdmt.as_ref().map(|x| temp("mdmt", x)).transpose()?,
+            material: v
+                .material
+                .as_ref()
+                .map(|m| located(src, &key("material"), m, parse_material))
+                .transpose()?,
+            wall_thickness: v
+                .wall_thickness
+                .as_ref()
+                .map(|x| located(src, &key("wall_thickness"), x, positive(units::parse_length)))
+                .transpose()?,
+            empty_mass: v
+                .empty_mass
+                .as_ref()
+                .map(|x| located(src, &key("empty_mass"), x, positive(units::parse_mass)))
+                .transpose()?,
+            temperature: v
+                .temperature
+                .as_ref()
+                .map(|x| temp("temperature", x))
+                .transpose()?
+                .unwrap_or(self.ambient_temperature),
+            drain,
+            test_pressure: opt_pressure("test_pressure", &v.test_pressure)?,
+        })
+    }
+
+    fn cylinder(&self, i: usize, c: &RawCylinder) -> Result<Cylinder, FileError> {
+        let src = self.src;
+        let key = |k: &str| format!("cylinder[{}].{k}", i + 1);
+        let temp = |k: &str, x: &Spanned<String>| located(src, &key(k), x, units::parse_temperature);
+        Ok(Cylinder {
+            tag: c.tag.get_ref().clone(),
+            description: c.description.clone(),
+            gas: self.gas(&key("gas"), &c.gas)?,
+            water_capacity: located(src, &key("water_capacity"), &c.water_capacity, positive(units::parse_volume))?,
+            service_pressure: self.pressure(&key("service_pressure"), &c.service_pressure)?,
+            rated_temperature: temp("rated_temperature", &c.rated_temperature)?,
+            construction: located(src, &key("construction"), &c.construction, parse_construction)?,
+            supply_temperature: c
+                .supply_temperature
+                .as_ref()
+                .map(|x| temp("supply_temperature", x))
+                .transpose()?
+                .unwrap_or(self.ambient_temperature),
+            fill_rate: c
+                .fill_rate
+                .as_ref()
+                .map(|x| {
+                    located(src, &key("fill_rate"), x, |s| {
+                        let r = units::parse_pressure_rate(s)?;
+                        if r.per_second.get::<pascal>() > 0.0 {
+                            Ok(r)
+                        } else {
+                            Err("must be above zero; accepted: a positive rate, e.g. '25 bar/min'".to_string())
+                        }
+                    })
+                })
+                .transpose()?,
+            residual_pressure: c
+                .residual_pressure
+                .as_ref()
+                .map(|x| self.pressure(&key("residual_pressure"), x))
+                .transpose()?
+                .unwrap_or(self.ambient),
+        })
+    }
+}
+
+/// Wraps a quantity parser so that zero and negative values are refused.
+fn positive<Q, F>(parse: F) -> impl Fn(&str) -> Result<Q, String>
+where
+    F: Fn(&str) -> Result<Q, String>,
+    Q: PartialOrd + Default,
+{
+    move |s| {
+        let q = parse(s)?;
+        if q > Q::default() {
+            Ok(q)
+        } else {
+            Err("must be above zero; accepted: a positive quantity".to_string())
+        }
+    }
+}
+
+fn parse_material(s: &str) -> Result<Material, String> {
+    match s.to_lowercase().as_str() {
+        "carbon-steel" => Ok(Material::CarbonSteel),
+        "stainless-steel" => Ok(Material::StainlessSteel),
+        "aluminium" | "aluminum" => Ok(Material::Aluminium),
+        "composite" => Ok(Material::Composite),
+        _ => Err("unknown material; accepted: carbon-steel, stainless-steel, aluminium, composite".to_string()),
+    }
+}
+
+fn parse_construction(s: &str) -> Result<Construction, String> {
+    match s.to_lowercase().as_str() {
+        "steel" => Ok(Construction::Steel),
+        "aluminium" | "aluminum" => Ok(Construction::Aluminium),
+        "composite" => Ok(Construction::Composite),
+        _ => Err("unknown construction; accepted: steel, aluminium, composite".to_string()),
+    }
+}
+
+/// Parses a fixed UTC offset: `UTC`, `Z`, `+01:00`, `UTC-05:00`, `+0530`.
+pub fn parse_offset(s: &str) -> Result<FixedOffset, String> {
+    const ACCEPTED: &str = "accepted: a UTC offset such as 'UTC', '+01:00', 'UTC-05:00'";
+    let t = s.trim();
+    let t = t.strip_prefix("UTC").or_else(|| t.strip_prefix("utc")).unwrap_or(t);
+    if t.is_empty() || t == "Z" {
+        return Ok(FixedOffset::east_opt(0).expect("zero offset"));
+    }
+    let (sign, rest) = match t.as_bytes()[0] {
+        b'+' => (1, &t[1..]),
+        b'-' => (-1, &t[1..]),
+        _ => return Err(format!("'{s}' is not a UTC offset; {ACCEPTED}")),
+    };
+    let digits: String = rest.chars().filter(|c| *c != ':').collect();
+    let (h, m) = match digits.len() {
+        1 | 2 => (digits.parse::<i32>().ok(), Some(0)),
+        4 => (digits[..2].parse::<i32>().ok(), digits[2..].parse::<i32>().ok()),
+        _ => (None, None),
+    };
+    match (h, m) {
+        (Some(h), Some(m)) if h <= 14 && m < 60 => FixedOffset::east_opt(sign * (h * 3600 + m * 60))
+            .ok_or_else(|| format!("'{s}' is out of range; {ACCEPTED}")),
+        _ => Err(format!("'{s}' is not a UTC offset; {ACCEPTED}")),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn offsets() {
+        assert_eq!(parse_offset("UTC").unwrap().local_minus_utc(), 0);
+        assert_eq!(parse_offset("+01:00").unwrap().local_minus_utc(), 3600);
+        assert_eq!(parse_offset("UTC-05:30").unwrap().local_minus_utc(), -19800);
+        assert!(parse_offset("Europe/Paris").is_err());
+    }
+}

@@ -1,0 +1,539 @@
+//! Worksheets: one piece of equipment, one template, the rules it names, gathered into a
+//! [`Document`] to print and a record to keep beside it.
+
+use serde::Serialize;
+use sha2::{Digest, Sha256};
+use uom::si::f64::{AvailableEnergy, Energy, Pressure, ThermodynamicTemperature, Time};
+use uom::si::{
+    available_energy::joule_per_kilogram, energy::joule, pressure::pascal,
+    thermodynamic_temperature::kelvin, time::second,
+};
+
+use crate::caution::{deferral, ordered, Caution, Level};
+use crate::gas::GasModel;
+use crate::report::{
+    Axis, AxisKind, Document, Entry, EnergyReport, FillReport, Plot, Section, Series, Value,
+    VentReport, TOOL_VERSION,
+};
+use crate::rules::energy::{self, EnergyInput, DEFAULT_OVERPRESSURES_PA, DEFAULT_TNT_ENERGY_J_PER_KG};
+use crate::rules::fill::{self, FillInput};
+use crate::rules::vent::{self, VentInput, DEFAULT_TARGET_MARGIN};
+use crate::site::{Cylinder, Equipment, Site, Vessel};
+use crate::source::FileError;
+use crate::template::{Calculation, PressureBasis, Template};
+use crate::InputError;
+
+/// Who and what the worksheet is for, beyond the site and template.
+#[derive(Debug, Clone)]
+pub struct Meta {
+    /// The work order the worksheet is attached to.
+    pub work_order: Option<String>,
+    /// The person who prepared it.
+    pub prepared_by: Option<String>,
+    /// Its date and time, in the site's time zone.
+    pub date: chrono::DateTime<chrono::FixedOffset>,
+}
+
+/// A worksheet: the printable document and the record kept with it.
+#[derive(Debug, Clone)]
+pub struct Worksheet {
+    /// What the PDF shows.
+    pub document: Document,
+    /// What the JSON sidecar holds.
+    pub record: Record,
+    /// The highest caution level raised.
+    pub highest: Level,
+    /// The isentropic stored energy at the basis pressure (at service pressure for a
+    /// cylinder), for ranking.
+    pub stored_energy: Energy,
+}
+
+/// The JSON record beside a worksheet's PDF: enough to recompute and to match the print.
+#[derive(Debug, Clone, Serialize)]
+pub struct Record {
+    /// pvhazard's version.
+    pub tool_version: &'static str,
+    /// The worksheet's date, RFC 3339.
+    pub date: String,
+    /// Work order, if given.
+    pub work_order: Option<String>,
+    /// Who prepared it.
+    pub prepared_by: Option<String>,
+    /// Template name.
+    pub template: String,
+    /// SHA-256 of `inputs` (compact JSON), hex.
+    pub fingerprint: String,
+    /// The canonical inputs: everything the results depend on.
+    pub inputs: serde_json::Value,
+    /// Each calculation's full JSON report.
+    pub results: serde_json::Map<String, serde_json::Value>,
+    /// Every caution on the worksheet.
+    pub cautions: Vec<Caution>,
+}
+
+/// The canonical inputs of a worksheet, fingerprinted.
+#[derive(Serialize)]
+struct Inputs<'a> {
+    site: SiteInputs<'a>,
+    equipment: &'a Equipment,
+    template: &'a str,
+    model: crate::gas::ModelKind,
+}
+
+#[derive(Serialize)]
+struct SiteInputs<'a> {
+    name: &'a str,
+    location: &'a str,
+    ambient_pressure_pa: Pressure,
+    ambient_temperature_k: ThermodynamicTemperature,
+    winter_minimum_k: Option<ThermodynamicTemperature>,
+    clearance_m: Option<uom::si::f64::Length>,
+    units: crate::units::UnitSystem,
+}
+
+impl Serialize for Equipment {
+    fn serialize<S: serde::Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
+        #[derive(Serialize)]
+        #[serde(tag = "kind", rename_all = "lowercase")]
+        enum Tagged<'a> {
+            Vessel(&'a Vessel),
+            Cylinder(&'a Cylinder),
+        }
+        match self {
+            Equipment::Vessel(v) => Tagged::Vessel(v),
+            Equipment::Cylinder(c) => Tagged::Cylinder(c),
+        }
+        .serialize(s)
+    }
+}
+
+/// A rule's refusal of an item's values, located at the item in the site file.
+fn item_error(site: &Site, item: &Equipment, e: InputError) -> FileError {
+    FileError {
+        file: site.path.clone(),
+        line: 0,
+        key: format!("{} '{}'", kind_word(item), item.tag()),
+        problem: format!("{} = {}: {}", e.field, e.value, e.problem),
+    }
+}
+
+fn kind_word(item: &Equipment) -> &'static str {
+    match item {
+        Equipment::Vessel(_) => "vessel",
+        Equipment::Cylinder(_) => "cylinder",
+    }
+}
+
+/// Builds the worksheet for `item` on `site` with `template`.
+pub fn build(
+    model: &dyn GasModel,
+    site: &Site,
+    item: &Equipment,
+    template: &Template,
+    meta: &Meta,
+) -> Result<Worksheet, FileError> {
+    if item.kind() != template.equipment {
+        return Err(FileError {
+            file: format!("<template {}>", template.name).into(),
+            line: 0,
+            key: "template.equipment".to_string(),
+            problem: format!(
+                "the template is for a {:?}, and '{}' is a {}; choose a {} template",
+                template.equipment,
+                item.tag(),
+                kind_word(item),
+                kind_word(item)
+            )
+            .to_lowercase(),
+        });
+    }
+    let inputs = Inputs {
+        site: SiteInputs {
+            name: &site.name,
+            location: &site.location,
+            ambient_pressure_pa: site.ambient,
+            ambient_temperature_k: site.ambient_temperature,
+            winter_minimum_k: site.winter_minimum,
+            clearance_m: site.clearance,
+            units: site.units,
+        },
+        equipment: item,
+        template: &template.text,
+        model: model.kind(),
+    };
+    let inputs_json = serde_json::to_value(&inputs).map_err(|e| FileError {
+        file: site.path.clone(),
+        line: 0,
+        key: item.tag().to_string(),
+        problem: format!("internal error: inputs not serialisable: {e}"),
+    })?;
+    let fingerprint = hex(&Sha256::digest(inputs_json.to_string().as_bytes()));
+
+    let mut sheet = Parts::default();
+    match item {
+        Equipment::Vessel(v) => vessel_parts(model, site, v, template, &mut sheet)
+            .map_err(|e| match e {
+                Failure::Input(e) => item_error(site, item, e),
+                Failure::File(e) => e,
+            })?,
+        Equipment::Cylinder(c) => cylinder_parts(model, site, c, &mut sheet)
+            .map_err(|e| item_error(site, item, e))?,
+    }
+    let cautions = ordered(sheet.cautions);
+    let highest = cautions.iter().map(|c| c.level).max().unwrap_or(Level::Notice);
+    let date = meta.date.to_rfc3339();
+    let mut header = vec![
+        ("Site".to_string(), site.name.clone()),
+        ("Location".to_string(), site.location.clone()),
+        ("Tag".to_string(), item.tag().to_string()),
+        ("Description".to_string(), item.description().to_string()),
+        ("Gas".to_string(), item.gas().name.to_string()),
+        (
+            "Work order".to_string(),
+            meta.work_order.clone().unwrap_or_else(|| "(none given)".to_string()),
+        ),
+        ("Date".to_string(), meta.date.format("%Y-%m-%d %H:%M UTC%:z").to_string()),
+        (
+            "Prepared by".to_string(),
+            meta.prepared_by.clone().unwrap_or_else(|| "(to be completed)".to_string()),
+        ),
+        ("Template".to_string(), template.name.clone()),
+        ("Gas model".to_string(), model.kind().name().to_string()),
+    ];
+    header.push(("Ambient".to_string(), site.ambient_basis.clone()));
+    let document = Document {
+        title: template.title.clone(),
+        template: template.name.clone(),
+        purpose: template.purpose.clone(),
+        header,
+        cautions: cautions.clone(),
+        inputs: sheet.inputs,
+        sections: sheet.sections,
+        plots: sheet.plots,
+        checklist: template.checklist.clone(),
+        signoff: template.signoff.clone(),
+        footer: deferral().message,
+        tool_version: TOOL_VERSION.to_string(),
+        fingerprint: fingerprint.clone(),
+        date: meta.date,
+        units: site.units,
+        ambient: site.ambient,
+    };
+    let record = Record {
+        tool_version: TOOL_VERSION,
+        date,
+        work_order: meta.work_order.clone(),
+        prepared_by: meta.prepared_by.clone(),
+        template: template.name.clone(),
+        fingerprint,
+        inputs: inputs_json,
+        results: sheet.results,
+        cautions,
+    };
+    Ok(Worksheet {
+        document,
+        record,
+        highest,
+        stored_energy: sheet.stored_energy,
+    })
+}
+
+/// What the calculations contribute, gathered as they run.
+#[derive(Default)]
+struct Parts {
+    inputs: Vec<Entry>,
+    sections: Vec<Section>,
+    plots: Vec<Plot>,
+    cautions: Vec<Caution>,
+    results: serde_json::Map<String, serde_json::Value>,
+    stored_energy: Energy,
+}
+
+impl Parts {
+    fn section(&mut self, heading: impl Into<String>, entries: Vec<Entry>) {
+        if !entries.is_empty() {
+            self.sections.push(Section {
+                heading: heading.into(),
+                entries,
+            });
+        }
+    }
+
+    fn result<T: Serialize>(&mut self, key: &str, report: &T) {
+        if let Ok(v) = serde_json::to_value(report) {
+            self.results.insert(key.to_string(), v);
+        }
+    }
+}
+
+enum Failure {
+    Input(InputError),
+    File(FileError),
+}
+
+impl From<InputError> for Failure {
+    fn from(e: InputError) -> Failure {
+        Failure::Input(e)
+    }
+}
+
+fn input(label: &str, value: Value) -> Entry {
+    Entry {
+        label: label.to_string(),
+        value,
+        method: None,
+    }
+}
+
+fn vessel_parts(
+    model: &dyn GasModel,
+    site: &Site,
+    v: &Vessel,
+    t: &Template,
+    out: &mut Parts,
+) -> Result<(), Failure> {
+    let missing = |key: &str, why: &str| {
+        Failure::File(FileError {
+            file: site.path.clone(),
+            line: 0,
+            key: format!("vessel '{}'.{key}", v.tag),
+            problem: format!("not given, and template '{}' needs it {why}", t.name),
+        })
+    };
+    let (pressure, basis) = match t.pressure {
+        PressureBasis::Operating => (v.operating_pressure, "operating pressure"),
+        PressureBasis::Mawp => (v.mawp, "MAWP"),
+        PressureBasis::Test => (
+            v.test_pressure
+                .ok_or_else(|| missing("test_pressure", "(its calculations start from the test pressure)"))?,
+            "test pressure",
+        ),
+    };
+    out.inputs = vec![
+        input("Gas volume", Value::Volume(v.volume)),
+        input("MAWP", Value::Pressure(v.mawp)),
+        input("Operating pressure", Value::Pressure(v.operating_pressure)),
+    ];
+    out.inputs.extend(v.relief_set_pressure.map(|p| input("Relief set pressure", Value::Pressure(p))));
+    out.inputs.extend(v.test_pressure.map(|p| input("Test pressure", Value::Pressure(p))));
+    out.inputs.push(input("Calculations start from", Value::Text(basis.to_string())));
+    out.inputs.push(input("Gas temperature", Value::Temperature(v.temperature)));
+    out.inputs.extend(v.mdmt.map(|x| input("MDMT", Value::Temperature(x))));
+    out.inputs.extend(v.material.map(|m| input("Material", Value::Text(format!("{m:?}")))));
+    out.inputs.extend(v.wall_thickness.map(|x| input("Wall thickness", Value::Diameter(x))));
+    out.inputs.extend(v.empty_mass.map(|x| input("Empty mass", Value::Mass(x))));
+    if let Some(d) = &v.drain {
+        out.inputs.push(input("Drain path", Value::Text(d.description.clone())));
+        out.inputs.push(input("Drain orifice", Value::Diameter(d.orifice)));
+        out.inputs.push(input("Drain Cd", Value::Number(d.cd)));
+    }
+    site_inputs(site, out);
+
+    let overpressures = if t.overpressures.is_empty() {
+        DEFAULT_OVERPRESSURES_PA.map(Pressure::new::<pascal>).to_vec()
+    } else {
+        t.overpressures.clone()
+    };
+    let energy_input = EnergyInput {
+        volume: v.volume,
+        pressure,
+        temperature: v.temperature,
+        ambient: site.ambient,
+        tnt_energy: AvailableEnergy::new::<joule_per_kilogram>(DEFAULT_TNT_ENERGY_J_PER_KG),
+        overpressures,
+        energy_limit: t
+            .calculations
+            .contains(&Calculation::VentTarget)
+            .then_some(t.energy_limit)
+            .flatten(),
+        mawp: Some(v.mawp),
+        clearance: site.clearance,
+    };
+    let assessed = energy::stored_energy(model, &energy_input)?;
+    out.cautions.extend(assessed.cautions.iter().cloned());
+    let report = EnergyReport::new(model, &energy_input, assessed);
+    out.stored_energy = report.energy_j.isentropic;
+    out.result("energy", &report);
+    for calc in &t.calculations {
+        match calc {
+            Calculation::StoredEnergy => out.section(format!("Stored energy at the {basis}"), report.stored_entries()),
+            Calculation::Distances => out.section("Exclusion zone and blast standoffs", report.distance_entries()),
+            Calculation::LiquidTest => {
+                let mut entries = report.liquid_test_entries();
+                let gas = report.energy_j.isentropic.get::<joule>();
+                let liquid = report.hydrotest_energy_j.get::<joule>();
+                if liquid > 0.0 {
+                    entries.push(Entry {
+                        label: "Gas test stores more, by a factor of".to_string(),
+                        value: Value::Number(gas / liquid),
+                        method: Some("isentropic gas energy / liquid energy"),
+                    });
+                }
+                out.section("Hydrostatic test instead of pneumatic", entries);
+            }
+            Calculation::VentTarget => out.section("Vent-down target", report.target_entries()),
+            Calculation::VentDown => {
+                let drain = v
+                    .drain
+                    .as_ref()
+                    .ok_or_else(|| missing("drain", "(vent-down through the drain path)"))?;
+                vent_down(model, site, v, t, pressure, drain, out)?;
+            }
+            Calculation::Fill => {}
+        }
+    }
+    Ok(())
+}
+
+fn site_inputs(site: &Site, out: &mut Parts) {
+    out.inputs.push(input("Ambient pressure", Value::AbsolutePressure(site.ambient)));
+    out.inputs.push(input("Ambient temperature", Value::Temperature(site.ambient_temperature)));
+    out.inputs.extend(site.winter_minimum.map(|x| input("Winter minimum temperature", Value::Temperature(x))));
+    out.inputs.extend(site.clearance.map(|x| input("Site clearance", Value::Distance(x))));
+}
+
+fn vent_down(
+    model: &dyn GasModel,
+    site: &Site,
+    v: &Vessel,
+    t: &Template,
+    pressure: Pressure,
+    drain: &crate::site::Drain,
+    out: &mut Parts,
+) -> Result<(), Failure> {
+    let input = VentInput {
+        volume: v.volume,
+        pressure,
+        temperature: v.temperature,
+        ambient: site.ambient,
+        orifice: Some(drain.orifice),
+        cd: drain.cd,
+        down_to: site.ambient * (1.0 + DEFAULT_TARGET_MARGIN),
+        process: t.vent_process,
+        min_metal_temperature: v.mdmt,
+        within: None,
+    };
+    let assessed = vent::blow_down(model, &input)?;
+    out.cautions.extend(assessed.cautions.iter().cloned());
+    let report = VentReport::new(model, &input, assessed);
+    out.section(format!("Vent-down through the {}", drain.description), report.result_entries());
+    let temperature = Series {
+        label: "Gas temperature".to_string(),
+        right_axis: false,
+        points: report.history.iter().map(|s| (s.time.get::<second>(), s.temperature.get::<kelvin>())).collect(),
+    };
+    let pressure_series = Series {
+        label: "Pressure".to_string(),
+        right_axis: true,
+        points: report.history.iter().map(|s| (s.time.get::<second>(), s.pressure.get::<pascal>())).collect(),
+    };
+    if temperature.points.len() > 1 {
+        out.plots.push(Plot {
+            title: format!(
+                "Vent-down through the {} ({})",
+                drain.description,
+                format!("{:?}", t.vent_process).to_lowercase()
+            ),
+            x: Axis { label: "Time".to_string(), kind: AxisKind::Time },
+            left: Axis { label: "Gas temperature".to_string(), kind: AxisKind::Temperature },
+            right: Some(Axis { label: "Pressure".to_string(), kind: AxisKind::Pressure }),
+            series: vec![temperature, pressure_series],
+            limits: v.mdmt.map(|m| (m.get::<kelvin>(), "MDMT".to_string())).into_iter().collect(),
+        });
+    }
+    out.result("vent", &report);
+    Ok(())
+}
+
+fn cylinder_parts(
+    model: &dyn GasModel,
+    site: &Site,
+    c: &Cylinder,
+    out: &mut Parts,
+) -> Result<(), InputError> {
+    out.inputs = vec![
+        input("Water capacity", Value::Volume(c.water_capacity)),
+        input("Service pressure", Value::Pressure(c.service_pressure)),
+        input("Rated temperature", Value::Temperature(c.rated_temperature)),
+        input("Construction", Value::Text(format!("{:?}", c.construction).to_lowercase())),
+        input("Residual pressure before the fill", Value::Pressure(c.residual_pressure)),
+        input("Supply temperature", Value::Temperature(c.supply_temperature)),
+    ];
+    if let Some(rate) = c.fill_rate {
+        out.inputs.push(input(
+            "Planned fill rate",
+            Value::Text(format!(
+                "{} bar/min ({} psi/min)",
+                crate::units::fmt_sig(rate.per_second.get::<pascal>() * 60.0 / 1e5, 3),
+                crate::units::fmt_sig(rate.per_second.get::<pascal>() * 60.0 / crate::units::PA_PER_PSI, 3)
+            )),
+        ));
+    }
+    site_inputs(site, out);
+    let input = FillInput {
+        volume: c.water_capacity,
+        from: c.residual_pressure,
+        to: c.service_pressure,
+        initial_temperature: site.ambient_temperature,
+        supply_temperature: c.supply_temperature,
+        ambient_temperature: site.ambient_temperature,
+        rated_temperature: Some(c.rated_temperature),
+    };
+    let assessed = fill::adiabatic_fill(model, &input)?;
+    out.cautions.extend(assessed.cautions.iter().cloned());
+    let report = FillReport::new(model, &input, site.ambient, assessed);
+    let mut entries = report.result_entries();
+    let go = report.final_temperature_k <= c.rated_temperature;
+    entries.insert(
+        0,
+        Entry {
+            label: "Go / no-go against the rated temperature".to_string(),
+            value: Value::Text(if go {
+                "GO: the adiabatic bound stays within the rating".to_string()
+            } else {
+                "NO-GO on the adiabatic bound: fill slower, in stages or cooled, and confirm by measurement".to_string()
+            }),
+            method: Some("adiabatic fill temperature against the rated temperature"),
+        },
+    );
+    if let Some(rate) = c.fill_rate {
+        let seconds = ((c.service_pressure - c.residual_pressure) / rate.per_second).get::<uom::si::ratio::ratio>();
+        entries.push(Entry {
+            label: "Fill time at the planned rate".to_string(),
+            value: Value::Time(Time::new::<second>(seconds)),
+            method: Some("pressure rise / planned rate"),
+        });
+    }
+    out.section("Fast fill (adiabatic bound)", entries);
+    out.plots.push(Plot {
+        title: "Gas temperature during the fill (adiabatic bound)".to_string(),
+        x: Axis { label: "Pressure".to_string(), kind: AxisKind::Pressure },
+        left: Axis { label: "Gas temperature".to_string(), kind: AxisKind::Temperature },
+        right: None,
+        series: vec![Series {
+            label: "Gas temperature".to_string(),
+            right_axis: false,
+            points: report.path.iter().map(|s| (s.pressure.get::<pascal>(), s.temperature.get::<kelvin>())).collect(),
+        }],
+        limits: vec![(c.rated_temperature.get::<kelvin>(), "Rated temperature".to_string())],
+    });
+    // Rank cylinders by the energy they hold full.
+    let full = EnergyInput {
+        volume: c.water_capacity,
+        pressure: c.service_pressure,
+        temperature: site.ambient_temperature,
+        ambient: site.ambient,
+        tnt_energy: AvailableEnergy::new::<joule_per_kilogram>(DEFAULT_TNT_ENERGY_J_PER_KG),
+        overpressures: Vec::new(),
+        energy_limit: None,
+        mawp: None,
+        clearance: None,
+    };
+    out.stored_energy = energy::stored_energy(model, &full)?.value.energy.isentropic;
+    out.result("fill", &report);
+    Ok(())
+}
+
+fn hex(bytes: &[u8]) -> String {
+    bytes.iter().map(|b| format!("{b:02x}")).collect()
+}
