@@ -15,18 +15,18 @@ use std::io::IsTerminal;
 
 use crate::atmosphere;
 use crate::caution::{Caution, Level};
+use crate::gas::{Gas, GasModel, IdealGas, ModelKind, GASES};
 use crate::record;
 use crate::report::{render_pdf, Paper};
-use crate::site::{self, Equipment, EquipmentKind, Site};
-use crate::source::FileError;
-use crate::template;
-use crate::worksheet::{self, Meta};
-use crate::gas::{Gas, GasModel, IdealGas, ModelKind, GASES};
 use crate::report::{render_text, to_json, EnergyReport, FillReport, VentReport, Worksheet};
 use crate::rules::energy::{self, EnergyInput};
 use crate::rules::fill::{self, FillInput};
 use crate::rules::vent::{self, Process, VentInput};
+use crate::site::{self, Equipment, EquipmentKind, Site};
+use crate::source::FileError;
+use crate::template;
 use crate::units::{self, fmt_sig, PressureReading, UnitSystem};
+use crate::worksheet::{self, Meta};
 use crate::InputError;
 
 /// Exit code: computed (whatever the cautions).
@@ -70,7 +70,12 @@ struct WorksheetArgs {
     #[arg(value_name = "SITE.toml")]
     site: std::path::PathBuf,
     /// Tag of an item on the site; repeatable.
-    #[arg(long, value_name = "TAG", required_unless_present = "all", conflicts_with = "all")]
+    #[arg(
+        long,
+        value_name = "TAG",
+        required_unless_present = "all",
+        conflicts_with = "all"
+    )]
     tag: Vec<String>,
     /// Every item on the site.
     #[arg(long)]
@@ -367,7 +372,11 @@ fn worksheet_date(
             ))
         })?;
         let utc = chrono::DateTime::from_timestamp(secs, 0).ok_or_else(|| {
-            Failure::Input(InputError::new("SOURCE_DATE_EPOCH", epoch.clone(), "out of range"))
+            Failure::Input(InputError::new(
+                "SOURCE_DATE_EPOCH",
+                epoch.clone(),
+                "out of range",
+            ))
         })?;
         return Ok(utc.with_timezone(&zone));
     }
@@ -375,7 +384,11 @@ fn worksheet_date(
 }
 
 /// The items `--tag` names (in the order given), or every item with `--all`.
-fn selected<'a>(site: &'a Site, tags: &[String], all: bool) -> Result<Vec<&'a Equipment>, InputError> {
+fn selected<'a>(
+    site: &'a Site,
+    tags: &[String],
+    all: bool,
+) -> Result<Vec<&'a Equipment>, InputError> {
     if all {
         return Ok(site.equipment.iter().collect());
     }
@@ -390,7 +403,11 @@ fn selected<'a>(site: &'a Site, tags: &[String], all: bool) -> Result<Vec<&'a Eq
                         t.clone(),
                         format!(
                             "no item with this tag on the site; accepted: {}",
-                            site.equipment.iter().map(|e| e.tag()).collect::<Vec<_>>().join(", ")
+                            site.equipment
+                                .iter()
+                                .map(|e| e.tag())
+                                .collect::<Vec<_>>()
+                                .join(", ")
                         ),
                     )
                 })
@@ -422,7 +439,8 @@ fn worksheet_command(a: WorksheetArgs) -> Result<String, Failure> {
         };
         let model = site_model(a.model, item.gas())?;
         let sheet = worksheet::build(model.as_ref(), &site, item, &template, &meta)?;
-        let pdf = render_pdf(&sheet.document, a.paper).map_err(|e| Failure::Internal(e.to_string()))?;
+        let pdf =
+            render_pdf(&sheet.document, a.paper).map_err(|e| Failure::Internal(e.to_string()))?;
         let json = to_json(&sheet.record).map_err(Failure::Internal)? + "\n";
         let stem = record::stem(
             &site.name,
@@ -449,7 +467,9 @@ fn worksheet_command(a: WorksheetArgs) -> Result<String, Failure> {
         .collect();
     if !a.force {
         if let Some(p) = batches.iter().flat_map(|b| b.existing()).next() {
-            return Err(Failure::Exists(record::RecordError::Exists(p.to_path_buf()).to_string()));
+            return Err(Failure::Exists(
+                record::RecordError::Exists(p.to_path_buf()).to_string(),
+            ));
         }
     }
     let mut text = String::new();
@@ -459,7 +479,11 @@ fn worksheet_command(a: WorksheetArgs) -> Result<String, Failure> {
             record::RecordError::Io { .. } => Failure::Internal(e.to_string()),
         })?;
         let names: Vec<String> = written.iter().map(|p| p.display().to_string()).collect();
-        text.push_str(&format!("{tag}: {} (highest caution: {})\n", names.join(", "), highest.word()));
+        text.push_str(&format!(
+            "{tag}: {} (highest caution: {})\n",
+            names.join(", "),
+            highest.word()
+        ));
     }
     Ok(text)
 }
@@ -524,9 +548,19 @@ fn check_command(a: CheckArgs) -> Result<(String, i32), Failure> {
         };
         return Ok((to_json(&summary).map_err(Failure::Internal)? + "\n", code));
     }
-    let display = crate::units::Display { system: site.units, ambient: site.ambient };
-    let mut text = format!("{} — {} item(s), ranked by hazard\n\n", site.name, items.len());
-    text.push_str(&format!("{:<12} {:<9} {:<15} {:<8} {}\n", "tag", "kind", "gas", "highest", "stored energy (isentropic)"));
+    let display = crate::units::Display {
+        system: site.units,
+        ambient: site.ambient,
+    };
+    let mut text = format!(
+        "{} — {} item(s), ranked by hazard\n\n",
+        site.name,
+        items.len()
+    );
+    text.push_str(&format!(
+        "{:<12} {:<9} {:<15} {:<8} {}\n",
+        "tag", "kind", "gas", "highest", "stored energy (isentropic)"
+    ));
     for i in &items {
         text.push_str(&format!(
             "{:<12} {:<9} {:<15} {:<8} {}\n",

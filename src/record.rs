@@ -172,14 +172,21 @@ mod tests {
         let d = scratch("clobber");
         let a = d.join("a.pdf");
         let b = d.join("a.json");
-        let first = Files { files: vec![(a.clone(), b"one"), (b.clone(), b"{}")] };
+        let first = Files {
+            files: vec![(a.clone(), b"one"), (b.clone(), b"{}")],
+        };
         first.write(false).unwrap();
-        let second = Files { files: vec![(a.clone(), b"two"), (b.clone(), b"{}")] };
+        let second = Files {
+            files: vec![(a.clone(), b"two"), (b.clone(), b"{}")],
+        };
         assert!(matches!(second.write(false), Err(RecordError::Exists(_))));
         assert_eq!(fs::read(&a).unwrap(), b"one");
         second.write(true).unwrap();
         assert_eq!(fs::read(&a).unwrap(), b"two");
-        let left: Vec<_> = fs::read_dir(&d).unwrap().map(|e| e.unwrap().file_name()).collect();
+        let left: Vec<_> = fs::read_dir(&d)
+            .unwrap()
+            .map(|e| e.unwrap().file_name())
+            .collect();
         assert_eq!(left.len(), 2, "{left:?}");
         fs::remove_dir_all(&d).unwrap();
     }

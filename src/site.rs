@@ -286,7 +286,10 @@ pub fn load(path: &Path) -> Result<Site, FileError> {
             let elevation = located(&src, "site.elevation", z, units::parse_length)?;
             let p = atmosphere::pressure_at(elevation)
                 .map_err(|e| src.error(z.span().start, "site.elevation", e.problem))?;
-            (p, format!("standard atmosphere at elevation {}", z.get_ref()))
+            (
+                p,
+                format!("standard atmosphere at elevation {}", z.get_ref()),
+            )
         }
         (None, None) => (
             Pressure::new::<pascal>(atmosphere::SEA_LEVEL_PRESSURE_PA),
@@ -302,7 +305,8 @@ pub fn load(path: &Path) -> Result<Site, FileError> {
         }
     };
     let (ambient, ambient_basis) = ambient;
-    let temperature = |key: &str, v: &Spanned<String>| located(&src, key, v, units::parse_temperature);
+    let temperature =
+        |key: &str, v: &Spanned<String>| located(&src, key, v, units::parse_temperature);
     let ambient_temperature = temperature("site.ambient_temperature", &s.ambient_temperature)?;
     let winter_minimum = s
         .winter_minimum_temperature
@@ -357,7 +361,10 @@ pub fn load(path: &Path) -> Result<Site, FileError> {
             return Err(src.error(
                 tag.span().start,
                 format!("{kind}.tag"),
-                format!("tag '{}' is used twice (first on line {first}); every item needs its own tag", tag.get_ref()),
+                format!(
+                    "tag '{}' is used twice (first on line {first}); every item needs its own tag",
+                    tag.get_ref()
+                ),
             ));
         }
     }
@@ -391,7 +398,10 @@ impl Context<'_> {
             return Err(self.src.error(
                 v.span().start,
                 key,
-                format!("'{}' is below a perfect vacuum; accepted: a pressure above vacuum", v.get_ref()),
+                format!(
+                    "'{}' is below a perfect vacuum; accepted: a pressure above vacuum",
+                    v.get_ref()
+                ),
             ));
         }
         Ok(p)
@@ -406,7 +416,8 @@ impl Context<'_> {
     fn vessel(&self, i: usize, v: &RawVessel) -> Result<Vessel, FileError> {
         let src = self.src;
         let key = |k: &str| format!("vessel[{}].{k}", i + 1);
-        let temp = |k: &str, x: &Spanned<String>| located(src, &key(k), x, units::parse_temperature);
+        let temp =
+            |k: &str, x: &Spanned<String>| located(src, &key(k), x, units::parse_temperature);
         let opt_pressure = |k: &str, x: &Option<Spanned<String>>| {
             x.as_ref().map(|x| self.pressure(&key(k), x)).transpose()
         };
@@ -436,7 +447,12 @@ impl Context<'_> {
             tag: v.tag.get_ref().clone(),
             description: v.description.clone(),
             gas: self.gas(&key("gas"), &v.gas)?,
-            volume: located(src, &key("volume"), &v.volume, positive(units::parse_volume))?,
+            volume: located(
+                src,
+                &key("volume"),
+                &v.volume,
+                positive(units::parse_volume),
+            )?,
             mawp: self.pressure(&key("mawp"), &v.mawp)?,
             operating_pressure: self.pressure(&key("operating_pressure"), &v.operating_pressure)?,
             relief_set_pressure: opt_pressure("relief_set_pressure", &v.relief_set_pressure)?,
@@ -449,7 +465,14 @@ impl Context<'_> {
             wall_thickness: v
                 .wall_thickness
                 .as_ref()
-                .map(|x| located(src, &key("wall_thickness"), x, positive(units::parse_length)))
+                .map(|x| {
+                    located(
+                        src,
+                        &key("wall_thickness"),
+                        x,
+                        positive(units::parse_length),
+                    )
+                })
                 .transpose()?,
             empty_mass: v
                 .empty_mass
@@ -470,15 +493,26 @@ impl Context<'_> {
     fn cylinder(&self, i: usize, c: &RawCylinder) -> Result<Cylinder, FileError> {
         let src = self.src;
         let key = |k: &str| format!("cylinder[{}].{k}", i + 1);
-        let temp = |k: &str, x: &Spanned<String>| located(src, &key(k), x, units::parse_temperature);
+        let temp =
+            |k: &str, x: &Spanned<String>| located(src, &key(k), x, units::parse_temperature);
         Ok(Cylinder {
             tag: c.tag.get_ref().clone(),
             description: c.description.clone(),
             gas: self.gas(&key("gas"), &c.gas)?,
-            water_capacity: located(src, &key("water_capacity"), &c.water_capacity, positive(units::parse_volume))?,
+            water_capacity: located(
+                src,
+                &key("water_capacity"),
+                &c.water_capacity,
+                positive(units::parse_volume),
+            )?,
             service_pressure: self.pressure(&key("service_pressure"), &c.service_pressure)?,
             rated_temperature: temp("rated_temperature", &c.rated_temperature)?,
-            construction: located(src, &key("construction"), &c.construction, parse_construction)?,
+            construction: located(
+                src,
+                &key("construction"),
+                &c.construction,
+                parse_construction,
+            )?,
             supply_temperature: c
                 .supply_temperature
                 .as_ref()
@@ -494,7 +528,10 @@ impl Context<'_> {
                         if r.per_second.get::<pascal>() > 0.0 {
                             Ok(r)
                         } else {
-                            Err("must be above zero; accepted: a positive rate, e.g. '25 bar/min'".to_string())
+                            Err(
+                                "must be above zero; accepted: a positive rate, e.g. '25 bar/min'"
+                                    .to_string(),
+                            )
                         }
                     })
                 })
@@ -531,7 +568,10 @@ fn parse_material(s: &str) -> Result<Material, String> {
         "stainless-steel" => Ok(Material::StainlessSteel),
         "aluminium" | "aluminum" => Ok(Material::Aluminium),
         "composite" => Ok(Material::Composite),
-        _ => Err("unknown material; accepted: carbon-steel, stainless-steel, aluminium, composite".to_string()),
+        _ => Err(
+            "unknown material; accepted: carbon-steel, stainless-steel, aluminium, composite"
+                .to_string(),
+        ),
     }
 }
 
@@ -548,7 +588,10 @@ fn parse_construction(s: &str) -> Result<Construction, String> {
 pub fn parse_offset(s: &str) -> Result<FixedOffset, String> {
     const ACCEPTED: &str = "accepted: a UTC offset such as 'UTC', '+01:00', 'UTC-05:00'";
     let t = s.trim();
-    let t = t.strip_prefix("UTC").or_else(|| t.strip_prefix("utc")).unwrap_or(t);
+    let t = t
+        .strip_prefix("UTC")
+        .or_else(|| t.strip_prefix("utc"))
+        .unwrap_or(t);
     if t.is_empty() || t == "Z" {
         return Ok(FixedOffset::east_opt(0).expect("zero offset"));
     }
@@ -560,12 +603,17 @@ pub fn parse_offset(s: &str) -> Result<FixedOffset, String> {
     let digits: String = rest.chars().filter(|c| *c != ':').collect();
     let (h, m) = match digits.len() {
         1 | 2 => (digits.parse::<i32>().ok(), Some(0)),
-        4 => (digits[..2].parse::<i32>().ok(), digits[2..].parse::<i32>().ok()),
+        4 => (
+            digits[..2].parse::<i32>().ok(),
+            digits[2..].parse::<i32>().ok(),
+        ),
         _ => (None, None),
     };
     match (h, m) {
-        (Some(h), Some(m)) if h <= 14 && m < 60 => FixedOffset::east_opt(sign * (h * 3600 + m * 60))
-            .ok_or_else(|| format!("'{s}' is out of range; {ACCEPTED}")),
+        (Some(h), Some(m)) if h <= 14 && m < 60 => {
+            FixedOffset::east_opt(sign * (h * 3600 + m * 60))
+                .ok_or_else(|| format!("'{s}' is out of range; {ACCEPTED}"))
+        }
         _ => Err(format!("'{s}' is not a UTC offset; {ACCEPTED}")),
     }
 }

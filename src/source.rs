@@ -61,7 +61,12 @@ impl Source {
     }
 
     /// An error at byte offset `at` on `key`.
-    pub fn error(&self, at: usize, key: impl Into<String>, problem: impl Into<String>) -> FileError {
+    pub fn error(
+        &self,
+        at: usize,
+        key: impl Into<String>,
+        problem: impl Into<String>,
+    ) -> FileError {
         FileError {
             file: self.path.clone(),
             line: self.line_of(at),

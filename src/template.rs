@@ -14,9 +14,15 @@ use crate::units;
 
 /// The templates that ship inside the binary, by name.
 pub const BUILT_IN: [(&str, &str); 3] = [
-    ("pre-maintenance", include_str!("../templates/pre-maintenance.toml")),
+    (
+        "pre-maintenance",
+        include_str!("../templates/pre-maintenance.toml"),
+    ),
     ("fill-check", include_str!("../templates/fill-check.toml")),
-    ("pressure-test", include_str!("../templates/pressure-test.toml")),
+    (
+        "pressure-test",
+        include_str!("../templates/pressure-test.toml"),
+    ),
 ];
 
 /// A checked template.
@@ -179,13 +185,22 @@ pub fn parse(src: &Source) -> Result<Template, FileError> {
             return Err(src.error(
                 c.span().start,
                 "template.calculations",
-                format!("'{}' is not a calculation for a {:?} template", c.get_ref(), equipment).to_lowercase(),
+                format!(
+                    "'{}' is not a calculation for a {:?} template",
+                    c.get_ref(),
+                    equipment
+                )
+                .to_lowercase(),
             ));
         }
         calculations.push(calc);
     }
     if calculations.is_empty() {
-        return Err(src.error(0, "template.calculations", "lists no calculation; a worksheet needs at least one"));
+        return Err(src.error(
+            0,
+            "template.calculations",
+            "lists no calculation; a worksheet needs at least one",
+        ));
     }
     let overpressures = t
         .overpressures
@@ -198,7 +213,11 @@ pub fn parse(src: &Source) -> Result<Template, FileError> {
         .map(|e| located(src, "template.energy_limit", e, units::parse_energy))
         .transpose()?;
     if calculations.contains(&Calculation::VentTarget) && energy_limit.is_none() {
-        return Err(src.error(0, "template.energy_limit", "'vent-target' needs an energy_limit, e.g. energy_limit = \"1 kJ\""));
+        return Err(src.error(
+            0,
+            "template.energy_limit",
+            "'vent-target' needs an energy_limit, e.g. energy_limit = \"1 kJ\"",
+        ));
     }
     let vent_process = t
         .vent_process
@@ -207,7 +226,11 @@ pub fn parse(src: &Source) -> Result<Template, FileError> {
         .transpose()?
         .unwrap_or(Process::Isentropic);
     if t.signoff.is_empty() {
-        return Err(src.error(0, "template.signoff", "lists no sign-off role; a record needs at least one (e.g. \"Prepared\")"));
+        return Err(src.error(
+            0,
+            "template.signoff",
+            "lists no sign-off role; a record needs at least one (e.g. \"Prepared\")",
+        ));
     }
     Ok(Template {
         name: t.name,

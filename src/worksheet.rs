@@ -12,10 +12,12 @@ use uom::si::{
 use crate::caution::{deferral, ordered, Caution, Level};
 use crate::gas::GasModel;
 use crate::report::{
-    Axis, AxisKind, Document, Entry, EnergyReport, FillReport, Plot, Section, Series, Value,
+    Axis, AxisKind, Document, EnergyReport, Entry, FillReport, Plot, Section, Series, Value,
     VentReport, TOOL_VERSION,
 };
-use crate::rules::energy::{self, EnergyInput, DEFAULT_OVERPRESSURES_PA, DEFAULT_TNT_ENERGY_J_PER_KG};
+use crate::rules::energy::{
+    self, EnergyInput, DEFAULT_OVERPRESSURES_PA, DEFAULT_TNT_ENERGY_J_PER_KG,
+};
 use crate::rules::fill::{self, FillInput};
 use crate::rules::vent::{self, VentInput, DEFAULT_TARGET_MARGIN};
 use crate::site::{Cylinder, Equipment, Site, Vessel};
@@ -171,16 +173,22 @@ pub fn build(
 
     let mut sheet = Parts::default();
     match item {
-        Equipment::Vessel(v) => vessel_parts(model, site, v, template, &mut sheet)
-            .map_err(|e| match e {
+        Equipment::Vessel(v) => {
+            vessel_parts(model, site, v, template, &mut sheet).map_err(|e| match e {
                 Failure::Input(e) => item_error(site, item, e),
                 Failure::File(e) => e,
-            })?,
-        Equipment::Cylinder(c) => cylinder_parts(model, site, c, &mut sheet)
-            .map_err(|e| item_error(site, item, e))?,
+            })?
+        }
+        Equipment::Cylinder(c) => {
+            cylinder_parts(model, site, c, &mut sheet).map_err(|e| item_error(site, item, e))?
+        }
     }
     let cautions = ordered(sheet.cautions);
-    let highest = cautions.iter().map(|c| c.level).max().unwrap_or(Level::Notice);
+    let highest = cautions
+        .iter()
+        .map(|c| c.level)
+        .max()
+        .unwrap_or(Level::Notice);
     let date = meta.date.to_rfc3339();
     let mut header = vec![
         ("Site".to_string(), site.name.clone()),
@@ -190,12 +198,19 @@ pub fn build(
         ("Gas".to_string(), item.gas().name.to_string()),
         (
             "Work order".to_string(),
-            meta.work_order.clone().unwrap_or_else(|| "(none given)".to_string()),
+            meta.work_order
+                .clone()
+                .unwrap_or_else(|| "(none given)".to_string()),
         ),
-        ("Date".to_string(), meta.date.format("%Y-%m-%d %H:%M UTC%:z").to_string()),
+        (
+            "Date".to_string(),
+            meta.date.format("%Y-%m-%d %H:%M UTC%:z").to_string(),
+        ),
         (
             "Prepared by".to_string(),
-            meta.prepared_by.clone().unwrap_or_else(|| "(to be completed)".to_string()),
+            meta.prepared_by
+                .clone()
+                .unwrap_or_else(|| "(to be completed)".to_string()),
         ),
         ("Template".to_string(), template.name.clone()),
         ("Gas model".to_string(), model.kind().name().to_string()),
@@ -304,8 +319,12 @@ fn vessel_parts(
         PressureBasis::Operating => (v.operating_pressure, "operating pressure"),
         PressureBasis::Mawp => (v.mawp, "MAWP"),
         PressureBasis::Test => (
-            v.test_pressure
-                .ok_or_else(|| missing("test_pressure", "(its calculations start from the test pressure)"))?,
+            v.test_pressure.ok_or_else(|| {
+                missing(
+                    "test_pressure",
+                    "(its calculations start from the test pressure)",
+                )
+            })?,
             "test pressure",
         ),
     };
@@ -314,23 +333,45 @@ fn vessel_parts(
         input("MAWP", Value::Pressure(v.mawp)),
         input("Operating pressure", Value::Pressure(v.operating_pressure)),
     ];
-    out.inputs.extend(v.relief_set_pressure.map(|p| input("Relief set pressure", Value::Pressure(p))));
-    out.inputs.extend(v.test_pressure.map(|p| input("Test pressure", Value::Pressure(p))));
-    out.inputs.push(input("Calculations start from", Value::Text(basis.to_string())));
-    out.inputs.push(input("Gas temperature", Value::Temperature(v.temperature)));
-    out.inputs.extend(v.mdmt.map(|x| input("MDMT", Value::Temperature(x))));
-    out.inputs.extend(v.material.map(|m| input("Material", Value::Text(format!("{m:?}")))));
-    out.inputs.extend(v.wall_thickness.map(|x| input("Wall thickness", Value::Diameter(x))));
-    out.inputs.extend(v.empty_mass.map(|x| input("Empty mass", Value::Mass(x))));
+    out.inputs.extend(
+        v.relief_set_pressure
+            .map(|p| input("Relief set pressure", Value::Pressure(p))),
+    );
+    out.inputs.extend(
+        v.test_pressure
+            .map(|p| input("Test pressure", Value::Pressure(p))),
+    );
+    out.inputs.push(input(
+        "Calculations start from",
+        Value::Text(basis.to_string()),
+    ));
+    out.inputs
+        .push(input("Gas temperature", Value::Temperature(v.temperature)));
+    out.inputs
+        .extend(v.mdmt.map(|x| input("MDMT", Value::Temperature(x))));
+    out.inputs.extend(
+        v.material
+            .map(|m| input("Material", Value::Text(format!("{m:?}")))),
+    );
+    out.inputs.extend(
+        v.wall_thickness
+            .map(|x| input("Wall thickness", Value::Diameter(x))),
+    );
+    out.inputs
+        .extend(v.empty_mass.map(|x| input("Empty mass", Value::Mass(x))));
     if let Some(d) = &v.drain {
-        out.inputs.push(input("Drain path", Value::Text(d.description.clone())));
-        out.inputs.push(input("Drain orifice", Value::Diameter(d.orifice)));
+        out.inputs
+            .push(input("Drain path", Value::Text(d.description.clone())));
+        out.inputs
+            .push(input("Drain orifice", Value::Diameter(d.orifice)));
         out.inputs.push(input("Drain Cd", Value::Number(d.cd)));
     }
     site_inputs(site, out);
 
     let overpressures = if t.overpressures.is_empty() {
-        DEFAULT_OVERPRESSURES_PA.map(Pressure::new::<pascal>).to_vec()
+        DEFAULT_OVERPRESSURES_PA
+            .map(Pressure::new::<pascal>)
+            .to_vec()
     } else {
         t.overpressures.clone()
     };
@@ -356,8 +397,14 @@ fn vessel_parts(
     out.result("energy", &report);
     for calc in &t.calculations {
         match calc {
-            Calculation::StoredEnergy => out.section(format!("Stored energy at the {basis}"), report.stored_entries()),
-            Calculation::Distances => out.section("Exclusion zone and blast standoffs", report.distance_entries()),
+            Calculation::StoredEnergy => out.section(
+                format!("Stored energy at the {basis}"),
+                report.stored_entries(),
+            ),
+            Calculation::Distances => out.section(
+                "Exclusion zone and blast standoffs",
+                report.distance_entries(),
+            ),
             Calculation::LiquidTest => {
                 let mut entries = report.liquid_test_entries();
                 let gas = report.energy_j.isentropic.get::<joule>();
@@ -386,10 +433,22 @@ fn vessel_parts(
 }
 
 fn site_inputs(site: &Site, out: &mut Parts) {
-    out.inputs.push(input("Ambient pressure", Value::AbsolutePressure(site.ambient)));
-    out.inputs.push(input("Ambient temperature", Value::Temperature(site.ambient_temperature)));
-    out.inputs.extend(site.winter_minimum.map(|x| input("Winter minimum temperature", Value::Temperature(x))));
-    out.inputs.extend(site.clearance.map(|x| input("Site clearance", Value::Distance(x))));
+    out.inputs.push(input(
+        "Ambient pressure",
+        Value::AbsolutePressure(site.ambient),
+    ));
+    out.inputs.push(input(
+        "Ambient temperature",
+        Value::Temperature(site.ambient_temperature),
+    ));
+    out.inputs.extend(
+        site.winter_minimum
+            .map(|x| input("Winter minimum temperature", Value::Temperature(x))),
+    );
+    out.inputs.extend(
+        site.clearance
+            .map(|x| input("Site clearance", Value::Distance(x))),
+    );
 }
 
 fn vent_down(
@@ -416,16 +475,27 @@ fn vent_down(
     let assessed = vent::blow_down(model, &input)?;
     out.cautions.extend(assessed.cautions.iter().cloned());
     let report = VentReport::new(model, &input, assessed);
-    out.section(format!("Vent-down through the {}", drain.description), report.result_entries());
+    out.section(
+        format!("Vent-down through the {}", drain.description),
+        report.result_entries(),
+    );
     let temperature = Series {
         label: "Gas temperature".to_string(),
         right_axis: false,
-        points: report.history.iter().map(|s| (s.time.get::<second>(), s.temperature.get::<kelvin>())).collect(),
+        points: report
+            .history
+            .iter()
+            .map(|s| (s.time.get::<second>(), s.temperature.get::<kelvin>()))
+            .collect(),
     };
     let pressure_series = Series {
         label: "Pressure".to_string(),
         right_axis: true,
-        points: report.history.iter().map(|s| (s.time.get::<second>(), s.pressure.get::<pascal>())).collect(),
+        points: report
+            .history
+            .iter()
+            .map(|s| (s.time.get::<second>(), s.pressure.get::<pascal>()))
+            .collect(),
     };
     if temperature.points.len() > 1 {
         out.plots.push(Plot {
@@ -434,11 +504,24 @@ fn vent_down(
                 drain.description,
                 format!("{:?}", t.vent_process).to_lowercase()
             ),
-            x: Axis { label: "Time".to_string(), kind: AxisKind::Time },
-            left: Axis { label: "Gas temperature".to_string(), kind: AxisKind::Temperature },
-            right: Some(Axis { label: "Pressure".to_string(), kind: AxisKind::Pressure }),
+            x: Axis {
+                label: "Time".to_string(),
+                kind: AxisKind::Time,
+            },
+            left: Axis {
+                label: "Gas temperature".to_string(),
+                kind: AxisKind::Temperature,
+            },
+            right: Some(Axis {
+                label: "Pressure".to_string(),
+                kind: AxisKind::Pressure,
+            }),
             series: vec![temperature, pressure_series],
-            limits: v.mdmt.map(|m| (m.get::<kelvin>(), "MDMT".to_string())).into_iter().collect(),
+            limits: v
+                .mdmt
+                .map(|m| (m.get::<kelvin>(), "MDMT".to_string()))
+                .into_iter()
+                .collect(),
         });
     }
     out.result("vent", &report);
@@ -455,9 +538,18 @@ fn cylinder_parts(
         input("Water capacity", Value::Volume(c.water_capacity)),
         input("Service pressure", Value::Pressure(c.service_pressure)),
         input("Rated temperature", Value::Temperature(c.rated_temperature)),
-        input("Construction", Value::Text(format!("{:?}", c.construction).to_lowercase())),
-        input("Residual pressure before the fill", Value::Pressure(c.residual_pressure)),
-        input("Supply temperature", Value::Temperature(c.supply_temperature)),
+        input(
+            "Construction",
+            Value::Text(format!("{:?}", c.construction).to_lowercase()),
+        ),
+        input(
+            "Residual pressure before the fill",
+            Value::Pressure(c.residual_pressure),
+        ),
+        input(
+            "Supply temperature",
+            Value::Temperature(c.supply_temperature),
+        ),
     ];
     if let Some(rate) = c.fill_rate {
         out.inputs.push(input(
@@ -465,7 +557,10 @@ fn cylinder_parts(
             Value::Text(format!(
                 "{} bar/min ({} psi/min)",
                 crate::units::fmt_sig(rate.per_second.get::<pascal>() * 60.0 / 1e5, 3),
-                crate::units::fmt_sig(rate.per_second.get::<pascal>() * 60.0 / crate::units::PA_PER_PSI, 3)
+                crate::units::fmt_sig(
+                    rate.per_second.get::<pascal>() * 60.0 / crate::units::PA_PER_PSI,
+                    3
+                )
             )),
         ));
     }
@@ -497,7 +592,8 @@ fn cylinder_parts(
         },
     );
     if let Some(rate) = c.fill_rate {
-        let seconds = ((c.service_pressure - c.residual_pressure) / rate.per_second).get::<uom::si::ratio::ratio>();
+        let seconds = ((c.service_pressure - c.residual_pressure) / rate.per_second)
+            .get::<uom::si::ratio::ratio>();
         entries.push(Entry {
             label: "Fill time at the planned rate".to_string(),
             value: Value::Time(Time::new::<second>(seconds)),
@@ -507,15 +603,28 @@ fn cylinder_parts(
     out.section("Fast fill (adiabatic bound)", entries);
     out.plots.push(Plot {
         title: "Gas temperature during the fill (adiabatic bound)".to_string(),
-        x: Axis { label: "Pressure".to_string(), kind: AxisKind::Pressure },
-        left: Axis { label: "Gas temperature".to_string(), kind: AxisKind::Temperature },
+        x: Axis {
+            label: "Pressure".to_string(),
+            kind: AxisKind::Pressure,
+        },
+        left: Axis {
+            label: "Gas temperature".to_string(),
+            kind: AxisKind::Temperature,
+        },
         right: None,
         series: vec![Series {
             label: "Gas temperature".to_string(),
             right_axis: false,
-            points: report.path.iter().map(|s| (s.pressure.get::<pascal>(), s.temperature.get::<kelvin>())).collect(),
+            points: report
+                .path
+                .iter()
+                .map(|s| (s.pressure.get::<pascal>(), s.temperature.get::<kelvin>()))
+                .collect(),
         }],
-        limits: vec![(c.rated_temperature.get::<kelvin>(), "Rated temperature".to_string())],
+        limits: vec![(
+            c.rated_temperature.get::<kelvin>(),
+            "Rated temperature".to_string(),
+        )],
     });
     // Rank cylinders by the energy they hold full.
     let full = EnergyInput {

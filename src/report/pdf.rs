@@ -12,7 +12,7 @@ use printpdf::{
     PolygonRing, Pt, Rect, Rgb, TextItem, WindingOrder,
 };
 
-use super::{value_text, Document, Entry, Plot};
+use super::{value_text, Axis, AxisKind, Document, Entry, Plot, Series};
 use crate::caution::{Caution, Level};
 use crate::units::Display;
 
@@ -84,8 +84,8 @@ fn save(doc: &Document, pages: Vec<PdfPage>) -> Result<Vec<u8>, PdfError> {
     let when = printpdf::OffsetDateTime::from_unix_timestamp(doc.date.timestamp())
         .map_err(|e| PdfError::Build(format!("the worksheet date cannot be recorded: {e}")))?;
     let info = &mut pdf.metadata.info;
-    info.creation_date = when.clone();
-    info.modification_date = when.clone();
+    info.creation_date = when;
+    info.modification_date = when;
     info.metadata_date = when;
     info.creator = format!("pvhazard {}", doc.tool_version);
     info.producer = format!("pvhazard {}", doc.tool_version);
@@ -857,7 +857,8 @@ impl<'a> Sheet<'a> {
             ("Signature", 0.40 * fields_w),
             ("Date", 0.24 * fields_w),
         ];
-        self.heading("Sign-off", row_h);
+        // The whole block on one page: signatures split from their heading are easy to miss.
+        self.heading("Sign-off", row_h * roles.len() as f32);
         for role in roles {
             self.ensure(row_h);
             let line_y = self.y + 22.0;
@@ -890,7 +891,7 @@ impl<'a> Sheet<'a> {
         let pad = 8.0;
 
         let has_right = plot.right.is_some() && plot.series.iter().any(|s| s.right_axis);
-        let on_right = |s: &&super::Series| has_right && s.right_axis;
+        let on_right = |s: &&Series| has_right && s.right_axis;
         let x_axis = AxisScale::new(
             d,
             &plot.x,
@@ -909,7 +910,7 @@ impl<'a> Sheet<'a> {
             &plot.limits.iter().map(|l| l.0).collect::<Vec<_>>(),
         );
         let right_axis = plot.right.as_ref().filter(|_| has_right).map(|axis| {
-            AxisScale::new(
+            let mut scale = AxisScale::new(
                 d,
                 axis,
                 plot.series
@@ -917,7 +918,9 @@ impl<'a> Sheet<'a> {
                     .filter(on_right)
                     .flat_map(|s| s.points.iter().map(|p| p.1)),
                 &[],
-            )
+            );
+            scale.aligned_to(left_axis.intervals());
+            scale
         });
 
         let title = wrap(&plot.title, PLOT_TITLE, right - left - 2.0 * pad).swap_remove(0);
@@ -972,7 +975,7 @@ impl<'a> Sheet<'a> {
             Some(r) => right - pad - tick_w(r).max(12.0) - 5.0,
             None => right - pad - 6.0,
         };
-        let plot_top = axis_label_base + 7.0;
+        let plot_top = axis_label_base + 11.0;
         let plot_bottom = top + frame_h - pad - legend_h - 24.0;
         let plot_w = plot_right - plot_left;
         let plot_h = plot_bottom - plot_top;
@@ -1020,7 +1023,8 @@ impl<'a> Sheet<'a> {
             &x_label,
         );
 
-        // Limit lines, then the series over them.
+        // Limit lines, the series over them, then the limits' labels over both.
+        let mut limit_labels = Vec::new();
         for (value, label) in &plot.limits {
             let v = d.axis_value(plot.left.kind, left_axis.max_si, *value);
             if !v.is_finite() {
@@ -1039,8 +1043,7 @@ impl<'a> Sheet<'a> {
             } else {
                 y - 2.5
             };
-            let label = wrap(label, style, plot_w - 6.0).swap_remove(0);
-            self.text_right(plot_right - 3.0, base, style, &label);
+            limit_labels.push((base, wrap(label, style, plot_w - 6.0).swap_remove(0)));
         }
         self.ops.push(Op::SetLineJoinStyle {
             join: LineJoinStyle::Round,
@@ -1063,6 +1066,14 @@ impl<'a> Sheet<'a> {
         self.ops.push(Op::SetLineJoinStyle {
             join: LineJoinStyle::Miter,
         });
+        let style = LEGEND.with_color(SAFETY_RED);
+        for (base, label) in &limit_labels {
+            let w = text_width(label, style);
+            let x = plot_right - 3.0 - w;
+            let top = base - style.size - 0.5;
+            self.rect(x - 2.0, top, w + 4.0, style.size + 2.5, Some(WHITE), None);
+            self.text(x, *base, style, label);
+        }
 
         let mut base = x_label_base + 5.0;
         for row in &legend {
@@ -1091,7 +1102,7 @@ impl<'a> Sheet<'a> {
 /// One plot axis: its unit, its conversion and a range on round tick values, in display units.
 struct AxisScale<'d> {
     display: &'d Display,
-    kind: super::AxisKind,
+    kind: AxisKind,
     /// The largest SI value on the axis, which picks the unit.
     max_si: f64,
     /// "Pressure (barg)".
@@ -1108,7 +1119,7 @@ impl<'d> AxisScale<'d> {
     /// The scale for the SI `values` (and `extra` reference values) on `axis`.
     fn new(
         display: &'d Display,
-        axis: &super::Axis,
+        axis: &Axis,
         values: impl Iterator<Item = f64>,
         extra: &[f64],
     ) -> AxisScale<'d> {
@@ -1134,35 +1145,56 @@ impl<'d> AxisScale<'d> {
             hi,
             step: 1.0,
         };
-        scale.round_to(6);
+        scale.round_to(8);
         scale
     }
 
-    /// Widens the data range to round ticks, about `target` intervals, steps of 1, 2 or 5
-    /// times a power of ten.
-    fn round_to(&mut self, target: usize) {
+    /// The data range to round: opened up when empty, and widened to zero when it starts a
+    /// little above it (except for temperatures, whose zero is only a convention).
+    fn data_range(&self) -> (f64, f64) {
         let (mut lo, mut hi) = self.data;
         if !(lo.is_finite() && hi.is_finite()) {
             (lo, hi) = (0.0, 1.0);
         }
-        // A range that starts a little above zero reads best from zero.
-        if lo > 0.0 && lo < 0.25 * hi {
+        if self.kind != AxisKind::Temperature && lo > 0.0 && lo < 0.25 * hi {
             lo = 0.0;
         }
         if hi - lo <= f64::EPSILON * hi.abs().max(1.0) {
             let half = (hi.abs() * 0.1).max(1.0);
             (lo, hi) = (lo - half, hi + half);
         }
-        let raw = (hi - lo) / target.max(1) as f64;
-        let magnitude = 10f64.powf(raw.log10().floor());
-        let step = [1.0, 2.0, 5.0, 10.0]
-            .into_iter()
-            .map(|m| m * magnitude)
-            .find(|&s| s >= raw * (1.0 - 1e-9))
-            .unwrap_or(10.0 * magnitude);
+        (lo, hi)
+    }
+
+    /// Widens the data range to round ticks, about `target` intervals.
+    fn round_to(&mut self, target: usize) {
+        let (lo, hi) = self.data_range();
+        let step = nice_step((hi - lo) / target.max(1) as f64);
         self.step = step;
         self.lo = (lo / step + 1e-9).floor() * step;
         self.hi = (hi / step - 1e-9).ceil() * step;
+    }
+
+    /// Rounds to exactly `intervals` intervals, so that the ticks fall on another axis's grid.
+    fn aligned_to(&mut self, intervals: usize) {
+        let (lo, hi) = self.data_range();
+        let n = intervals.max(1) as f64;
+        let mut step = nice_step((hi - lo) / n);
+        // A floor-rounded start can leave the top uncovered; the next round step covers it.
+        for _ in 0..8 {
+            let start = (lo / step + 1e-9).floor() * step;
+            if start + n * step >= hi - 1e-9 * step {
+                break;
+            }
+            step = nice_step(step * 1.01);
+        }
+        self.step = step;
+        self.lo = (lo / step + 1e-9).floor() * step;
+        self.hi = self.lo + n * step;
+    }
+
+    fn intervals(&self) -> usize {
+        ((self.hi - self.lo) / self.step).round().max(1.0) as usize
     }
 
     /// The same axis with as many ticks as fit `width` points without their labels touching.
@@ -1174,7 +1206,7 @@ impl<'d> AxisScale<'d> {
                 .iter()
                 .map(|&v| text_width(&self.tick_label(v), TICK))
                 .fold(0.0, f32::max);
-            let spacing = width / ((self.hi - self.lo) / self.step) as f32;
+            let spacing = width / self.intervals() as f32;
             if spacing >= widest + 10.0 {
                 break;
             }
@@ -1183,8 +1215,7 @@ impl<'d> AxisScale<'d> {
     }
 
     fn ticks(&self) -> Vec<f64> {
-        let n = ((self.hi - self.lo) / self.step).round().max(0.0) as usize;
-        (0..=n.min(50))
+        (0..=self.intervals().min(50))
             .map(|i| self.lo + i as f64 * self.step)
             .collect()
     }
@@ -1212,11 +1243,21 @@ impl<'d> AxisScale<'d> {
     }
 }
 
+/// The smallest step of 1, 2 or 5 times a power of ten not below `raw`.
+fn nice_step(raw: f64) -> f64 {
+    let magnitude = 10f64.powf(raw.log10().floor());
+    [1.0, 2.0, 5.0, 10.0]
+        .into_iter()
+        .map(|m| m * magnitude)
+        .find(|&s| s >= raw * (1.0 - 1e-9))
+        .unwrap_or(10.0 * magnitude)
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
     use crate::caution::deferral;
-    use crate::report::{Axis, AxisKind, Section, Series, Value};
+    use crate::report::{Section, Value};
     use crate::units::UnitSystem;
     use uom::si::f64::{Energy, Length, Mass, Pressure, ThermodynamicTemperature, Time, Volume};
     use uom::si::{
@@ -1423,10 +1464,6 @@ mod tests {
         }
     }
 
-    pub(super) fn sample_pub() -> Document {
-        sample()
-    }
-
     fn pages_text(bytes: &[u8]) -> Vec<String> {
         let pdf = lopdf::Document::load_mem(bytes).expect("a readable PDF");
         let n = pdf.get_pages().len() as u32;
@@ -1509,6 +1546,37 @@ mod tests {
         // The running head on later pages names the equipment and the date.
         assert!(flat(&pages[1]).contains("Tag AR-101 · 2026-03-14 09:30 +01:00"));
         assert!(flat(&pages[n - 1]).contains("Checklist item 60"));
+    }
+
+    #[test]
+    fn us_units_label_the_axes_and_a_sparse_document_still_renders() {
+        let mut doc = sample();
+        doc.units = UnitSystem::Us;
+        let bytes = render_pdf(&doc, Paper::Letter).expect("renders");
+        let text = flat(&pages_text(&bytes).join("\n"));
+        assert!(text.contains("Pressure (psig)"), "{text}");
+        assert!(text.contains("Gas temperature (°F)"), "{text}");
+
+        doc.header.truncate(1);
+        doc.cautions.clear();
+        doc.purpose.clear();
+        doc.inputs.clear();
+        doc.sections.clear();
+        doc.checklist.clear();
+        doc.signoff.clear();
+        doc.plots.truncate(1);
+        doc.plots[0].series[0].points = vec![(0.0, AMBIENT_PA)];
+        doc.plots[0].series[1].points.clear();
+        doc.plots[0].limits.clear();
+        doc.fingerprint = "abc".into();
+        let bytes = render_pdf(&doc, Paper::A4).expect("renders");
+        let pages = pages_text(&bytes);
+        assert_eq!(pages.len(), 1);
+        let text = flat(&pages[0]);
+        assert!(
+            text.contains("Page 1 of 1") && text.contains("fingerprint abc"),
+            "{text}"
+        );
     }
 
     #[test]
@@ -1624,19 +1692,5 @@ mod tests {
         assert!(ticks.last().copied().unwrap_or(0.0) >= 9.7);
         assert!([1.0, 2.0, 5.0].contains(&s.step), "{}", s.step);
         assert_eq!(s.tick_label(-0.0), "0");
-    }
-}
-#[cfg(test)]
-mod scratch_view {
-    #[test]
-    fn write_samples() {
-        let doc = super::tests::sample_pub();
-        std::fs::write("/tmp/pvhazard-sample-a4.pdf", super::render_pdf(&doc, super::Paper::A4).unwrap()).unwrap();
-        std::fs::write("/tmp/pvhazard-sample-letter.pdf", super::render_pdf(&doc, super::Paper::Letter).unwrap()).unwrap();
-        let mut doc = doc;
-        let more = doc.sections[0].clone();
-        doc.sections.extend(vec![more; 8]);
-        doc.checklist = (1..=60).map(|i| format!("Checklist item {i}: confirm the step and initial the box.")).collect();
-        std::fs::write("/tmp/pvhazard-long.pdf", super::render_pdf(&doc, super::Paper::A4).unwrap()).unwrap();
     }
 }

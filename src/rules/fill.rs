@@ -34,6 +34,11 @@ pub struct FillInput {
     pub rated_temperature: Option<ThermodynamicTemperature>,
 }
 
+/// A fill-to pressure this far above the target raises a WARNING: planning on it would
+/// overfill a cylinder whose gas stays cooler than the adiabatic bound (common practice,
+/// no source: cylinder standards allow a hot fill only a modest margin).
+const FILL_TO_WARNING_RATIO: f64 = 1.10;
+
 /// Points on the fill's temperature–pressure path (besides the start).
 const PATH_POINTS: usize = 40;
 
@@ -265,6 +270,17 @@ fn fill_cautions(input: &FillInput, r: &FillResult) -> Vec<Caution> {
         ),
     ));
     let shortfall = 1.0 - r.settled_pressure.get::<pascal>() / input.to.get::<pascal>();
+    if let Some(fill_to) = r.fill_to_pressure {
+        if fill_to > input.to * FILL_TO_WARNING_RATIO {
+            out.push(Caution::new(
+                Level::Warning,
+                format!(
+                    "The fill-to pressure ({} bar(a)) is far above the target: it assumes the gas reaches the adiabatic temperature, which a real fill does not. Do not fill to it; top up after the cylinder cools, and never exceed the pressure the cylinder's marking or standard permits at the fill temperature.",
+                    fmt_sig(fill_to.get::<pascal>() / 1e5, 4)
+                ),
+            ));
+        }
+    }
     match r.fill_to_pressure {
         Some(fill_to) if shortfall > 0.01 => out.push(Caution::new(
             Level::Notice,
