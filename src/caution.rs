@@ -2,6 +2,10 @@
 
 use serde::Serialize;
 use std::fmt;
+use uom::si::f64::Pressure;
+use uom::si::pressure::pascal;
+
+use crate::units::{Display, UnitSystem, Value};
 
 /// Hazard signal words, lowest to highest, as the open standards define them.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord, Serialize)]
@@ -35,22 +39,94 @@ impl fmt::Display for Level {
     }
 }
 
+/// A piece of a caution's message: words, or a quantity each renderer shows in its units.
+#[derive(Debug, Clone, PartialEq)]
+pub enum Part {
+    /// Words.
+    Text(String),
+    /// A quantity, shown in the reader's units.
+    Quantity(Value),
+}
+
+impl From<&str> for Part {
+    fn from(s: &str) -> Part {
+        Part::Text(s.to_string())
+    }
+}
+
+impl From<String> for Part {
+    fn from(s: String) -> Part {
+        Part::Text(s)
+    }
+}
+
+impl From<Value> for Part {
+    fn from(v: Value) -> Part {
+        Part::Quantity(v)
+    }
+}
+
 /// One caution: a signal word and what the crew must know.
-#[derive(Debug, Clone, PartialEq, Eq, Serialize)]
+///
+/// Its quantities stay typed until rendered, so a crew reading US units gets psi and feet
+/// in the cautions too; JSON carries the SI rendering as `message`.
+#[derive(Debug, Clone, PartialEq)]
 pub struct Caution {
     /// The signal word.
     pub level: Level,
-    /// The message, one or two sentences.
-    pub message: String,
+    /// The message, in parts.
+    pub parts: Vec<Part>,
+}
+
+/// Builds a caution from a level and any mix of text and [`Value`]s.
+#[macro_export]
+macro_rules! caution {
+    ($level:expr, $($part:expr),+ $(,)?) => {
+        $crate::caution::Caution::from_parts($level, vec![$($crate::caution::Part::from($part)),+])
+    };
 }
 
 impl Caution {
-    /// A caution at `level`.
+    /// A caution of plain text at `level`.
     pub fn new(level: Level, message: impl Into<String>) -> Caution {
         Caution {
             level,
-            message: message.into(),
+            parts: vec![Part::Text(message.into())],
         }
+    }
+
+    /// A caution from parts.
+    pub fn from_parts(level: Level, parts: Vec<Part>) -> Caution {
+        Caution { level, parts }
+    }
+
+    /// The message in `display`'s units.
+    pub fn render(&self, display: &Display) -> String {
+        self.parts
+            .iter()
+            .map(|p| match p {
+                Part::Text(t) => t.clone(),
+                Part::Quantity(v) => display.short(v),
+            })
+            .collect()
+    }
+
+    /// The message in SI units, as JSON carries it.
+    pub fn message(&self) -> String {
+        self.render(&Display {
+            system: UnitSystem::Si,
+            ambient: Pressure::new::<pascal>(crate::atmosphere::SEA_LEVEL_PRESSURE_PA),
+        })
+    }
+}
+
+impl Serialize for Caution {
+    fn serialize<S: serde::Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
+        use serde::ser::SerializeStruct;
+        let mut st = s.serialize_struct("Caution", 2)?;
+        st.serialize_field("level", &self.level)?;
+        st.serialize_field("message", &self.message())?;
+        st.end()
     }
 }
 
@@ -74,7 +150,7 @@ pub struct Assessed<T> {
 /// Cautions ordered for printing: highest level first, the deferral last, no duplicates.
 pub fn ordered(mut cautions: Vec<Caution>) -> Vec<Caution> {
     let mut seen = std::collections::HashSet::new();
-    cautions.retain(|c| seen.insert(c.message.clone()));
+    cautions.retain(|c| seen.insert(c.message()));
     cautions.sort_by_key(|c| std::cmp::Reverse(c.level));
     cautions.push(deferral());
     cautions

@@ -392,27 +392,32 @@ fn selected<'a>(
     if all {
         return Ok(site.equipment.iter().collect());
     }
-    tags.iter()
-        .map(|t| {
-            site.equipment
-                .iter()
-                .find(|e| e.tag().eq_ignore_ascii_case(t))
-                .ok_or_else(|| {
-                    InputError::new(
-                        "tag",
-                        t.clone(),
-                        format!(
-                            "no item with this tag on the site; accepted: {}",
-                            site.equipment
-                                .iter()
-                                .map(|e| e.tag())
-                                .collect::<Vec<_>>()
-                                .join(", ")
-                        ),
-                    )
-                })
-        })
-        .collect()
+    let mut chosen: Vec<&Equipment> = Vec::new();
+    for t in tags {
+        let item = site
+            .equipment
+            .iter()
+            .find(|e| e.tag().eq_ignore_ascii_case(t))
+            .ok_or_else(|| {
+                InputError::new(
+                    "tag",
+                    t.clone(),
+                    format!(
+                        "no item with this tag on the site; accepted: {}",
+                        site.equipment
+                            .iter()
+                            .map(|e| e.tag())
+                            .collect::<Vec<_>>()
+                            .join(", ")
+                    ),
+                )
+            })?;
+        // A tag given twice is one worksheet, not a clash with itself.
+        if !chosen.iter().any(|c| std::ptr::eq(*c, item)) {
+            chosen.push(item);
+        }
+    }
+    Ok(chosen)
 }
 
 fn worksheet_command(a: WorksheetArgs) -> Result<String, Failure> {
@@ -445,6 +450,7 @@ fn worksheet_command(a: WorksheetArgs) -> Result<String, Failure> {
         let stem = record::stem(
             &site.name,
             item.tag(),
+            &template.name,
             a.work_order.as_deref(),
             &date.format("%Y-%m-%d").to_string(),
         );
@@ -574,7 +580,7 @@ fn check_command(a: CheckArgs) -> Result<(String, i32), Failure> {
     for i in items.iter().filter(|i| i.highest_level >= Level::Warning) {
         text.push_str(&format!("\n{}:\n", i.tag));
         for c in i.cautions.iter().filter(|c| c.level >= Level::Warning) {
-            text.push_str(&format!("  {:<8} {}\n", c.level.word(), c.message));
+            text.push_str(&format!("  {:<8} {}\n", c.level.word(), c.render(&display)));
         }
     }
     if danger {

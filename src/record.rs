@@ -39,13 +39,14 @@ pub fn slug(text: &str) -> String {
     }
 }
 
-/// The file stem of a worksheet: site, tag, work order and date, e.g.
-/// `harbour-road-works_ar-101_wo-2291_2026-03-14`.
-pub fn stem(site: &str, tag: &str, work_order: Option<&str>, date: &str) -> String {
+/// The file stem of a worksheet: site, tag, template, work order and date, e.g.
+/// `harbour-road-works_ar-101_pre-maintenance_wo-2291_2026-03-14`.
+pub fn stem(site: &str, tag: &str, template: &str, work_order: Option<&str>, date: &str) -> String {
     format!(
-        "{}_{}_{}_{}",
+        "{}_{}_{}_{}_{}",
         slug(site),
         slug(tag),
+        slug(template),
         work_order.map_or_else(|| "no-wo".to_string(), slug),
         date
     )
@@ -161,10 +162,16 @@ mod tests {
     fn slugs_and_stems() {
         assert_eq!(slug("Harbour Road Works (demo)"), "harbour-road-works-demo");
         assert_eq!(
-            stem("Bay 4", "AR-101", Some("WO 2291"), "2026-03-14"),
-            "bay-4_ar-101_wo-2291_2026-03-14"
+            stem(
+                "Bay 4",
+                "AR-101",
+                "pre-maintenance",
+                Some("WO 2291"),
+                "2026-03-14"
+            ),
+            "bay-4_ar-101_pre-maintenance_wo-2291_2026-03-14"
         );
-        assert_eq!(stem("x", "y", None, "d"), "x_y_no-wo_d");
+        assert_eq!(stem("x", "y", "t", None, "d"), "x_y_t_no-wo_d");
     }
 
     #[test]

@@ -41,6 +41,33 @@ pub struct Site {
     pub clearance: Option<Length>,
     /// The equipment, in file order.
     pub equipment: Vec<Equipment>,
+    /// Where the site's own values stood.
+    pub origin: Origin,
+}
+
+/// Where an item's values stood in its site file, so that a later refusal of a value (by a
+/// rule, or for a template's needs) can point at the line a person must edit.
+#[derive(Debug, Clone, Default)]
+pub struct Origin {
+    /// The item's key prefix, e.g. `vessel[2]`.
+    pub prefix: String,
+    /// The line of the item's tag.
+    pub line: usize,
+    /// Each key given: its line and its text as written.
+    pub keys: std::collections::BTreeMap<&'static str, (usize, String)>,
+}
+
+impl Origin {
+    fn note(&mut self, src: &Source, key: &'static str, v: &Spanned<String>) {
+        self.keys
+            .insert(key, (src.line_of(v.span().start), v.get_ref().clone()));
+    }
+
+    fn note_opt(&mut self, src: &Source, key: &'static str, v: &Option<Spanned<String>>) {
+        if let Some(v) = v {
+            self.note(src, key, v);
+        }
+    }
 }
 
 /// One item on a site.
@@ -66,6 +93,14 @@ impl Equipment {
         match self {
             Equipment::Vessel(v) => &v.description,
             Equipment::Cylinder(c) => &c.description,
+        }
+    }
+
+    /// Where the item stood in the site file.
+    pub fn origin(&self) -> &Origin {
+        match self {
+            Equipment::Vessel(v) => &v.origin,
+            Equipment::Cylinder(c) => &c.origin,
         }
     }
 
@@ -154,6 +189,9 @@ pub struct Vessel {
     pub drain: Option<Drain>,
     /// Pneumatic or hydrostatic test pressure, absolute, if a test is planned.
     pub test_pressure: Option<Pressure>,
+    /// Where it stood in the site file.
+    #[serde(skip)]
+    pub origin: Origin,
 }
 
 /// A vent or drain path: the orifice that limits the flow.
@@ -191,6 +229,9 @@ pub struct Cylinder {
     pub fill_rate: Option<PressureRate>,
     /// Pressure left in the cylinder when it comes to be filled, absolute.
     pub residual_pressure: Pressure,
+    /// Where it stood in the site file.
+    #[serde(skip)]
+    pub origin: Origin,
 }
 
 fn gas_name<S: serde::Serializer>(gas: &&'static Gas, s: S) -> Result<S::Ok, S::Error> {
@@ -353,11 +394,18 @@ pub fn load(path: &Path) -> Result<Site, FileError> {
     let tags = raw
         .vessel
         .iter()
-        .map(|v| (&v.tag, "vessel"))
-        .chain(raw.cylinder.iter().map(|c| (&c.tag, "cylinder")));
+        .enumerate()
+        .map(|(i, v)| (&v.tag, format!("vessel[{}]", i + 1)))
+        .chain(
+            raw.cylinder
+                .iter()
+                .enumerate()
+                .map(|(i, c)| (&c.tag, format!("cylinder[{}]", i + 1))),
+        );
     for (tag, kind) in tags {
         let line = src.line_of(tag.span().start);
-        if let Some(first) = seen.insert(tag.get_ref().to_lowercase(), line) {
+        // Tags that differ only in case or punctuation would share a record's file name.
+        if let Some(first) = seen.insert(crate::record::slug(tag.get_ref()), line) {
             return Err(src.error(
                 tag.span().start,
                 format!("{kind}.tag"),
@@ -368,7 +416,17 @@ pub fn load(path: &Path) -> Result<Site, FileError> {
             ));
         }
     }
+    let mut origin = Origin {
+        prefix: "site".to_string(),
+        line: 1,
+        ..Origin::default()
+    };
+    origin.note(&src, "ambient_temperature", &s.ambient_temperature);
+    origin.note_opt(&src, "ambient_pressure", &s.ambient_pressure);
+    origin.note_opt(&src, "elevation", &s.elevation);
+    origin.note_opt(&src, "clearance", &s.clearance);
     Ok(Site {
+        origin,
         path: path.to_path_buf(),
         name: s.name.clone(),
         location: s.location.clone(),
@@ -443,7 +501,32 @@ impl Context<'_> {
                 })
             })
             .transpose()?;
+        let mut origin = Origin {
+            prefix: format!("vessel[{}]", i + 1),
+            line: src.line_of(v.tag.span().start),
+            ..Origin::default()
+        };
+        for (k, x) in [
+            ("gas", &v.gas),
+            ("volume", &v.volume),
+            ("mawp", &v.mawp),
+            ("operating_pressure", &v.operating_pressure),
+        ] {
+            origin.note(src, k, x);
+        }
+        for (k, x) in [
+            ("relief_set_pressure", &v.relief_set_pressure),
+            ("mdmt", &v.mdmt),
+            ("temperature", &v.temperature),
+            ("test_pressure", &v.test_pressure),
+        ] {
+            origin.note_opt(src, k, x);
+        }
+        if let Some(d) = &v.drain {
+            origin.note(src, "drain.orifice", &d.orifice);
+        }
         Ok(Vessel {
+            origin,
             tag: v.tag.get_ref().clone(),
             description: v.description.clone(),
             gas: self.gas(&key("gas"), &v.gas)?,
@@ -495,7 +578,28 @@ impl Context<'_> {
         let key = |k: &str| format!("cylinder[{}].{k}", i + 1);
         let temp =
             |k: &str, x: &Spanned<String>| located(src, &key(k), x, units::parse_temperature);
+        let mut origin = Origin {
+            prefix: format!("cylinder[{}]", i + 1),
+            line: src.line_of(c.tag.span().start),
+            ..Origin::default()
+        };
+        for (k, x) in [
+            ("gas", &c.gas),
+            ("water_capacity", &c.water_capacity),
+            ("service_pressure", &c.service_pressure),
+            ("rated_temperature", &c.rated_temperature),
+        ] {
+            origin.note(src, k, x);
+        }
+        for (k, x) in [
+            ("supply_temperature", &c.supply_temperature),
+            ("residual_pressure", &c.residual_pressure),
+            ("fill_rate", &c.fill_rate),
+        ] {
+            origin.note_opt(src, k, x);
+        }
         Ok(Cylinder {
+            origin,
             tag: c.tag.get_ref().clone(),
             description: c.description.clone(),
             gas: self.gas(&key("gas"), &c.gas)?,
@@ -594,6 +698,9 @@ pub fn parse_offset(s: &str) -> Result<FixedOffset, String> {
         .unwrap_or(t);
     if t.is_empty() || t == "Z" {
         return Ok(FixedOffset::east_opt(0).expect("zero offset"));
+    }
+    if !t.is_ascii() {
+        return Err(format!("'{s}' is not a UTC offset; {ACCEPTED}"));
     }
     let (sign, rest) = match t.as_bytes()[0] {
         b'+' => (1, &t[1..]),

@@ -52,6 +52,8 @@ pub struct Template {
     pub signoff: Vec<String>,
     /// The template's text, part of the fingerprinted inputs.
     pub text: String,
+    /// Where it was read from, and the line of its `equipment` key, for messages.
+    pub origin: (std::path::PathBuf, usize),
 }
 
 /// Which of a vessel's pressures the calculations use.
@@ -245,6 +247,7 @@ pub fn parse(src: &Source) -> Result<Template, FileError> {
         checklist: t.checklist,
         signoff: t.signoff,
         text: src.text.clone(),
+        origin: (src.path.clone(), src.line_of(t.equipment.span().start)),
     })
 }
 

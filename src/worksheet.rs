@@ -20,7 +20,7 @@ use crate::rules::energy::{
 };
 use crate::rules::fill::{self, FillInput};
 use crate::rules::vent::{self, VentInput, DEFAULT_TARGET_MARGIN};
-use crate::site::{Cylinder, Equipment, Site, Vessel};
+use crate::site::{Cylinder, Equipment, EquipmentKind, Site, Vessel};
 use crate::source::FileError;
 use crate::template::{Calculation, PressureBasis, Template};
 use crate::InputError;
@@ -109,13 +109,47 @@ impl Serialize for Equipment {
     }
 }
 
-/// A rule's refusal of an item's values, located at the item in the site file.
-fn item_error(site: &Site, item: &Equipment, e: InputError) -> FileError {
+/// A rule's refusal of an item's values, located at the key in the site file it came from.
+///
+/// Rules name their inputs as the command line does; `basis` is the site key the vessel's
+/// calculations started from.
+fn item_error(site: &Site, item: &Equipment, basis: &'static str, e: InputError) -> FileError {
+    let key: Option<&'static str> = match (item, e.field.as_str()) {
+        (Equipment::Vessel(_), "pressure") => Some(basis),
+        (Equipment::Vessel(_), "temperature") => Some("temperature"),
+        (Equipment::Vessel(_), "volume") => Some("volume"),
+        (Equipment::Vessel(_), "mawp") => Some("mawp"),
+        (Equipment::Vessel(_), "orifice") => Some("drain.orifice"),
+        (Equipment::Vessel(_), "min-metal-temperature") => Some("mdmt"),
+        (Equipment::Cylinder(_), "from") => Some("residual_pressure"),
+        (Equipment::Cylinder(_), "to") => Some("service_pressure"),
+        (Equipment::Cylinder(_), "volume") => Some("water_capacity"),
+        (Equipment::Cylinder(_), "supply-temperature") => Some("supply_temperature"),
+        (Equipment::Cylinder(_), "rated-temperature") => Some("rated_temperature"),
+        _ => None,
+    };
+    let origin = item.origin();
+    // A value the item left to the site (its temperature) is the site's to fix.
+    let site_key = match e.field.as_str() {
+        "temperature" | "initial-temperature" | "ambient-temperature" => {
+            Some("ambient_temperature")
+        }
+        "clearance" => Some("clearance"),
+        _ => None,
+    };
+    let (prefix, found) = match key.and_then(|k| origin.keys.get(k).map(|x| (k, x))) {
+        Some((k, at)) => (format!("{}.{k}", origin.prefix), Some(at)),
+        None => match site_key.and_then(|k| site.origin.keys.get(k).map(|x| (k, x))) {
+            Some((k, at)) => (format!("site.{k}"), Some(at)),
+            None => (format!("{} ('{}')", origin.prefix, item.tag()), None),
+        },
+    };
+    let (line, value) = found.map_or((origin.line, e.value.clone()), |(l, v)| (*l, v.clone()));
     FileError {
         file: site.path.clone(),
-        line: 0,
-        key: format!("{} '{}'", kind_word(item), item.tag()),
-        problem: format!("{} = {}: {}", e.field, e.value, e.problem),
+        line,
+        key: prefix,
+        problem: format!("'{value}' for '{}': {}", item.tag(), e.problem),
     }
 }
 
@@ -135,18 +169,22 @@ pub fn build(
     meta: &Meta,
 ) -> Result<Worksheet, FileError> {
     if item.kind() != template.equipment {
+        let (file, line) = template.origin.clone();
+        let kind = |k: EquipmentKind| match k {
+            EquipmentKind::Vessel => "vessel",
+            EquipmentKind::Cylinder => "cylinder",
+        };
         return Err(FileError {
-            file: format!("<template {}>", template.name).into(),
-            line: 0,
+            file,
+            line,
             key: "template.equipment".to_string(),
             problem: format!(
-                "the template is for a {:?}, and '{}' is a {}; choose a {} template",
-                template.equipment,
+                "the template is for a {}, and '{}' is a {}; choose a {} template",
+                kind(template.equipment),
                 item.tag(),
                 kind_word(item),
                 kind_word(item)
-            )
-            .to_lowercase(),
+            ),
         });
     }
     let inputs = Inputs {
@@ -172,16 +210,20 @@ pub fn build(
     let fingerprint = hex(&Sha256::digest(inputs_json.to_string().as_bytes()));
 
     let mut sheet = Parts::default();
+    let basis = match template.pressure {
+        PressureBasis::Operating => "operating_pressure",
+        PressureBasis::Mawp => "mawp",
+        PressureBasis::Test => "test_pressure",
+    };
     match item {
         Equipment::Vessel(v) => {
             vessel_parts(model, site, v, template, &mut sheet).map_err(|e| match e {
-                Failure::Input(e) => item_error(site, item, e),
+                Failure::Input(e) => item_error(site, item, basis, e),
                 Failure::File(e) => e,
             })?
         }
-        Equipment::Cylinder(c) => {
-            cylinder_parts(model, site, c, &mut sheet).map_err(|e| item_error(site, item, e))?
-        }
+        Equipment::Cylinder(c) => cylinder_parts(model, site, c, &mut sheet)
+            .map_err(|e| item_error(site, item, basis, e))?,
     }
     let cautions = ordered(sheet.cautions);
     let highest = cautions
@@ -227,7 +269,7 @@ pub fn build(
         plots: sheet.plots,
         checklist: template.checklist.clone(),
         signoff: template.signoff.clone(),
-        footer: deferral().message,
+        footer: deferral().message(),
         tool_version: TOOL_VERSION.to_string(),
         fingerprint: fingerprint.clone(),
         date: meta.date,
@@ -310,9 +352,12 @@ fn vessel_parts(
     let missing = |key: &str, why: &str| {
         Failure::File(FileError {
             file: site.path.clone(),
-            line: 0,
-            key: format!("vessel '{}'.{key}", v.tag),
-            problem: format!("not given, and template '{}' needs it {why}", t.name),
+            line: v.origin.line,
+            key: format!("{}.{key}", v.origin.prefix),
+            problem: format!(
+                "not given for '{}', and template '{}' needs it {why}",
+                v.tag, t.name
+            ),
         })
     };
     let (pressure, basis) = match t.pressure {

@@ -185,12 +185,11 @@ impl GasModel for IdealGas {
         let p = st.pressure.get::<pascal>();
         let mut out = Vec::new();
         if p > IDEAL_GAS_PRESSURE_LIMIT_PA {
-            out.push(Caution::new(
+            out.push(crate::caution!(
                 Level::Warning,
-                format!(
-                    "Ideal gas used at {} bar(a), above about 100 bar: real-gas effects there reach tens of percent (nitrogen at 200 bar: isentropic energy about 25 % high; hydrogen at 700 bar: mass about 47 % high). Treat these results as estimates until the real-gas model is available.",
-                    crate::units::fmt_sig(p / 1e5, 4)
-                ),
+                "Ideal gas used at ",
+                crate::units::Value::Pressure(st.pressure),
+                ", above about 100 bar: real-gas effects there reach tens of percent (nitrogen at 200 bar: isentropic energy about 25 % high; hydrogen at 700 bar: mass about 47 % high). Treat these results as estimates until the real-gas model is available.",
             ));
         } else if let Some(z) = self.gas.virial_compressibility(st.pressure, st.temperature) {
             if (z - 1.0).abs() > COMPRESSIBILITY_TOLERANCE {

@@ -7,6 +7,7 @@ mod json;
 mod pdf;
 mod text;
 
+pub use crate::units::Value;
 pub use document::{Axis, AxisKind, Document, Plot, Section, Series};
 pub use json::to_json;
 pub use pdf::{render_pdf, Paper, PdfError};
@@ -307,39 +308,6 @@ impl VentReport {
     }
 }
 
-/// A value on a worksheet, typed so that each renderer chooses its own units.
-#[derive(Debug, Clone, PartialEq)]
-pub enum Value {
-    /// A vessel pressure (absolute inside; shown gauge and absolute).
-    Pressure(Pressure),
-    /// An absolute pressure shown only as absolute (ambient).
-    AbsolutePressure(Pressure),
-    /// A pressure difference (blast overpressure).
-    Overpressure(Pressure),
-    /// A temperature.
-    Temperature(ThermodynamicTemperature),
-    /// A volume.
-    Volume(Volume),
-    /// An energy.
-    Energy(Energy),
-    /// An energy per mass.
-    SpecificEnergy(AvailableEnergy),
-    /// A mass.
-    Mass(Mass),
-    /// A distance.
-    Distance(Length),
-    /// A small length (orifice).
-    Diameter(Length),
-    /// A duration.
-    Time(Time),
-    /// A mass flow.
-    MassFlow(MassRate),
-    /// A plain number with its meaning.
-    Number(f64),
-    /// Text.
-    Text(String),
-}
-
 /// One line of a worksheet: a label, a value and, for results, the method that gave it.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Entry {
@@ -413,7 +381,11 @@ impl EnergyReport {
             let value = s
                 .distance_m
                 .map_or(Value::Text("outside the fits".to_string()), Value::Distance);
-            out.push(result(label, value, "Kingery–Bulmash surface burst, Swisdak 1994 fits"));
+            out.push(result(
+                label,
+                value,
+                "Kingery–Bulmash surface burst, Swisdak 1994 fits",
+            ));
         }
         out
     }
@@ -430,7 +402,13 @@ impl EnergyReport {
     /// The vent-down target for the energy limit, if one was asked for.
     pub fn target_entries(&self) -> Vec<Entry> {
         self.vent_down_target_pa
-            .map(|p| result("Vent down to", Value::Pressure(p), "isentropic energy at the limit"))
+            .map(|p| {
+                result(
+                    "Vent down to",
+                    Value::Pressure(p),
+                    "isentropic energy at the limit",
+                )
+            })
             .into_iter()
             .collect()
     }

@@ -60,7 +60,7 @@ pub fn render_pdf(doc: &Document, paper: Paper) -> Result<Vec<u8>, PdfError> {
     let mut sheet = Sheet::new(doc, paper);
     sheet.title_block();
     for c in &doc.cautions {
-        sheet.banner(c);
+        sheet.banner(c, &display);
     }
     sheet.paragraph("Purpose", &doc.purpose);
     sheet.entries("Inputs", &doc.inputs, &display);
@@ -694,12 +694,12 @@ impl<'a> Sheet<'a> {
     }
 
     /// A caution: the signal-word panel on the left, the message beside it. Never split.
-    fn banner(&mut self, c: &Caution) {
+    fn banner(&mut self, c: &Caution, display: &Display) {
         let (fill, ink) = signal_colours(c.level);
         let panel_w = 92.0;
         let pad = 6.0;
         let msg_x = self.left + panel_w;
-        let lines = wrap(&c.message, MESSAGE, self.right - msg_x - 2.0 * pad);
+        let lines = wrap(&c.render(display), MESSAGE, self.right - msg_x - 2.0 * pad);
         let h = (lines.len() as f32 * MESSAGE.leading() + 2.0 * pad).max(26.0);
         self.ensure(h);
         let top = self.y;
@@ -1454,7 +1454,7 @@ mod tests {
                 "Crew briefed on the cautions above.".into(),
             ],
             signoff: vec!["Prepared".into(), "Checked".into(), "Authorised".into()],
-            footer: deferral.message,
+            footer: deferral.message(),
             tool_version: "0.1.0".into(),
             fingerprint: FINGERPRINT.into(),
             date: chrono::DateTime::parse_from_rfc3339("2026-03-14T09:30:00+01:00")

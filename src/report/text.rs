@@ -14,7 +14,7 @@ pub fn render_text(sheet: &Worksheet, system: UnitSystem) -> String {
     let mut out = format!("pvhazard {TOOL_VERSION} — {}\n\n", sheet.title);
     for c in &sheet.cautions {
         let word = c.level.word();
-        out.push_str(&wrap(&format!("{word:<8} "), &c.message));
+        out.push_str(&wrap(&format!("{word:<8} "), &c.render(&display)));
     }
     section(&mut out, "Inputs", &sheet.inputs, &display);
     section(&mut out, "Results", &sheet.results, &display);

@@ -14,9 +14,10 @@ use super::{
     check_positive, end_phase_caution, gas_cautions, gas_error, user_state, MAX_PRESSURE_PA,
     MAX_VOLUME_M3,
 };
+use crate::caution;
 use crate::caution::{Assessed, Caution, Level};
 use crate::gas::{GasModel, State};
-use crate::units::fmt_sig;
+use crate::units::{fmt_sig, Value};
 use crate::InputError;
 
 /// Bulk modulus of water at about 20 °C, Pa (Kell 1975; 2.2 GPa is the handbook value).
@@ -146,13 +147,13 @@ pub fn stored_energy(
     let pa = input.ambient;
 
     if input.pressure <= pa {
-        cautions.push(Caution::new(
+        cautions.push(caution!(
             Level::Notice,
-            format!(
-                "The pressure given ({} kPa(a)) is at or below ambient ({} kPa(a)): the gas stores no expansion energy. Confirm zero energy on two independent indications before opening.",
-                fmt_sig(input.pressure.get::<pascal>() / 1e3, 5),
-                fmt_sig(pa.get::<pascal>() / 1e3, 5)
-            ),
+            "The pressure given (",
+            Value::Pressure(input.pressure),
+            ") is at or below ambient (",
+            Value::Pressure(pa),
+            "): the gas stores no expansion energy. Confirm zero energy on two independent indications before opening.",
         ));
         let zero = Energy::new::<joule>(0.0);
         return Ok(Assessed {
@@ -288,53 +289,51 @@ fn vent_down_target(
 
 fn energy_cautions(model: &dyn GasModel, input: &EnergyInput, r: &EnergyResult) -> Vec<Caution> {
     let mut out = Vec::new();
-    let e_mj = r.energy.isentropic.get::<joule>() / 1e6;
-    let d = r.exclusion_distance.get::<meter>();
     if let Some(mawp) = input.mawp {
         if input.pressure > mawp {
-            out.push(Caution::new(
+            out.push(caution!(
                 Level::Danger,
-                format!(
-                    "The pressure given is above the MAWP ({} bar(a) > {} bar(a)). Do not approach or work on the vessel: reduce the pressure from a safe location and have the vessel and its relief device examined by an authorised inspector.",
-                    fmt_sig(input.pressure.get::<pascal>() / 1e5, 4),
-                    fmt_sig(mawp.get::<pascal>() / 1e5, 4)
-                ),
+                "The pressure given is above the MAWP (",
+                Value::Pressure(input.pressure),
+                " > ",
+                Value::Pressure(mawp),
+                "). Do not approach or work on the vessel: reduce the pressure from a safe location and have the vessel and its relief device examined by an authorised inspector.",
             ));
         }
     }
     match (input.energy_limit, r.vent_down_target) {
-        (Some(limit), None) => out.push(Caution::new(
+        (Some(limit), None) => out.push(caution!(
             Level::Notice,
-            format!(
-                "The stored isentropic energy ({} MJ) is already at or below the energy limit ({} MJ): no vent-down is needed to meet it.",
-                fmt_sig(e_mj, 4),
-                fmt_sig(limit.get::<joule>() / 1e6, 4)
-            ),
+            "The stored isentropic energy (",
+            Value::Energy(r.energy.isentropic),
+            ") is already at or below the energy limit (",
+            Value::Energy(limit),
+            "): no vent-down is needed to meet it.",
         )),
-        (Some(limit), Some(p)) => out.push(Caution::new(
+        (Some(limit), Some(p)) => out.push(caution!(
             Level::Notice,
-            format!(
-                "Vent down to {} bar(a) or below to bring the stored energy within the limit of {} MJ.",
-                fmt_sig(p.get::<pascal>() / 1e5, 4),
-                fmt_sig(limit.get::<joule>() / 1e6, 4)
-            ),
+            "Vent down to ",
+            Value::Pressure(p),
+            " or below to bring the stored energy within the limit of ",
+            Value::Energy(limit),
+            ".",
         )),
         _ => {}
     }
     if r.exclusion_basis == DistanceBasis::BeyondRule {
-        out.push(Caution::new(
+        out.push(caution!(
             Level::Danger,
-            format!(
-                "Stored energy {} MJ exceeds 271 MJ: the pneumatic-test safe-distance rule does not settle the exclusion zone. Engineering analysis by a competent person is required (blast, fragments, barricades) before any pressurised work or test.",
-                fmt_sig(e_mj, 4)
-            ),
+            "Stored energy ",
+            Value::Energy(r.energy.isentropic),
+            " exceeds 271 MJ: the pneumatic-test safe-distance rule does not settle the exclusion zone. Engineering analysis by a competent person is required (blast, fragments, barricades) before any pressurised work or test.",
         ));
     }
-    out.push(Caution::new(
+    out.push(caution!(
         Level::Warning,
+        "Keep everyone not needed for the task at least ",
+        Value::Distance(r.exclusion_distance),
         format!(
-            "Keep everyone not needed for the task at least {} m away while the vessel is under pressure (pneumatic-test safe-distance rule, {}). Blast standoffs do not protect against fragments, which can travel much farther; shield or barricade where the zone cannot be cleared.",
-            fmt_sig(d, 3),
+            " away while the vessel is under pressure (pneumatic-test safe-distance rule, {}). Blast standoffs do not protect against fragments, which can travel much farther; shield or barricade where the zone cannot be cleared.",
             match r.exclusion_basis {
                 DistanceBasis::Scaled => "20 m/kg^(1/3) scaled distance",
                 DistanceBasis::Floor30m => "30 m minimum for up to 135.5 MJ",
@@ -352,22 +351,22 @@ fn energy_cautions(model: &dyn GasModel, input: &EnergyInput, r: &EnergyResult) 
             .chain(std::iter::once(r.exclusion_distance))
             .fold(Length::new::<meter>(0.0), |a, b| if b > a { b } else { a });
         if r.exclusion_distance > clear {
-            out.push(Caution::new(
+            out.push(caution!(
                 Level::Danger,
-                format!(
-                    "The exclusion distance ({} m) is more than the site can keep clear ({} m). Reduce the pressure or volume at risk, test hydrostatically, or provide engineered barricades before pressurising.",
-                    fmt_sig(d, 3),
-                    fmt_sig(clear.get::<meter>(), 3)
-                ),
+                "The exclusion distance (",
+                Value::Distance(r.exclusion_distance),
+                ") is more than the site can keep clear (",
+                Value::Distance(clear),
+                "). Reduce the pressure or volume at risk, test hydrostatically, or provide engineered barricades before pressurising.",
             ));
         } else if farthest > clear {
-            out.push(Caution::new(
+            out.push(caution!(
                 Level::Warning,
-                format!(
-                    "An overpressure standoff ({} m) reaches beyond what the site can keep clear ({} m): warn occupants of nearby buildings and keep them away from windows.",
-                    fmt_sig(farthest.get::<meter>(), 3),
-                    fmt_sig(clear.get::<meter>(), 3)
-                ),
+                "An overpressure standoff (",
+                Value::Distance(farthest),
+                ") reaches beyond what the site can keep clear (",
+                Value::Distance(clear),
+                "): warn occupants of nearby buildings and keep them away from windows.",
             ));
         }
     }
@@ -390,12 +389,11 @@ fn energy_cautions(model: &dyn GasModel, input: &EnergyInput, r: &EnergyResult) 
     ));
     for s in &r.standoffs {
         if s.distance.is_none() {
-            out.push(Caution::new(
+            out.push(caution!(
                 Level::Caution,
-                format!(
-                    "No standoff for {} kPa: the threshold lies outside the Kingery–Bulmash fits (scaled distance 0.2–198.5 m/kg^(1/3)).",
-                    fmt_sig(s.overpressure.get::<pascal>() / 1e3, 3)
-                ),
+                "No standoff for ",
+                Value::Overpressure(s.overpressure),
+                ": the threshold lies outside the Kingery–Bulmash fits (scaled distance 0.2–198.5 m/kg^(1/3)).",
             ));
         }
     }
@@ -545,7 +543,7 @@ mod tests {
         assert!(r
             .cautions
             .iter()
-            .any(|c| c.level == Level::Notice && c.message.contains("no expansion energy")));
+            .any(|c| c.level == Level::Notice && c.message().contains("no expansion energy")));
     }
 
     #[test]

@@ -10,9 +10,10 @@ use uom::si::{
 use super::{
     check_positive, check_temperature, gas_cautions, gas_error, user_state, MAX_VOLUME_M3,
 };
+use crate::caution;
 use crate::caution::{Assessed, Caution, Level};
 use crate::gas::{GasModel, State};
-use crate::units::fmt_sig;
+use crate::units::{fmt_sig, Value};
 use crate::InputError;
 
 /// What the fill rule needs.
@@ -234,15 +235,15 @@ fn fill_to_pressure(
 
 fn fill_cautions(input: &FillInput, r: &FillResult) -> Vec<Caution> {
     let mut out = Vec::new();
-    let tf = r.final_temperature.get::<kelvin>();
+    let end = Value::Temperature(r.final_temperature);
     match input.rated_temperature {
-        Some(rated) if r.final_temperature > rated => out.push(Caution::new(
+        Some(rated) if r.final_temperature > rated => out.push(caution!(
             Level::Warning,
-            format!(
-                "The adiabatic fill temperature ({:.0} °C) exceeds the rated temperature ({:.0} °C). Fill more slowly, in stages, or with a cooled supply, and follow the cylinder marking and the filling procedure; this is the no-heat-loss upper bound, but do not plan on heat loss to make it safe.",
-                tf - 273.15,
-                rated.get::<kelvin>() - 273.15
-            ),
+            "The adiabatic fill temperature (",
+            end.clone(),
+            ") exceeds the rated temperature (",
+            Value::Temperature(rated),
+            "). Fill more slowly, in stages, or with a cooled supply, and follow the cylinder marking and the filling procedure; this is the no-heat-loss upper bound, but do not plan on heat loss to make it safe.",
         )),
         Some(_) => {}
         None => out.push(Caution::new(
@@ -252,55 +253,58 @@ fn fill_cautions(input: &FillInput, r: &FillResult) -> Vec<Caution> {
     }
     // The wall starts at the initial gas temperature: where the gas ends hotter than that,
     // heat to the wall could only cool it, so the adiabatic result bounds it from above.
-    let ambient_c = input.ambient_temperature.get::<kelvin>() - 273.15;
     let then = if r.final_temperature > input.ambient_temperature {
-        "cools"
+        " cools to "
     } else {
-        "warms"
+        " warms to "
     };
     let bound = if r.final_temperature >= input.initial_temperature {
-        format!("{:.0} °C is the upper bound of the gas temperature for any fill rate; a real fill is cooler", tf - 273.15)
+        caution::Part::from(
+            " is the upper bound of the gas temperature for any fill rate; a real fill is cooler",
+        )
     } else {
-        format!("the gas ends at {:.0} °C, colder than the cylinder started, so heat from the wall would warm it: this is not a bound", tf - 273.15)
+        caution::Part::from(", colder than the cylinder started: heat from the wall would warm the gas, so this is not a bound")
     };
-    out.push(Caution::new(
+    out.push(caution!(
         Level::Notice,
-        format!(
-            "Adiabatic fill: no heat passes between the gas and the cylinder wall, so {bound}. The settled pressure assumes the gas then {then} to {ambient_c:.0} °C at constant mass."
-        ),
+        "Adiabatic fill: no heat passes between the gas and the cylinder wall, so ",
+        end,
+        bound,
+        ". The settled pressure assumes the gas then",
+        then,
+        Value::Temperature(input.ambient_temperature),
+        " at constant mass.",
     ));
     let shortfall = 1.0 - r.settled_pressure.get::<pascal>() / input.to.get::<pascal>();
     if let Some(fill_to) = r.fill_to_pressure {
         if fill_to > input.to * FILL_TO_WARNING_RATIO {
-            out.push(Caution::new(
+            out.push(caution!(
                 Level::Warning,
-                format!(
-                    "The fill-to pressure ({} bar(a)) is far above the target: it assumes the gas reaches the adiabatic temperature, which a real fill does not. Do not fill to it; top up after the cylinder cools, and never exceed the pressure the cylinder's marking or standard permits at the fill temperature.",
-                    fmt_sig(fill_to.get::<pascal>() / 1e5, 4)
-                ),
+                "The fill-to pressure (",
+                Value::Pressure(fill_to),
+                ") is far above the target: it assumes the gas reaches the adiabatic temperature, which a real fill does not. Do not fill to it; top up after the cylinder cools, and never exceed the pressure the cylinder's marking or standard permits at the fill temperature.",
             ));
         }
     }
     match r.fill_to_pressure {
-        Some(fill_to) if shortfall > 0.01 => out.push(Caution::new(
+        Some(fill_to) if shortfall > 0.01 => out.push(caution!(
             Level::Notice,
-            format!(
-                "A fill stopped at {} bar(a) settles to {} bar(a) ({:.0} % short). To settle at the target, stop at {} bar(a), but never above the cylinder's permitted filling pressure at the fill temperature.",
-                fmt_sig(input.to.get::<pascal>() / 1e5, 4),
-                fmt_sig(r.settled_pressure.get::<pascal>() / 1e5, 4),
-                shortfall * 100.0,
-                fmt_sig(fill_to.get::<pascal>() / 1e5, 4)
-            ),
+            "A fill stopped at ",
+            Value::Pressure(input.to),
+            " settles to ",
+            Value::Pressure(r.settled_pressure),
+            format!(" ({:.0} % short). To settle at the target, stop at ", shortfall * 100.0),
+            Value::Pressure(fill_to),
+            ", but never above the cylinder's permitted filling pressure at the fill temperature.",
         )),
         Some(_) => {}
-        None => out.push(Caution::new(
+        None => out.push(caution!(
             Level::Warning,
-            format!(
-                "The gas already in the cylinder settles at or above {} bar(a) once it reaches {:.0} °C: no fill is needed to reach the target, and this fill settles {:.0} % above it. Check the settled pressure against the cylinder's service pressure.",
-                fmt_sig(input.to.get::<pascal>() / 1e5, 4),
-                input.ambient_temperature.get::<kelvin>() - 273.15,
-                -shortfall * 100.0
-            ),
+            "The gas already in the cylinder settles at or above ",
+            Value::Pressure(input.to),
+            " once it reaches ",
+            Value::Temperature(input.ambient_temperature),
+            format!(": no fill is needed to reach the target, and this fill settles {:.0} % above it. Check the settled pressure against the cylinder's service pressure.", -shortfall * 100.0),
         )),
     }
     out

@@ -11,6 +11,7 @@ pub mod vent;
 use uom::si::f64::{Pressure, ThermodynamicTemperature};
 use uom::si::{pressure::pascal, thermodynamic_temperature::kelvin};
 
+use crate::caution;
 use crate::caution::{Caution, Level};
 use crate::gas::{GasError, GasModel, State};
 use crate::InputError;
@@ -98,25 +99,21 @@ fn end_phase_caution(model: &dyn GasModel, what: &str, end: &State) -> Option<Ca
     let gas = model.gas();
     let t = end.temperature.get::<kelvin>();
     if t < gas.min_temperature_k {
-        return Some(Caution::new(
+        return Some(caution!(
             Level::Caution,
-            format!(
-                "{what} ends at {t:.0} K, below {}'s triple point ({:.0} K): the gas would partly condense or freeze{}, which these gas methods do not model. Treat the result as an estimate and expect ice or liquid in the vent path.",
-                gas.name,
+            format!("{what} ends at {t:.0} K, below {:.0} K, the lowest temperature these methods accept for {}: the gas would partly condense or freeze{}, which they do not model. Treat the result as an estimate and expect ice or liquid in the vent path.",
                 gas.min_temperature_k,
-                if gas.name == "carbon-dioxide" { " (dry-ice snow, which can block a vent)" } else { "" }
-            ),
+                gas.name,
+                if gas.name == "carbon-dioxide" { " (dry-ice snow, which can block a vent)" } else { "" }),
         ));
     }
     let tsat = gas.saturation_temperature(end.pressure)?;
     (end.temperature < tsat).then(|| {
-        Caution::new(
+        caution!(
             Level::Caution,
-            format!(
-                "{what} ends at {t:.0} K, below {}'s condensation temperature there ({:.0} K): part of the gas would condense, which these gas methods do not model. Treat the result as an estimate.",
+            format!("{what} ends at {t:.0} K, below {}'s condensation temperature there ({:.0} K): part of the gas would condense, which these gas methods do not model. Treat the result as an estimate.",
                 gas.name,
-                tsat.get::<kelvin>()
-            ),
+                tsat.get::<kelvin>()),
         )
     })
 }

@@ -7,17 +7,18 @@ use uom::si::f64::{
 };
 use uom::si::{
     area::square_meter, length::meter, mass_density::kilogram_per_cubic_meter,
-    mass_flux::kilogram_per_square_meter_second, pressure::pascal,
-    thermodynamic_temperature::kelvin, time::second, volume::cubic_meter,
+    mass_flux::kilogram_per_square_meter_second, pressure::pascal, time::second,
+    volume::cubic_meter,
 };
 
 use super::{
     check_positive, check_temperature, end_phase_caution, gas_cautions, gas_error, user_state,
     MAX_VOLUME_M3,
 };
+use crate::caution;
 use crate::caution::{Assessed, Caution, Level};
 use crate::gas::{GasModel, State};
-use crate::units::fmt_sig;
+use crate::units::{fmt_sig, Value};
 use crate::InputError;
 
 /// Discharge coefficient of a sharp-edged orifice, the default (Perry's, ch. 10).
@@ -347,16 +348,15 @@ impl Path<'_> {
 
 fn vent_cautions(model: &dyn GasModel, input: &VentInput, r: &VentResult) -> Vec<Caution> {
     let mut out = Vec::new();
-    let tf = r.end.temperature.get::<kelvin>();
     if let Some(mdmt) = input.min_metal_temperature {
         if r.end.temperature < mdmt {
-            out.push(Caution::new(
+            out.push(caution!(
                 Level::Warning,
-                format!(
-                    "The gas falls to {:.0} °C, below the MDMT ({:.0} °C). The metal lags the gas but can approach it in a long or repeated vent: brittle fracture is possible. Vent more slowly or in stages, and have an authorised inspector confirm the vessel's low-temperature rating before venting this way.",
-                    tf - 273.15,
-                    mdmt.get::<kelvin>() - 273.15
-                ),
+                "The gas falls to ",
+                Value::Temperature(r.end.temperature),
+                ", below the MDMT (",
+                Value::Temperature(mdmt),
+                "). The metal lags the gas but can approach it in a long or repeated vent: brittle fracture is possible. Vent more slowly or in stages, and have an authorised inspector confirm the vessel's low-temperature rating before venting this way.",
             ));
         }
     } else if input.process == Process::Isentropic {
@@ -389,6 +389,7 @@ mod tests {
     use super::*;
     use crate::gas::{Gas, IdealGas};
     use approx::assert_relative_eq;
+    use uom::si::thermodynamic_temperature::kelvin;
 
     fn air_vent(down_to_gauge_pa: f64, process: Process) -> VentInput {
         let ambient = 101_325.0;
@@ -532,6 +533,6 @@ mod tests {
         assert!(r
             .cautions
             .iter()
-            .any(|c| c.level == Level::Warning && c.message.contains("MDMT")));
+            .any(|c| c.level == Level::Warning && c.message().contains("MDMT")));
     }
 }

@@ -12,6 +12,39 @@ use uom::si::{
 
 use super::{J_PER_FT_LBF, KG_PER_LB, M3_PER_US_GAL, M_PER_FT, PA_PER_PSI};
 
+/// A value to show a person (on a worksheet or in a caution), typed so that each renderer chooses its own units.
+#[derive(Debug, Clone, PartialEq)]
+pub enum Value {
+    /// A vessel pressure (absolute inside; shown gauge and absolute).
+    Pressure(Pressure),
+    /// An absolute pressure shown only as absolute (ambient).
+    AbsolutePressure(Pressure),
+    /// A pressure difference (blast overpressure).
+    Overpressure(Pressure),
+    /// A temperature.
+    Temperature(ThermodynamicTemperature),
+    /// A volume.
+    Volume(Volume),
+    /// An energy.
+    Energy(Energy),
+    /// An energy per mass.
+    SpecificEnergy(AvailableEnergy),
+    /// A mass.
+    Mass(Mass),
+    /// A distance.
+    Distance(Length),
+    /// A small length (orifice).
+    Diameter(Length),
+    /// A duration.
+    Time(Time),
+    /// A mass flow.
+    MassFlow(MassRate),
+    /// A plain number with its meaning.
+    Number(f64),
+    /// Text.
+    Text(String),
+}
+
 /// The unit system a person reads results in.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Default, clap::ValueEnum, serde::Serialize)]
 #[serde(rename_all = "lowercase")]
@@ -169,6 +202,79 @@ impl Display {
             format!("{} kg/s", fmt_sig(kg, 3)),
             format!("{} lb/s", fmt_sig(kg / KG_PER_LB, 3)),
         )
+    }
+
+    /// A value in the display's first unit only, for use inside a sentence: `311.2 bar(a)`,
+    /// `-126 °C`, `30.0 m`. Pressures are absolute, so the text does not depend on ambient.
+    pub fn short(&self, v: &Value) -> String {
+        let us = self.system == UnitSystem::Us;
+        match v {
+            Value::Pressure(p) | Value::AbsolutePressure(p) => {
+                let pa = p.get::<pascal>();
+                if us {
+                    format!("{} psia", fmt_sig(pa / PA_PER_PSI, 4))
+                } else {
+                    format!("{} bar(a)", fmt_sig(pa / 1e5, 4))
+                }
+            }
+            Value::Overpressure(p) => {
+                let pa = p.get::<pascal>();
+                if us {
+                    format!("{} psi", fmt_sig(pa / PA_PER_PSI, 3))
+                } else {
+                    format!("{} kPa", fmt_sig(pa / 1e3, 3))
+                }
+            }
+            Value::Temperature(t) => {
+                let c = t.get::<kelvin>() - 273.15;
+                if us {
+                    format!("{:.0} °F", c * 9.0 / 5.0 + 32.0)
+                } else {
+                    format!("{c:.0} °C")
+                }
+            }
+            Value::Distance(l) => {
+                let m = l.get::<meter>();
+                if us {
+                    format!("{} ft", fmt_sig(m / M_PER_FT, 3))
+                } else {
+                    format!("{} m", fmt_sig(m, 3))
+                }
+            }
+            Value::Energy(e) => {
+                let j = e.get::<joule>();
+                if us {
+                    format!("{} ft·lbf", fmt_sig(j / J_PER_FT_LBF, 4))
+                } else {
+                    format!("{} MJ", fmt_sig(j / 1e6, 4))
+                }
+            }
+            Value::Mass(m) => {
+                let kg = m.get::<kilogram>();
+                if us {
+                    format!("{} lb", fmt_sig(kg / KG_PER_LB, 4))
+                } else {
+                    format!("{} kg", fmt_sig(kg, 4))
+                }
+            }
+            other => {
+                // Every other kind reads well enough in its full form.
+                let full = Display {
+                    system: self.system,
+                    ambient: self.ambient,
+                };
+                match other {
+                    Value::Volume(x) => full.volume(*x),
+                    Value::SpecificEnergy(x) => full.specific_energy(*x),
+                    Value::Diameter(x) => full.small_length(*x),
+                    Value::Time(x) => full.time(*x),
+                    Value::MassFlow(x) => full.mass_flow(*x),
+                    Value::Number(x) => fmt_sig(*x, 3),
+                    Value::Text(s) => s.clone(),
+                    _ => String::new(),
+                }
+            }
+        }
     }
 
     /// A plot axis's unit for `kind`, given the largest SI value on it.

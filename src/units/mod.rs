@@ -8,7 +8,7 @@
 mod format;
 mod parse;
 
-pub use format::{fmt_sig, Display, UnitSystem};
+pub use format::{fmt_sig, Display, UnitSystem, Value};
 pub use parse::{
     parse_energy, parse_length, parse_mass, parse_overpressure, parse_pressure,
     parse_pressure_rate, parse_specific_energy, parse_temperature, parse_time, parse_volume,

@@ -197,7 +197,12 @@ pub fn parse_mass(text: &str) -> Result<Mass, String> {
         (&["t", "tonne", "tonnes"], 1.0e3),
         (&["lb", "lbs", "lbm"], KG_PER_LB),
     ];
-    let f = lookup(text, UNITS, "a mass", "accepted: g, kg, t or lb, e.g. '520 kg', '1150 lb'")?;
+    let f = lookup(
+        text,
+        UNITS,
+        "a mass",
+        "accepted: g, kg, t or lb, e.g. '520 kg', '1150 lb'",
+    )?;
     Ok(Mass::new::<kilogram>(f))
 }
 
@@ -211,7 +216,8 @@ pub struct PressureRate {
 /// Parses a rate of pressure change: `25 bar/min`, `400 psi/min`, `0.5 MPa/min`, `2 bar/s`.
 /// A rate is a difference, so it needs no gauge or absolute mark.
 pub fn parse_pressure_rate(text: &str) -> Result<PressureRate, String> {
-    const ACCEPTED: &str = "accepted: Pa, kPa, MPa, bar or psi per s, min or h, e.g. '25 bar/min', '400 psi/min'";
+    const ACCEPTED: &str =
+        "accepted: Pa, kPa, MPa, bar or psi per s, min or h, e.g. '25 bar/min', '400 psi/min'";
     let (value, unit) = split(text)?;
     let norm = normalise(unit);
     let Some((pressure, time)) = norm.split_once('/') else {
@@ -494,9 +500,16 @@ mod tests {
         let r = parse_pressure_rate("25 bar/min").unwrap();
         assert_relative_eq!(r.per_second.get::<pascal>(), 25.0e5 / 60.0);
         let r = parse_pressure_rate("400 psi/min").unwrap();
-        assert_relative_eq!(r.per_second.get::<pascal>(), 400.0 * 6894.757293168 / 60.0, max_relative = 1e-12);
+        assert_relative_eq!(
+            r.per_second.get::<pascal>(),
+            400.0 * 6894.757293168 / 60.0,
+            max_relative = 1e-12
+        );
         assert!(parse_pressure_rate("25 barg/min").is_err());
-        assert_relative_eq!(parse_mass("1150 lb").unwrap().get::<kilogram>(), 1150.0 * 0.45359237);
+        assert_relative_eq!(
+            parse_mass("1150 lb").unwrap().get::<kilogram>(),
+            1150.0 * 0.45359237
+        );
     }
 
     #[test]
