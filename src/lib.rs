@@ -11,6 +11,7 @@ pub mod caution;
 pub mod cli;
 mod error;
 pub mod gas;
+pub mod heat;
 pub mod record;
 pub mod report;
 pub mod rules;

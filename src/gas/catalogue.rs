@@ -14,6 +14,9 @@ pub const MOLAR_GAS_CONSTANT: f64 = 8.314_462_618;
 // - critical point, triple point: the reference equation of state of each gas (named in
 //   `eos`), as carried by CoolProp 8.0.0; air: the pseudo-pure fluid's critical point and
 //   its lower limit of 59.75 K.
+// - viscosity and thermal conductivity at 300 K and 1 atm: Incropera & DeWitt, Fundamentals
+//   of Heat and Mass Transfer, table A.4, and the NIST Chemistry WebBook fluid data (from
+//   memory, to about 3 %); used only by the heat-transfer correlations.
 // - acentric factor: Poling, Prausnitz & O'Connell, The Properties of Gases and Liquids
 //   (5th ed.), appendix A, as carried by CoolProp 8.0.0.
 
@@ -31,6 +34,8 @@ pub static GASES: &[Gas] = &[
         min_temperature_k: 59.75,
         eos: "Lemmon, Jacobsen, Penoncello & Friend (2000), air as a pseudo-pure fluid",
         hazard: GasHazard::Air,
+        viscosity_300k_pa_s: 1.846e-05,
+        conductivity_300k_w_per_m_k: 0.0263,
     },
     Gas {
         name: "nitrogen",
@@ -44,6 +49,8 @@ pub static GASES: &[Gas] = &[
         min_temperature_k: 63.151,
         eos: "Span, Lemmon, Jacobsen, Wagner & Yokozeki (2000)",
         hazard: GasHazard::Asphyxiant,
+        viscosity_300k_pa_s: 1.790e-05,
+        conductivity_300k_w_per_m_k: 0.0259,
     },
     Gas {
         name: "oxygen",
@@ -57,6 +64,8 @@ pub static GASES: &[Gas] = &[
         min_temperature_k: 54.361,
         eos: "Schmidt & Wagner (1985)",
         hazard: GasHazard::Oxidiser,
+        viscosity_300k_pa_s: 2.070e-05,
+        conductivity_300k_w_per_m_k: 0.0267,
     },
     Gas {
         name: "argon",
@@ -70,6 +79,8 @@ pub static GASES: &[Gas] = &[
         min_temperature_k: 83.806,
         eos: "Tegeler, Span & Wagner (1999)",
         hazard: GasHazard::Asphyxiant,
+        viscosity_300k_pa_s: 2.270e-05,
+        conductivity_300k_w_per_m_k: 0.0178,
     },
     Gas {
         name: "helium",
@@ -83,6 +94,8 @@ pub static GASES: &[Gas] = &[
         min_temperature_k: 2.1768,
         eos: "Ortiz-Vega, Hall, Holste & Lemmon (2013)",
         hazard: GasHazard::Asphyxiant,
+        viscosity_300k_pa_s: 1.990e-05,
+        conductivity_300k_w_per_m_k: 0.155,
     },
     Gas {
         name: "hydrogen",
@@ -96,6 +109,8 @@ pub static GASES: &[Gas] = &[
         min_temperature_k: 13.957,
         eos: "Leachman, Jacobsen, Penoncello & Lemmon (2009), normal hydrogen",
         hazard: GasHazard::Flammable,
+        viscosity_300k_pa_s: 8.960e-6,
+        conductivity_300k_w_per_m_k: 0.183,
     },
     Gas {
         name: "methane",
@@ -109,6 +124,8 @@ pub static GASES: &[Gas] = &[
         min_temperature_k: 90.6941,
         eos: "Setzmann & Wagner (1991)",
         hazard: GasHazard::Flammable,
+        viscosity_300k_pa_s: 1.120e-05,
+        conductivity_300k_w_per_m_k: 0.0343,
     },
     Gas {
         name: "carbon-dioxide",
@@ -122,5 +139,7 @@ pub static GASES: &[Gas] = &[
         min_temperature_k: 216.592,
         eos: "Span & Wagner (1996)",
         hazard: GasHazard::ToxicAsphyxiant,
+        viscosity_300k_pa_s: 1.500e-05,
+        conductivity_300k_w_per_m_k: 0.0166,
     },
 ];

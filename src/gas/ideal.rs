@@ -149,6 +149,12 @@ impl GasModel for IdealGas {
         self.state(p, p / (rho * self.r), rho)
     }
 
+    fn state_rho_u(&self, rho: MassDensity, u: AvailableEnergy) -> Result<State, GasError> {
+        let rho = rho.get::<kilogram_per_cubic_meter>();
+        let t = u.get::<joule_per_kilogram>() / self.cv;
+        self.state(rho * self.r * t, t, rho)
+    }
+
     fn internal_energy(&self, st: &State) -> AvailableEnergy {
         AvailableEnergy::new::<joule_per_kilogram>(self.cv * st.temperature.get::<kelvin>())
     }

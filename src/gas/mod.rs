@@ -49,6 +49,10 @@ pub struct Gas {
     pub eos: &'static str,
     /// What the gas does to people when it escapes.
     pub hazard: GasHazard,
+    /// Dilute-gas viscosity at 300 K, Pa·s.
+    pub viscosity_300k_pa_s: f64,
+    /// Dilute-gas thermal conductivity at 300 K, W/(m·K).
+    pub conductivity_300k_w_per_m_k: f64,
 }
 
 /// The hazard of the released gas itself, apart from the stored energy.
@@ -108,6 +112,18 @@ impl Gas {
     /// Ratio of specific heats γ = cp/(cp − R) of the ideal gas at 300 K.
     pub fn gamma_300k(&self) -> f64 {
         self.cp_300k_j_per_kg_k / (self.cp_300k_j_per_kg_k - self.specific_gas_constant())
+    }
+
+    /// Dilute-gas viscosity (Pa·s) and thermal conductivity (W/(m·K)) at `t`, by a power
+    /// law in temperature from the 300 K values (exponents 0.7 and 0.8: common practice for
+    /// simple gases near room temperature, no source). Heat-transfer correlations use them;
+    /// the dense-gas rise at high pressure is ignored, which understates the coefficients.
+    pub fn transport(&self, t: ThermodynamicTemperature) -> (f64, f64) {
+        let ratio = (t.get::<kelvin>() / 300.0).max(0.05);
+        (
+            self.viscosity_300k_pa_s * ratio.powf(0.7),
+            self.conductivity_300k_w_per_m_k * ratio.powf(0.8),
+        )
     }
 
     /// Saturation (vapour) pressure at `t`, or `None` at or above the critical temperature.
@@ -304,6 +320,10 @@ pub trait GasModel {
 
     /// The state at density and pressure.
     fn state_rho_p(&self, rho: MassDensity, p: Pressure) -> Result<State, GasError>;
+
+    /// The state at density and specific internal energy (a closed vessel's gas, from its
+    /// mass and energy balances).
+    fn state_rho_u(&self, rho: MassDensity, u: AvailableEnergy) -> Result<State, GasError>;
 
     /// Specific internal energy u.
     fn internal_energy(&self, state: &State) -> AvailableEnergy;

@@ -6,6 +6,7 @@
 pub mod blast;
 pub mod energy;
 pub mod fill;
+pub mod transient;
 pub mod vent;
 
 use uom::si::f64::{Pressure, ThermodynamicTemperature};

@@ -1,4 +1,7 @@
-//! Numerical methods the rules share: bracketed root finding and adaptive quadrature.
+//! Numerical methods the rules share: bracketed root finding, adaptive quadrature, and an
+//! adaptive ODE integrator ([`ode`]).
+
+pub mod ode;
 
 /// A root finder that could not bracket or converge.
 #[derive(Debug, Clone, Copy, PartialEq, thiserror::Error)]

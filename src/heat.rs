@@ -1,0 +1,164 @@
+//! Heat transfer between a vessel's gas, its wall and the surroundings: wall materials, wall
+//! estimates, geometry and the convection correlations the transient models use.
+
+use serde::Serialize;
+
+use crate::site::{Construction, Material};
+
+/// Standard gravity, m/s².
+const G: f64 = 9.806_65;
+
+impl Material {
+    /// Specific heat capacity near room temperature, J/(kg·K).
+    ///
+    /// source: Incropera & DeWitt, Fundamentals of Heat and Mass Transfer, table A.1 at
+    /// 300 K: plain carbon steel 434, AISI 304 477, aluminium alloy 2024-T6 875; carbon-fibre
+    /// epoxy composite about 1000 (from memory, manufacturers' data sheets 800–1200).
+    pub fn specific_heat(self) -> f64 {
+        match self {
+            Material::CarbonSteel => 434.0,
+            Material::StainlessSteel => 477.0,
+            Material::Aluminium => 875.0,
+            Material::Composite => 1000.0,
+        }
+    }
+
+    /// The name used on the command line and in files.
+    pub fn name(self) -> &'static str {
+        match self {
+            Material::CarbonSteel => "carbon-steel",
+            Material::StainlessSteel => "stainless-steel",
+            Material::Aluminium => "aluminium",
+            Material::Composite => "composite",
+        }
+    }
+}
+
+impl Construction {
+    /// The material of the part of the wall that takes up heat from the gas.
+    ///
+    /// A composite cylinder's carbon-fibre shell conducts heat some hundred times worse
+    /// than its liner, so over a fill only the liner keeps pace with the gas: the model
+    /// counts the liner (taken as aluminium) and treats the shell as insulation, which
+    /// errs towards a hotter gas.
+    pub fn heat_material(self) -> Material {
+        match self {
+            Construction::Steel => Material::CarbonSteel,
+            Construction::Aluminium | Construction::Composite => Material::Aluminium,
+        }
+    }
+
+    /// Estimated mass of the wall that takes up heat, kg, from the water capacity (m³) and
+    /// service pressure (Pa gauge): m = 2·p·V·ρ/σ, the membrane-stress mass of a long
+    /// cylinder with an effective allowable stress σ per construction (steel 7850 kg/m³ at
+    /// 300 MPa, aluminium 2700 kg/m³ at 90 MPa, composite liner as a third of a 1.0e-5
+    /// kg/(Pa·m³) wall). Common practice, no source: it reproduces typical catalogue masses
+    /// of 50 L steel, 11 L aluminium and 7 L composite cylinders within about 20 %.
+    pub fn estimated_wall_mass(self, water_capacity_m3: f64, service_gauge_pa: f64) -> f64 {
+        let pv = 2.0 * service_gauge_pa.max(0.0) * water_capacity_m3;
+        match self {
+            Construction::Steel => pv * 7850.0 / 300.0e6,
+            Construction::Aluminium => pv * 2700.0 / 90.0e6,
+            Construction::Composite => pv * 1.0e-5 / 3.0,
+        }
+    }
+}
+
+/// The vessel's inner surface, as a cylinder with hemispherical-ish ends of length `ratio`
+/// diameters: returns (inner diameter, inner area), both SI.
+pub fn geometry(volume_m3: f64, length_over_diameter: f64) -> (f64, f64) {
+    // V = π D² L / 4 with L = r·D; A = π D L + π D² / 2 (flat ends, a close upper bound).
+    let d = (4.0 * volume_m3 / (std::f64::consts::PI * length_over_diameter)).cbrt();
+    let area = std::f64::consts::PI * d * d * (length_over_diameter + 0.5);
+    (d, area)
+}
+
+/// Length over diameter assumed for gas cylinders and for vessels (common practice, no
+/// source: cylinders are long and slim, receivers squatter).
+pub const CYLINDER_ASPECT: f64 = 4.0;
+/// See [`CYLINDER_ASPECT`].
+pub const VESSEL_ASPECT: f64 = 3.0;
+
+/// Outside coefficient to still air, W/(m²·K).
+///
+/// source: Woodfield, Monde & Takano (2008), J. Thermal Sci. Tech. 3(2): 241, who fitted
+/// 4.5 W/(m²·K) to cylinders cooling in a laboratory (from memory).
+pub const OUTSIDE_COEFFICIENT: f64 = 4.5;
+
+/// How the inner coefficient was found, for the record.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum InnerBasis {
+    /// A coefficient the user gave.
+    Given,
+    /// Jet-driven forced plus natural convection (fill with a known inlet diameter).
+    JetCorrelation,
+    /// The constant fitted to fill experiments.
+    FillConstant,
+    /// Natural convection in the enclosure (vent).
+    NaturalConvection,
+}
+
+/// The inner coefficient measured while filling, W/(m²·K).
+///
+/// source: Woodfield, Monde & Takano (2008): about 500 W/(m²·K) during the fill of 39–205 L
+/// hydrogen tanks at 35 and 70 MPa (from memory).
+pub const FILL_CONSTANT: f64 = 500.0;
+
+/// Gas properties a correlation needs at the film.
+#[derive(Debug, Clone, Copy)]
+pub struct Film {
+    /// Density, kg/m³.
+    pub density: f64,
+    /// Viscosity, Pa·s.
+    pub viscosity: f64,
+    /// Thermal conductivity, W/(m·K).
+    pub conductivity: f64,
+    /// Isobaric heat capacity, J/(kg·K).
+    pub cp: f64,
+    /// Gas temperature, K (the film's expansion coefficient is taken as 1/T).
+    pub temperature: f64,
+}
+
+/// Natural convection inside a closed vessel: Nu_D = 0.104·Ra_D^0.352 on the diameter.
+///
+/// source: Woodfield, Monde & Takano (2008), the natural-convection term of their fill
+/// correlation, fitted for Ra up to about 1e13 (from memory).
+pub fn natural(film: &Film, delta_t: f64, diameter: f64) -> f64 {
+    let nu = film.viscosity / film.density;
+    let alpha = film.conductivity / (film.density * film.cp);
+    let ra = G * delta_t.abs() / film.temperature * diameter.powi(3) / (nu * alpha);
+    0.104 * ra.powf(0.352) * film.conductivity / diameter
+}
+
+/// Forced convection by the inlet jet during a fill, plus natural convection:
+/// Nu_D = 0.56·Re_d^0.67 + 0.104·Ra_D^0.352, Re_d on the inlet diameter d.
+///
+/// source: Woodfield, Monde & Takano (2008) (from memory).
+pub fn jet(film: &Film, mass_flow: f64, inlet_diameter: f64, delta_t: f64, diameter: f64) -> f64 {
+    let re = 4.0 * mass_flow.abs() / (std::f64::consts::PI * inlet_diameter * film.viscosity);
+    0.56 * re.powf(0.67) * film.conductivity / diameter + natural(film, delta_t, diameter)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use approx::assert_relative_eq;
+
+    #[test]
+    fn geometry_encloses_the_volume() {
+        let (d, a) = geometry(0.05, 4.0);
+        assert_relative_eq!(std::f64::consts::PI * d * d / 4.0 * 4.0 * d, 0.05, max_relative = 1e-12);
+        assert!(a > 4.84 * 0.05f64.powf(2.0 / 3.0), "more than a sphere's area");
+    }
+
+    #[test]
+    fn wall_estimates_land_near_catalogue_masses() {
+        // Typical catalogue masses (common practice, from memory): 50 L steel at 200 bar
+        // about 55 kg, 11.1 L aluminium at 207 bar about 14 kg.
+        let steel = Construction::Steel.estimated_wall_mass(0.05, 200e5);
+        assert!((steel / 55.0 - 1.0).abs() < 0.2, "{steel}");
+        let al = Construction::Aluminium.estimated_wall_mass(0.0111, 207e5);
+        assert!((al / 14.0 - 1.0).abs() < 0.2, "{al}");
+    }
+}
