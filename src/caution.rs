@@ -150,7 +150,8 @@ pub struct Assessed<T> {
 /// Cautions ordered for printing: highest level first, the deferral last, no duplicates.
 pub fn ordered(mut cautions: Vec<Caution>) -> Vec<Caution> {
     let mut seen = std::collections::HashSet::new();
-    cautions.retain(|c| seen.insert(c.message()));
+    let last = deferral();
+    cautions.retain(|c| *c != last && seen.insert(c.message()));
     cautions.sort_by_key(|c| std::cmp::Reverse(c.level));
     cautions.push(deferral());
     cautions

@@ -7,22 +7,26 @@ use std::io::Write;
 
 use clap::{Args, Parser, Subcommand};
 use uom::si::f64::{
-    AvailableEnergy, Energy, Length, Pressure, ThermodynamicTemperature, Time, Volume,
+    AvailableEnergy, Energy, Length, Mass, Pressure, ThermodynamicTemperature, Time, Volume,
 };
 use uom::si::pressure::pascal;
 
 use std::io::IsTerminal;
 
 use crate::atmosphere;
-use crate::caution::{Caution, Level};
+use crate::caution::{ordered, Caution, Level};
 use crate::gas::{Gas, GasModel, IdealGas, ModelKind, GASES};
+use crate::heat;
 use crate::record;
 use crate::report::{render_pdf, Paper};
 use crate::report::{render_text, to_json, EnergyReport, FillReport, VentReport, Worksheet};
+use crate::report::{FillTransientReport, VentTransientReport};
 use crate::rules::energy::{self, EnergyInput};
 use crate::rules::fill::{self, FillInput};
+use crate::rules::transient::{self, FillRate, HeatTransfer, Wall};
 use crate::rules::vent::{self, Process, VentInput};
 use crate::site::{self, Equipment, EquipmentKind, Site};
+use crate::site::{Construction, Material};
 use crate::source::FileError;
 use crate::template;
 use crate::units::{self, fmt_sig, PressureReading, UnitSystem};
@@ -203,6 +207,37 @@ struct FillArgs {
     /// The cylinder's rated maximum gas temperature (e.g. 65 C).
     #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_temperature)]
     rated_temperature: Option<ThermodynamicTemperature>,
+    /// Planned fill rate, a pressure ramp (25 bar/min, 400 psi/min) or a mass flow (2 kg/min): adds the fill with wall heat transfer and the highest safe rate.
+    #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_rate, conflicts_with = "duration")]
+    rate: Option<units::RateReading>,
+    /// Planned fill duration, as a steady pressure ramp over it (instead of --rate).
+    #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_time)]
+    duration: Option<Time>,
+    #[command(flatten)]
+    wall: WallArgs,
+    /// Cylinder construction (steel means carbon steel; a composite's liner takes the heat).
+    #[arg(long, value_enum, default_value = "steel")]
+    construction: Construction,
+    /// Inlet (fill-connection) bore, for the jet-driven heat-transfer correlation.
+    #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_length)]
+    inlet_diameter: Option<Length>,
+}
+
+/// Options of the wall heat-transfer model, shared by fill and vent.
+#[derive(Debug, Args)]
+struct WallArgs {
+    /// Heat exchanged between gas and wall: lumped (gas and wall nodes) or none (the adiabatic bound).
+    #[arg(long, value_enum)]
+    heat_transfer: Option<HeatTransfer>,
+    /// Mass of the wall [default: estimated from the volume, pressure and material].
+    #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_mass)]
+    wall_mass: Option<Mass>,
+    /// Inner heat-transfer coefficient to use instead of the correlations (e.g. 500 W/m2K).
+    #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_heat_coefficient)]
+    inner_coefficient: Option<f64>,
+    /// Write the transient's time series (t, p, gas and wall temperature) to this CSV file.
+    #[arg(long, value_name = "FILE")]
+    csv: Option<std::path::PathBuf>,
 }
 
 #[derive(Debug, Args)]
@@ -236,6 +271,26 @@ struct VentArgs {
     /// Report the orifice diameter that vents to the target within this time.
     #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_time)]
     within: Option<Time>,
+    #[command(flatten)]
+    wall: WallArgs,
+    /// Wall material, for the wall heat-transfer model.
+    #[arg(long, value_enum, default_value = "carbon-steel")]
+    material: Material,
+    /// Design pressure (MAWP) from the rating plate, for the depressuring check and the wall estimate [default: the starting pressure].
+    #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_pressure)]
+    design_pressure: Option<PressureReading>,
+    /// Check the time to reach the lower of a fraction of the design gauge pressure and a cap, against a limit (in the spirit of API 521).
+    #[arg(long)]
+    depressuring_check: bool,
+    /// The depressuring check's fraction of the design gauge pressure.
+    #[arg(long, value_name = "X", default_value_t = 0.5)]
+    depressuring_fraction: f64,
+    /// The depressuring check's cap on the gauge pressure to reach.
+    #[arg(long, value_name = "Q", default_value = "690 kPa", value_parser = units::parse_overpressure)]
+    depressuring_cap: Pressure,
+    /// The depressuring check's time limit.
+    #[arg(long, value_name = "Q", default_value = "15 min", value_parser = units::parse_time)]
+    depressuring_limit: Time,
 }
 
 #[derive(Debug, Args)]
@@ -733,8 +788,141 @@ fn fill_command(a: FillArgs) -> Result<String, Failure> {
             e
         }
     })?;
-    let report = FillReport::new(model.as_ref(), &input, pa, out);
+    let mut report = FillReport::new(model.as_ref(), &input, pa, out);
+    let rate = match (a.rate, a.duration) {
+        (Some(units::RateReading::Pressure(r)), _) => Some(FillRate::Ramp(r)),
+        (Some(units::RateReading::Mass(m)), _) => Some(FillRate::MassFlow(m)),
+        (None, Some(d)) => {
+            check_range("duration", d.get::<uom::si::time::second>(), "s", 1e-3, 1e7)?;
+            Some(FillRate::Ramp(units::PressureRate {
+                // The pressure gained in one second of a steady ramp over `d`.
+                per_second: (input.to - input.from) / d.get::<uom::si::time::second>(),
+            }))
+        }
+        (None, None) => None,
+    };
+    if let Some(rate) = rate {
+        let wall = Wall {
+            mass: a.wall.wall_mass.unwrap_or_else(|| {
+                Mass::new::<uom::si::mass::kilogram>(a.construction.estimated_wall_mass(
+                    input.volume.get::<uom::si::volume::cubic_meter>(),
+                    (input.to - pa).get::<pascal>(),
+                ))
+            }),
+            material: a.construction.heat_material(),
+            estimated: a.wall.wall_mass.is_none(),
+        };
+        let exchange = exchange(
+            &a.wall,
+            wall,
+            input.ambient_temperature,
+            heat::CYLINDER_ASPECT,
+        )?;
+        if let Some(d) = a.inlet_diameter {
+            check_range(
+                "inlet-diameter",
+                d.get::<uom::si::length::meter>(),
+                "m",
+                1e-4,
+                0.1,
+            )?;
+        }
+        let rate_si = match rate {
+            FillRate::Ramp(r) => r.per_second.get::<pascal>(),
+            FillRate::MassFlow(m) => m.get::<uom::si::mass_rate::kilogram_per_second>(),
+        };
+        check_range("rate", rate_si, "SI units per second", 1e-9, 1e9)?;
+        let initial = model
+            .state_pt(input.from, input.initial_temperature)
+            .map_err(|e| InputError::new("from", "(given)", e.to_string()))?;
+        let supply = model
+            .state_pt(input.to, input.supply_temperature)
+            .map_err(|e| InputError::new("supply-temperature", "(given)", e.to_string()))?;
+        let t = transient::fill(
+            model.as_ref(),
+            input.volume,
+            &initial,
+            &supply,
+            input.to,
+            rate,
+            a.inlet_diameter,
+            input.rated_temperature,
+            &exchange,
+        )?;
+        let t_report =
+            FillTransientReport::new(&t.value, rate, input.rated_temperature, exchange.mode);
+        if let Some(path) = &a.wall.csv {
+            write_csv(path, &t_report.samples)?;
+        }
+        report.cautions.extend(t.cautions);
+        report.cautions = ordered(std::mem::take(&mut report.cautions));
+        report.transient = Some(t_report);
+    }
     render(&report, a.common.json, a.common.units)
+}
+
+/// The heat-transfer settings from the wall options, checked.
+fn exchange(
+    w: &WallArgs,
+    wall: Wall,
+    ambient_temperature: ThermodynamicTemperature,
+    aspect: f64,
+) -> Result<transient::Exchange, InputError> {
+    check_range(
+        "wall-mass",
+        wall.mass.get::<uom::si::mass::kilogram>(),
+        "kg",
+        0.0,
+        1e7,
+    )?;
+    if let Some(h) = w.inner_coefficient {
+        check_range("inner-coefficient", h, "W/m2K", 1e-6, 1e7)?;
+    }
+    Ok(transient::Exchange {
+        mode: w.heat_transfer.unwrap_or(HeatTransfer::Lumped),
+        wall,
+        inner_coefficient: w.inner_coefficient,
+        ambient_temperature,
+        aspect,
+    })
+}
+
+/// Refuses `value` outside (lo, hi].
+fn check_range(field: &str, value: f64, unit: &str, lo: f64, hi: f64) -> Result<(), InputError> {
+    if value.is_finite() && value > lo && value <= hi {
+        Ok(())
+    } else {
+        Err(InputError::new(
+            field,
+            format!("{value} {unit}"),
+            format!("outside the range accepted; accepted: above {lo} and at most {hi} {unit}"),
+        ))
+    }
+}
+
+/// Writes a transient's samples as CSV, never over an existing file.
+fn write_csv(path: &std::path::Path, samples: &[transient::Sample]) -> Result<(), Failure> {
+    use uom::si::thermodynamic_temperature::kelvin;
+    let mut text = String::from("time_s,pressure_pa,gas_temperature_k,wall_temperature_k\n");
+    for s in samples {
+        text.push_str(&format!(
+            "{},{},{},{}\n",
+            s.time.get::<uom::si::time::second>(),
+            s.pressure.get::<pascal>(),
+            s.gas_temperature.get::<kelvin>(),
+            s.wall_temperature.get::<kelvin>()
+        ));
+    }
+    let files = record::Files {
+        files: vec![(path.to_path_buf(), text.as_bytes())],
+    };
+    files.write(false).map(|_| ()).map_err(|e| match e {
+        record::RecordError::Exists(p) => Failure::Exists(format!(
+            "{} already exists; the CSV is not written over an existing file: choose another --csv path",
+            p.display()
+        )),
+        other => Failure::Internal(other.to_string()),
+    })
 }
 
 fn vent_command(a: VentArgs) -> Result<String, Failure> {
@@ -757,7 +945,76 @@ fn vent_command(a: VentArgs) -> Result<String, Failure> {
         within: a.within,
     };
     let out = vent::blow_down(model.as_ref(), &input)?;
-    let report = VentReport::new(model.as_ref(), &input, out);
+    let mut report = VentReport::new(model.as_ref(), &input, out);
+    if a.wall.heat_transfer.is_some() || a.depressuring_check {
+        let Some(orifice) = input.orifice else {
+            return Err(InputError::new(
+                "orifice",
+                "(none)",
+                "the vent with wall heat transfer and the depressuring check need the orifice diameter",
+            )
+            .into());
+        };
+        let design = match a.design_pressure {
+            Some(r) => absolute("design-pressure", r, pa)?,
+            None => input.pressure,
+        };
+        let design_gauge = (design - pa).get::<pascal>().max(0.0);
+        let wall = Wall {
+            mass: a.wall.wall_mass.unwrap_or_else(|| {
+                Mass::new::<uom::si::mass::kilogram>(a.material.estimated_vessel_wall_mass(
+                    input.volume.get::<uom::si::volume::cubic_meter>(),
+                    design_gauge,
+                ))
+            }),
+            material: a.material,
+            estimated: a.wall.wall_mass.is_none(),
+        };
+        let mut wall_args = a.wall;
+        wall_args.heat_transfer = Some(wall_args.heat_transfer.unwrap_or(HeatTransfer::Lumped));
+        let exchange = exchange(&wall_args, wall, input.temperature, heat::VESSEL_ASPECT)?;
+        let check = if a.depressuring_check {
+            check_range(
+                "depressuring-fraction",
+                a.depressuring_fraction,
+                "",
+                0.0,
+                1.0,
+            )?;
+            let target = Pressure::new::<pascal>(
+                (a.depressuring_fraction * design_gauge).min(a.depressuring_cap.get::<pascal>()),
+            ) + pa;
+            Some(transient::Depressuring {
+                target,
+                limit: a.depressuring_limit,
+            })
+        } else {
+            None
+        };
+        let start = model
+            .state_pt(input.pressure, input.temperature)
+            .map_err(|e| InputError::new("pressure", "(given)", e.to_string()))?;
+        let area =
+            input.cd * std::f64::consts::PI / 4.0 * orifice.get::<uom::si::length::meter>().powi(2);
+        let t = transient::vent(
+            model.as_ref(),
+            input.volume,
+            &start,
+            area,
+            pa,
+            input.down_to,
+            (check, input.min_metal_temperature),
+            &exchange,
+        )?;
+        let (t_report, dep) = VentTransientReport::new(&t.value, check, exchange.mode);
+        if let Some(path) = &wall_args.csv {
+            write_csv(path, &t_report.samples)?;
+        }
+        report.cautions.extend(t.cautions);
+        report.cautions = ordered(std::mem::take(&mut report.cautions));
+        report.transient = Some(t_report);
+        report.depressuring = dep;
+    }
     render(&report, a.common.json, a.common.units)
 }
 

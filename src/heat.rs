@@ -23,6 +23,25 @@ impl Material {
         }
     }
 
+    /// Estimated shell mass of a vessel, kg, from its volume (m³) and design pressure (Pa
+    /// gauge): the membrane-stress mass 2·p·V·ρ/S with the allowable stress S of a typical
+    /// plate (carbon steel SA-516-70 138 MPa, stainless 304 138 MPa, aluminium 5083 60 MPa,
+    /// composite 1.0e-5 kg/(Pa·m³) as for cylinders), plus a minimum thickness for
+    /// low-pressure vessels of 6 mm over the inner area. Common practice, no source; real
+    /// vessels are heavier (nozzles, supports, corrosion allowance), so the estimate errs
+    /// towards a colder wall.
+    pub fn estimated_vessel_wall_mass(self, volume_m3: f64, design_gauge_pa: f64) -> f64 {
+        let (density, stress) = match self {
+            Material::CarbonSteel => (7850.0, 138.0e6),
+            Material::StainlessSteel => (8000.0, 138.0e6),
+            Material::Aluminium => (2700.0, 60.0e6),
+            Material::Composite => return 2.0 * design_gauge_pa.max(0.0) * volume_m3 * 1.0e-5,
+        };
+        let membrane = 2.0 * design_gauge_pa.max(0.0) * volume_m3 * density / stress;
+        let (_, area) = geometry(volume_m3, VESSEL_ASPECT);
+        membrane.max(area * 0.006 * density)
+    }
+
     /// The name used on the command line and in files.
     pub fn name(self) -> &'static str {
         match self {
@@ -148,8 +167,15 @@ mod tests {
     #[test]
     fn geometry_encloses_the_volume() {
         let (d, a) = geometry(0.05, 4.0);
-        assert_relative_eq!(std::f64::consts::PI * d * d / 4.0 * 4.0 * d, 0.05, max_relative = 1e-12);
-        assert!(a > 4.84 * 0.05f64.powf(2.0 / 3.0), "more than a sphere's area");
+        assert_relative_eq!(
+            std::f64::consts::PI * d * d / 4.0 * 4.0 * d,
+            0.05,
+            max_relative = 1e-12
+        );
+        assert!(
+            a > 4.84 * 0.05f64.powf(2.0 / 3.0),
+            "more than a sphere's area"
+        );
     }
 
     #[test]

@@ -132,7 +132,7 @@ pub enum EquipmentKind {
 }
 
 /// Wall materials, with the names used everywhere (site files, command line).
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Deserialize, serde::Serialize)]
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Deserialize, serde::Serialize, clap::ValueEnum)]
 #[serde(rename_all = "kebab-case")]
 pub enum Material {
     /// Carbon steel.
@@ -146,7 +146,7 @@ pub enum Material {
 }
 
 /// Cylinder construction.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Deserialize, serde::Serialize)]
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Deserialize, serde::Serialize, clap::ValueEnum)]
 #[serde(rename_all = "kebab-case")]
 pub enum Construction {
     /// Seamless steel (carbon steel).

@@ -21,9 +21,13 @@ use uom::si::f64::{
 
 use crate::caution::{ordered, Assessed, Caution};
 use crate::gas::{GasModel, ModelKind};
+use crate::heat::InnerBasis;
 use crate::rules::blast::DistanceBasis;
 use crate::rules::energy::{Energies, EnergyInput, EnergyResult};
 use crate::rules::fill::{FillInput, FillResult, FillSample};
+use crate::rules::transient::{
+    Depressuring, FillRate, FillTransient, HeatTransfer, MaxRate, Sample, VentTransient, Wall,
+};
 use crate::rules::vent::{Process, VentInput, VentResult, VentSample};
 
 /// The tool's version, written into every record.
@@ -159,8 +163,159 @@ pub struct FillReport {
     pub fill_to_pressure_pa: Option<Pressure>,
     /// Gas temperature against pressure through the fill.
     pub path: Vec<FillSample>,
+    /// The fill with heat exchanged with the wall, when a rate or duration was given.
+    pub transient: Option<FillTransientReport>,
     /// Cautions, highest first, the deferral last.
     pub cautions: Vec<Caution>,
+}
+
+/// The fill with wall heat transfer.
+#[derive(Debug, Clone, Serialize)]
+pub struct FillTransientReport {
+    /// `lumped` or `none`.
+    pub heat_transfer: HeatTransfer,
+    /// The wall node used.
+    pub wall: Wall,
+    /// How the inner coefficient was found.
+    pub inner_coefficient_basis: InnerBasis,
+    /// The planned pressure ramp, Pa/s (null for a mass-flow fill).
+    pub planned_rate_pa_per_s: Option<Pressure>,
+    /// The planned mass flow, kg/s (null for a pressure-ramp fill).
+    pub planned_mass_flow_kg_per_s: Option<MassRate>,
+    /// Highest gas temperature, K.
+    pub peak_gas_temperature_k: ThermodynamicTemperature,
+    /// Highest wall temperature, K.
+    pub peak_wall_temperature_k: ThermodynamicTemperature,
+    /// Pressure at the end of the fill, Pa(a).
+    pub end_pressure_pa: Pressure,
+    /// Duration of the fill, s.
+    pub fill_time_s: Time,
+    /// Pressure after cooling to ambient, Pa(a).
+    pub settled_pressure_pa: Pressure,
+    /// Stop pressure at the planned rate that settles at the target, Pa(a).
+    pub fill_to_pressure_pa: Option<Pressure>,
+    /// Highest ramp keeping the gas within the rating, Pa/s; null when none is needed or none
+    /// is safe (see `max_rate`).
+    pub max_rate_pa_per_s: Option<Pressure>,
+    /// `ramp` (a finite maximum), `unlimited` (even the adiabatic bound is within the
+    /// rating), `none-safe` (even a day-long fill exceeds it), or null without a rating.
+    pub max_rate: Option<&'static str>,
+    /// Whether the planned fill keeps the gas within the rating (null without a rating).
+    pub go: Option<bool>,
+    /// Energy not accounted for over the run, relative.
+    pub energy_residual: f64,
+    /// The time series.
+    pub samples: Vec<Sample>,
+}
+
+impl FillTransientReport {
+    /// The report of a transient fill run at `rate`.
+    pub fn new(
+        t: &FillTransient,
+        rate: FillRate,
+        rated: Option<ThermodynamicTemperature>,
+        mode: HeatTransfer,
+    ) -> Self {
+        let (planned_rate_pa_per_s, planned_mass_flow_kg_per_s) = match rate {
+            FillRate::Ramp(r) => (Some(r.per_second), None),
+            FillRate::MassFlow(m) => (None, Some(m)),
+        };
+        let (max_rate_pa_per_s, max_rate) = match t.max_rate {
+            None => (None, None),
+            Some(MaxRate::Ramp(r)) => (Some(r.per_second), Some("ramp")),
+            Some(MaxRate::Unlimited) => (None, Some("unlimited")),
+            Some(MaxRate::NoneSafe) => (None, Some("none-safe")),
+        };
+        FillTransientReport {
+            heat_transfer: mode,
+            wall: t.wall,
+            inner_coefficient_basis: t.run.basis,
+            planned_rate_pa_per_s,
+            planned_mass_flow_kg_per_s,
+            peak_gas_temperature_k: t.run.peak_gas(),
+            peak_wall_temperature_k: t.run.peak_wall(),
+            end_pressure_pa: t.run.end.pressure,
+            fill_time_s: t.run.duration(),
+            settled_pressure_pa: t.settled_pressure,
+            fill_to_pressure_pa: t.fill_to_pressure,
+            max_rate_pa_per_s,
+            max_rate,
+            go: rated.map(|r| t.run.peak_gas() <= r),
+            energy_residual: t.run.energy_residual,
+            samples: t.run.samples.clone(),
+        }
+    }
+
+    /// The transient's results, with methods.
+    pub fn result_entries(&self) -> Vec<Entry> {
+        let method = "lumped gas and wall, first law, adaptive integration";
+        let mut out = Vec::new();
+        if let Some(go) = self.go {
+            out.push(result(
+                "Go / no-go at the planned rate",
+                Value::Text(
+                    if go {
+                        "GO: the gas stays within the rating"
+                    } else {
+                        "NO-GO: the gas exceeds the rating"
+                    }
+                    .to_string(),
+                ),
+                "peak gas temperature with wall heat transfer against the rated temperature",
+            ));
+        }
+        out.push(result(
+            "Peak gas temperature",
+            Value::Temperature(self.peak_gas_temperature_k),
+            method,
+        ));
+        out.push(result(
+            "Peak wall temperature",
+            Value::Temperature(self.peak_wall_temperature_k),
+            method,
+        ));
+        out.push(result("Fill time", Value::Time(self.fill_time_s), method));
+        out.push(result(
+            "Settled pressure at ambient",
+            Value::Pressure(self.settled_pressure_pa),
+            "constant mass, cooled to ambient",
+        ));
+        if let Some(p) = self.fill_to_pressure_pa {
+            out.push(result(
+                "Fill to (settles at target)",
+                Value::Pressure(p),
+                "stop pressure at the planned rate whose mass settles at the target",
+            ));
+        }
+        let max = match (self.max_rate, self.max_rate_pa_per_s) {
+            (Some("ramp"), Some(r)) => Some(Value::Text(rate_text(r))),
+            (Some("unlimited"), _) => Some(Value::Text(
+                "no limit: even the adiabatic bound stays within the rating".to_string(),
+            )),
+            (Some(_), _) => Some(Value::Text(
+                "none: even a day-long fill exceeds the rating".to_string(),
+            )),
+            (None, _) => None,
+        };
+        if let Some(v) = max {
+            out.push(result(
+                "Highest fill rate within the rating",
+                v,
+                "the ramp whose peak gas temperature equals the rating, solved on the model",
+            ));
+        }
+        out
+    }
+}
+
+/// A pressure ramp as text in both systems.
+fn rate_text(per_second: Pressure) -> String {
+    let pa_s = per_second.get::<uom::si::pressure::pascal>();
+    format!(
+        "{} bar/min ({} psi/min)",
+        crate::units::fmt_sig(pa_s * 60.0 / 1e5, 3),
+        crate::units::fmt_sig(pa_s * 60.0 / crate::units::PA_PER_PSI, 3)
+    )
 }
 
 /// The fill command's inputs as used.
@@ -214,6 +369,7 @@ impl FillReport {
             settled_pressure_pa: r.settled_pressure,
             fill_to_pressure_pa: r.fill_to_pressure,
             path: r.path,
+            transient: None,
             cautions: ordered(out.cautions),
         }
     }
@@ -246,8 +402,107 @@ pub struct VentReport {
     pub required_orifice_m: Option<Length>,
     /// Pressure and gas temperature against time through the given orifice.
     pub history: Vec<VentSample>,
+    /// The vent with heat from the wall, when asked for.
+    pub transient: Option<VentTransientReport>,
+    /// The depressuring check, when asked for.
+    pub depressuring: Option<DepressuringReport>,
     /// Cautions, highest first, the deferral last.
     pub cautions: Vec<Caution>,
+}
+
+/// The vent with wall heat transfer.
+#[derive(Debug, Clone, Serialize)]
+pub struct VentTransientReport {
+    /// `lumped` or `none`.
+    pub heat_transfer: HeatTransfer,
+    /// The wall node used.
+    pub wall: Wall,
+    /// How the inner coefficient was found.
+    pub inner_coefficient_basis: InnerBasis,
+    /// Time to the target, s.
+    pub time_s: Time,
+    /// Lowest gas temperature, K.
+    pub min_gas_temperature_k: ThermodynamicTemperature,
+    /// Lowest wall temperature, K.
+    pub min_wall_temperature_k: ThermodynamicTemperature,
+    /// Energy not accounted for over the run, relative.
+    pub energy_residual: f64,
+    /// The time series.
+    pub samples: Vec<Sample>,
+}
+
+/// The depressuring check's outcome.
+#[derive(Debug, Clone, Copy, Serialize)]
+pub struct DepressuringReport {
+    /// The pressure to reach, Pa(a).
+    pub target_pressure_pa: Pressure,
+    /// The time taken, s (null if never reached).
+    pub time_s: Option<Time>,
+    /// The time allowed, s.
+    pub limit_s: Time,
+    /// Whether it is reached in time.
+    pub meets: bool,
+}
+
+impl VentTransientReport {
+    /// The report of a transient vent and its depressuring check.
+    pub fn new(
+        t: &VentTransient,
+        check: Option<Depressuring>,
+        mode: HeatTransfer,
+    ) -> (Self, Option<DepressuringReport>) {
+        let report = VentTransientReport {
+            heat_transfer: mode,
+            wall: t.wall,
+            inner_coefficient_basis: t.run.basis,
+            time_s: t.run.duration(),
+            min_gas_temperature_k: t.run.min_gas(),
+            min_wall_temperature_k: t.run.min_wall(),
+            energy_residual: t.run.energy_residual,
+            samples: t.run.samples.clone(),
+        };
+        let dep = check.map(|c| DepressuringReport {
+            target_pressure_pa: c.target,
+            time_s: t.depressuring_time,
+            limit_s: c.limit,
+            meets: t.depressuring_time.is_some_and(|x| x <= c.limit),
+        });
+        (report, dep)
+    }
+
+    /// The transient's results, with methods.
+    pub fn result_entries(&self, dep: Option<&DepressuringReport>) -> Vec<Entry> {
+        let method = "lumped gas and wall, first law, adaptive integration";
+        let mut out = vec![
+            result(
+                "Time to target with wall heat",
+                Value::Time(self.time_s),
+                method,
+            ),
+            result(
+                "Lowest gas temperature",
+                Value::Temperature(self.min_gas_temperature_k),
+                method,
+            ),
+            result(
+                "Lowest wall temperature",
+                Value::Temperature(self.min_wall_temperature_k),
+                method,
+            ),
+        ];
+        if let Some(d) = dep {
+            out.push(result(
+                "Depressuring check",
+                Value::Text(match (d.meets, d.time_s) {
+                    (true, Some(t)) => format!("met: {} s to the check pressure", crate::units::fmt_sig(t.get::<uom::si::time::second>(), 3)),
+                    (false, Some(t)) => format!("NOT met: {} s to the check pressure", crate::units::fmt_sig(t.get::<uom::si::time::second>(), 3)),
+                    (_, None) => "NOT met: the check pressure is not reached".to_string(),
+                }),
+                "lower of 50 % of design gauge and 690 kPa(g) within 15 min, in the spirit of API 521",
+            ));
+        }
+        out
+    }
 }
 
 /// The vent command's inputs as used.
@@ -303,6 +558,8 @@ impl VentReport {
             initial_mass_flow_kg_per_s: r.initial_mass_flow,
             required_orifice_m: r.required_orifice,
             history: r.history,
+            transient: None,
+            depressuring: None,
             cautions: ordered(out.cautions),
         }
     }
@@ -515,7 +772,10 @@ impl From<&FillReport> for Worksheet {
             i.rated_temperature_k
                 .map(|t| entry("Rated temperature", Value::Temperature(t))),
         );
-        let results = r.result_entries();
+        let mut results = r.result_entries();
+        if let Some(t) = &r.transient {
+            results.extend(t.result_entries());
+        }
         Worksheet {
             title: format!("Fill check — {}, {} gas model", r.gas, r.model.name()),
             ambient: i.ambient_pressure_pa,
@@ -592,7 +852,10 @@ impl From<&VentReport> for Worksheet {
                 .map(|t| entry("MDMT", Value::Temperature(t))),
         );
         inputs.extend(i.within_s.map(|t| entry("Required within", Value::Time(t))));
-        let results = r.result_entries();
+        let mut results = r.result_entries();
+        if let Some(t) = &r.transient {
+            results.extend(t.result_entries(r.depressuring.as_ref()));
+        }
         Worksheet {
             title: format!("Vent-down — {}, {} gas model", r.gas, r.model.name()),
             ambient: i.ambient_pressure_pa,

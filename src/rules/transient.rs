@@ -8,8 +8,8 @@
 
 use serde::Serialize;
 use uom::si::f64::{
-    AvailableEnergy, Length, Mass, MassDensity, MassRate, Pressure, ThermodynamicTemperature,
-    Time, Volume,
+    AvailableEnergy, Length, Mass, MassDensity, MassRate, Pressure, ThermodynamicTemperature, Time,
+    Volume,
 };
 use uom::si::{
     available_energy::joule_per_kilogram, length::meter, mass::kilogram,
@@ -18,11 +18,13 @@ use uom::si::{
     time::second, volume::cubic_meter,
 };
 
+use crate::caution::{Assessed, Caution, Level};
 use crate::gas::{GasModel, State};
 use crate::heat::{self, Film, InnerBasis};
 use crate::site::Material;
 use crate::solve::ode::{self, Options};
 use crate::units::PressureRate;
+use crate::units::Value;
 use crate::InputError;
 
 /// Whether heat passes between the gas and the wall.
@@ -120,7 +122,9 @@ impl Run {
     }
     /// The run's duration.
     pub fn duration(&self) -> Time {
-        self.samples.last().map_or(Time::new::<second>(0.0), |s| s.time)
+        self.samples
+            .last()
+            .map_or(Time::new::<second>(0.0), |s| s.time)
     }
 }
 
@@ -131,7 +135,10 @@ fn fold(
 ) -> ThermodynamicTemperature {
     let first = samples.first().map_or(0.0, |s| get(s).get::<kelvin>());
     ThermodynamicTemperature::new::<kelvin>(
-        samples.iter().map(|s| get(s).get::<kelvin>()).fold(first, pick),
+        samples
+            .iter()
+            .map(|s| get(s).get::<kelvin>())
+            .fold(first, pick),
     )
 }
 
@@ -144,7 +151,13 @@ struct Setup<'a> {
     wall_capacity: f64,
     ambient: f64,
     exchange: &'a Exchange,
+    /// Relative tolerance per step of the integration.
+    rtol: f64,
 }
+
+/// The integration's relative tolerance per step: results change by less than 1e-6 when it
+/// is tightened a hundredfold (see the tests).
+const RTOL: f64 = 1e-9;
 
 impl<'a> Setup<'a> {
     fn new(model: &'a dyn GasModel, volume: Volume, exchange: &'a Exchange) -> Setup<'a> {
@@ -159,6 +172,7 @@ impl<'a> Setup<'a> {
                 * exchange.wall.material.specific_heat(),
             ambient: exchange.ambient_temperature.get::<kelvin>(),
             exchange,
+            rtol: RTOL,
         }
     }
 
@@ -177,7 +191,10 @@ impl<'a> Setup<'a> {
         let t = st.temperature.get::<kelvin>();
         let cp = self
             .model
-            .state_pt(st.pressure, ThermodynamicTemperature::new::<kelvin>(t * 1.0005))
+            .state_pt(
+                st.pressure,
+                ThermodynamicTemperature::new::<kelvin>(t * 1.0005),
+            )
             .ok()
             .map_or(1000.0, |up| {
                 (self.model.enthalpy(&up) - self.model.enthalpy(st)).get::<joule_per_kilogram>()
@@ -193,7 +210,12 @@ impl<'a> Setup<'a> {
     }
 
     /// (inner coefficient W/(m²·K), outer coefficient, basis) for the gas at `st`.
-    fn coefficients(&self, st: &State, wall_t: f64, fill_flow: Option<(f64, f64)>) -> (f64, f64, InnerBasis) {
+    fn coefficients(
+        &self,
+        st: &State,
+        wall_t: f64,
+        fill_flow: Option<(f64, f64)>,
+    ) -> (f64, f64, InnerBasis) {
         if self.exchange.mode == HeatTransfer::None {
             return (0.0, 0.0, InnerBasis::Given);
         }
@@ -260,10 +282,10 @@ fn model_failure(what: &str) -> InputError {
     )
 }
 
-fn options(duration: f64) -> Options {
+fn options(duration: f64, rtol: f64) -> Options {
     Options {
-        rtol: 1e-9,
-        atol: 1e-9,
+        rtol,
+        atol: rtol,
         max_step: duration / 50.0,
         max_steps: 200_000,
     }
@@ -281,7 +303,11 @@ fn fill_run(
     inlet: f64,
 ) -> Result<Run, InputError> {
     let m0 = initial.density.get::<kilogram_per_cubic_meter>() * setup.volume;
-    let u0 = setup.model.internal_energy(initial).get::<joule_per_kilogram>() * m0;
+    let u0 = setup
+        .model
+        .internal_energy(initial)
+        .get::<joule_per_kilogram>()
+        * m0;
     let p0 = initial.pressure.get::<pascal>();
     let mut basis = InnerBasis::FillConstant;
     let flow_at = |y: &[f64], q: f64| -> Option<f64> {
@@ -344,14 +370,27 @@ fn fill_run(
         }
     };
     let y0 = [m0, u0, wall_t0, 0.0, 0.0];
-    let scale = [m0.max(1e-6), u0.abs().max(1.0), wall_t0, u0.abs().max(1.0), u0.abs().max(1.0)];
+    let scale = [
+        m0.max(1e-6),
+        u0.abs().max(1.0),
+        wall_t0,
+        u0.abs().max(1.0),
+        u0.abs().max(1.0),
+    ];
     let event = |_: f64, y: &[f64]| {
         setup
             .gas(y[0], y[1])
             .map_or(-1.0, |s| to - s.pressure.get::<pascal>())
     };
-    let run = ode::integrate(rhs, (0.0, &y0), 3.0 * nominal.max(1e-3), event, &scale, &options(nominal.max(1e-3)))
-        .map_err(|e| model_failure(&e.to_string()))?;
+    let run = ode::integrate(
+        rhs,
+        (0.0, &y0),
+        3.0 * nominal.max(1e-3),
+        event,
+        &scale,
+        &options(nominal.max(1e-3), setup.rtol),
+    )
+    .map_err(|e| model_failure(&e.to_string()))?;
     if !run.stopped_at_event {
         return Err(InputError::new(
             "rate",
@@ -369,6 +408,8 @@ pub struct FillTransient {
     pub run: Run,
     /// Pressure once the gas has cooled to ambient at constant mass.
     pub settled_pressure: Pressure,
+    /// Stop pressure at the planned rate that settles at the target, if one is found.
+    pub fill_to_pressure: Option<Pressure>,
     /// The highest pressure-ramp rate that keeps the gas at or below the rated temperature,
     /// if a rating was given.
     pub max_rate: Option<MaxRate>,
@@ -400,7 +441,7 @@ pub fn fill(
     inlet_diameter: Option<Length>,
     rated: Option<ThermodynamicTemperature>,
     exchange: &Exchange,
-) -> Result<FillTransient, InputError> {
+) -> Result<Assessed<FillTransient>, InputError> {
     let setup = Setup::new(model, volume, exchange);
     let h_in = model.enthalpy(supply).get::<joule_per_kilogram>();
     let inlet = inlet_diameter.map_or(0.0, |d| d.get::<meter>());
@@ -428,20 +469,54 @@ pub fn fill(
         } else if excess(slow) > 0.0 {
             MaxRate::NoneSafe
         } else {
-            crate::solve::root(|ln_r| excess(ln_r.exp()), slow.ln(), fast.ln(), 1e-7)
-                .map_or(MaxRate::NoneSafe, |ln_r| {
+            crate::solve::root(|ln_r| excess(ln_r.exp()), slow.ln(), fast.ln(), 1e-7).map_or(
+                MaxRate::NoneSafe,
+                |ln_r| {
                     MaxRate::Ramp(PressureRate {
                         per_second: Pressure::new::<pascal>(ln_r.exp()),
                     })
-                })
+                },
+            )
         }
     });
-    Ok(FillTransient {
+    // The stop pressure whose mass, cooled to ambient, settles at the target.
+    let target_density = model
+        .state_pt(to, exchange.ambient_temperature)
+        .map_err(|e| model_failure(&e.to_string()))?
+        .density
+        .get::<kilogram_per_cubic_meter>();
+    let gap = |p_stop: f64| {
+        fill_run(&setup, initial, wall_t0, h_in, p_stop, rate, inlet)
+            .map(|r| r.end.density.get::<kilogram_per_cubic_meter>() / target_density - 1.0)
+            .unwrap_or(f64::NAN)
+    };
+    let fill_to_pressure = crate::solve::root(gap, to_pa * 0.8, to_pa * 1.6, to_pa * 1e-9)
+        .ok()
+        .map(Pressure::new::<pascal>);
+    let result = FillTransient {
         run,
         settled_pressure: settled,
+        fill_to_pressure,
         max_rate,
         wall: exchange.wall,
+    };
+    let cautions = fill_cautions(&result, rated, exchange);
+    Ok(Assessed {
+        value: result,
+        cautions,
     })
+}
+
+/// A depressuring check in the spirit of API 521: reach a pressure within a time.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct Depressuring {
+    /// The pressure to reach, absolute: the lower of a fraction of the design gauge
+    /// pressure and a cap (50 % and 690 kPa(g) by default).
+    #[serde(rename = "target_pressure_pa")]
+    pub target: Pressure,
+    /// The time allowed (15 min by default).
+    #[serde(rename = "limit_s")]
+    pub limit: Time,
 }
 
 /// A vent with heat from the wall.
@@ -465,16 +540,19 @@ pub fn vent(
     effective_area_m2: f64,
     ambient: Pressure,
     down_to: Pressure,
-    check: Option<Pressure>,
+    (check, mdmt): (Option<Depressuring>, Option<ThermodynamicTemperature>),
     exchange: &Exchange,
-) -> Result<VentTransient, InputError> {
+) -> Result<Assessed<VentTransient>, InputError> {
     let setup = Setup::new(model, volume, exchange);
     let m0 = start.density.get::<kilogram_per_cubic_meter>() * setup.volume;
     let u0 = model.internal_energy(start).get::<joule_per_kilogram>() * m0;
     let wall_t0 = start.temperature.get::<kelvin>();
     let rhs = |_: f64, y: &[f64]| -> Option<Vec<f64>> {
         let st = setup.gas(y[0], y[1])?;
-        let flow = model.nozzle(&st, ambient).mass_flux.get::<kilogram_per_square_meter_second>()
+        let flow = model
+            .nozzle(&st, ambient)
+            .mass_flux
+            .get::<kilogram_per_square_meter_second>()
             * effective_area_m2;
         let h = model.enthalpy(&st).get::<joule_per_kilogram>();
         let (h_i, h_o, _) = setup.coefficients(&st, y[2], None);
@@ -489,11 +567,20 @@ pub fn vent(
     };
     let basis = setup.coefficients(start, wall_t0, None).2;
     // Time scale: the isothermal choked time constant V/(Cd·A·√(R·T)) times a few.
-    let flux0 = model.nozzle(start, ambient).mass_flux.get::<kilogram_per_square_meter_second>();
+    let flux0 = model
+        .nozzle(start, ambient)
+        .mass_flux
+        .get::<kilogram_per_square_meter_second>();
     let tau = m0 / (flux0 * effective_area_m2).max(1e-30);
     let horizon = 50.0 * tau.max(1e-3);
     let y0 = [m0, u0, wall_t0, 0.0, 0.0];
-    let scale = [m0, u0.abs().max(1.0), wall_t0, u0.abs().max(1.0), u0.abs().max(1.0)];
+    let scale = [
+        m0,
+        u0.abs().max(1.0),
+        wall_t0,
+        u0.abs().max(1.0),
+        u0.abs().max(1.0),
+    ];
     let setup = &setup;
     let until = |p_end: f64| {
         move |_: f64, y: &[f64]| {
@@ -502,9 +589,16 @@ pub fn vent(
                 .map_or(-1.0, |s| s.pressure.get::<pascal>() - p_end)
         }
     };
-    let opts = options(tau.max(1e-3));
-    let run = ode::integrate(rhs, (0.0, &y0), horizon, until(down_to.get::<pascal>()), &scale, &opts)
-        .map_err(|e| model_failure(&e.to_string()))?;
+    let opts = options(tau.max(1e-3), setup.rtol);
+    let run = ode::integrate(
+        rhs,
+        (0.0, &y0),
+        horizon,
+        until(down_to.get::<pascal>()),
+        &scale,
+        &opts,
+    )
+    .map_err(|e| model_failure(&e.to_string()))?;
     if !run.stopped_at_event {
         return Err(InputError::new(
             "down-to",
@@ -512,18 +606,385 @@ pub fn vent(
             "the vent does not reach the target in a reasonable time; accepted: a target above ambient",
         ));
     }
-    let depressuring_time = match check {
-        Some(p) if p < start.pressure => ode::integrate(rhs, (0.0, &y0), horizon, until(p.get::<pascal>()), &scale, &opts)
-            .ok()
-            .filter(|r| r.stopped_at_event)
-            .and_then(|r| r.t.last().copied())
-            .map(Time::new::<second>),
+    let depressuring_time = match check.map(|c| c.target) {
+        Some(p) if p < start.pressure => ode::integrate(
+            rhs,
+            (0.0, &y0),
+            horizon,
+            until(p.get::<pascal>()),
+            &scale,
+            &opts,
+        )
+        .ok()
+        .filter(|r| r.stopped_at_event)
+        .and_then(|r| r.t.last().copied())
+        .map(Time::new::<second>),
         Some(_) => Some(Time::new::<second>(0.0)),
         None => None,
     };
-    Ok(VentTransient {
+    let result = VentTransient {
         run: setup.finish(run, basis)?,
         depressuring_time,
         wall: exchange.wall,
+    };
+    let cautions = vent_cautions(&result, check, mdmt, exchange);
+    Ok(Assessed {
+        value: result,
+        cautions,
     })
+}
+
+/// Where the inner coefficient came from, and the wall, in words for the output.
+fn model_notice(basis: InnerBasis, exchange: &Exchange) -> Vec<Caution> {
+    if exchange.mode == HeatTransfer::None {
+        return vec![Caution::new(
+            Level::Notice,
+            "Heat transfer: none. The gas exchanges no heat with the wall (the adiabatic bound).",
+        )];
+    }
+    let inner = match basis {
+        InnerBasis::Given => "a coefficient given by the user",
+        InnerBasis::JetCorrelation => "the inlet jet and natural convection, Nu = 0.56·Re_d^0.67 + 0.104·Ra^0.352 (Woodfield, Monde & Takano 2008)",
+        InnerBasis::FillConstant => "500 W/(m²·K) while filling, as measured in fill experiments (Woodfield, Monde & Takano 2008); give --inlet-diameter for the jet correlation",
+        InnerBasis::NaturalConvection => "natural convection in the vessel, Nu = 0.104·Ra^0.352 (Woodfield, Monde & Takano 2008)",
+    };
+    let mut out = vec![crate::caution!(
+        Level::Notice,
+        "Heat transfer: lumped gas and wall (",
+        Value::Mass(exchange.wall.mass),
+        format!(
+            " of {}); inside, {inner}; outside, 4.5 W/(m²·K) to still air. Integrated with an adaptive Dormand–Prince 5(4) scheme; results hold to 1e-6 when the tolerance is tightened.",
+            exchange.wall.material.name()
+        ),
+    )];
+    if exchange.wall.estimated {
+        out.push(Caution::new(
+            Level::Notice,
+            "The wall mass was not given and is estimated from the volume, pressure rating and material by a membrane-stress rule (common practice, no source). Give the real mass from the nameplate or data sheet for a better result.",
+        ));
+    }
+    out
+}
+
+fn fill_cautions(
+    r: &FillTransient,
+    rated: Option<ThermodynamicTemperature>,
+    exchange: &Exchange,
+) -> Vec<Caution> {
+    let mut out = model_notice(r.run.basis, exchange);
+    let peak = r.run.peak_gas();
+    if let Some(rated) = rated {
+        if peak > rated {
+            out.push(crate::caution!(
+                Level::Warning,
+                "At the planned rate the gas peaks at ",
+                Value::Temperature(peak),
+                ", above the rated temperature (",
+                Value::Temperature(rated),
+                "). Fill more slowly or in stages: see the highest safe rate.",
+            ));
+        }
+        if r.max_rate == Some(MaxRate::NoneSafe) {
+            out.push(Caution::new(
+                Level::Warning,
+                "Even a fill over a day exceeds the rated temperature: the supply gas is too hot for this cylinder. Cool the supply.",
+            ));
+        }
+    }
+    out
+}
+
+fn vent_cautions(
+    r: &VentTransient,
+    check: Option<Depressuring>,
+    mdmt: Option<ThermodynamicTemperature>,
+    exchange: &Exchange,
+) -> Vec<Caution> {
+    let mut out = model_notice(r.run.basis, exchange);
+    if let Some(mdmt) = mdmt {
+        let wall = r.run.min_wall();
+        if wall < mdmt {
+            out.push(crate::caution!(
+                Level::Warning,
+                "The wall cools to ",
+                Value::Temperature(wall),
+                ", below the MDMT (",
+                Value::Temperature(mdmt),
+                "): brittle fracture is possible while the vessel is still under pressure. Vent more slowly or in stages, and have an authorised inspector confirm the low-temperature rating.",
+            ));
+        } else if r.run.min_gas() < mdmt {
+            out.push(crate::caution!(
+                Level::Caution,
+                "The gas falls to ",
+                Value::Temperature(r.run.min_gas()),
+                ", below the MDMT, while the wall stays at or above it (lowest ",
+                Value::Temperature(wall),
+                "). Keep to the vent rate assumed here and do not repeat vents back to back.",
+            ));
+        }
+    }
+    if let Some(c) = check {
+        let meets = r.depressuring_time.is_some_and(|t| t <= c.limit);
+        if !meets {
+            out.push(crate::caution!(
+                Level::Warning,
+                "Depressuring check not met: the vessel does not reach ",
+                Value::Pressure(c.target),
+                " within ",
+                Value::Time(c.limit),
+                " through this vent path (the lower of 50 % of the design gauge pressure and 690 kPa(g), in the spirit of API 521). In a fire or emergency the vessel stays pressurised longer than intended; review the vent path with the responsible engineer.",
+            ));
+        }
+    }
+    out
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::gas::{Gas, IdealGas};
+    use crate::rules::fill::{adiabatic_fill, FillInput};
+    use crate::rules::vent::{blow_down, Process, VentInput};
+    use approx::assert_relative_eq;
+
+    fn kelvin_of(t: ThermodynamicTemperature) -> f64 {
+        t.get::<kelvin>()
+    }
+
+    fn k(t: f64) -> ThermodynamicTemperature {
+        ThermodynamicTemperature::new::<kelvin>(t)
+    }
+
+    fn pa(p: f64) -> Pressure {
+        Pressure::new::<pascal>(p)
+    }
+
+    fn exchange(mode: HeatTransfer, wall_kg: f64, inner: Option<f64>) -> Exchange {
+        Exchange {
+            mode,
+            wall: Wall {
+                mass: Mass::new::<kilogram>(wall_kg),
+                material: Material::CarbonSteel,
+                estimated: false,
+            },
+            inner_coefficient: inner,
+            ambient_temperature: k(293.15),
+            aspect: heat::CYLINDER_ASPECT,
+        }
+    }
+
+    fn air() -> IdealGas {
+        IdealGas::new(Gas::find("air").unwrap())
+    }
+
+    fn ramp(bar_per_min: f64) -> FillRate {
+        FillRate::Ramp(PressureRate {
+            per_second: pa(bar_per_min * 1e5 / 60.0),
+        })
+    }
+
+    /// 50 L of air from 20 to 300 bar(a) at 20 °C, supply at 20 °C.
+    fn cylinder_fill(rate: FillRate, ex: &Exchange) -> FillTransient {
+        let model = air();
+        let v = Volume::new::<cubic_meter>(0.05);
+        let initial = model.state_pt(pa(20e5), k(293.15)).unwrap();
+        let supply = model.state_pt(pa(300e5), k(293.15)).unwrap();
+        fill(
+            &model,
+            v,
+            &initial,
+            &supply,
+            pa(300e5),
+            rate,
+            None,
+            Some(k(338.15)),
+            ex,
+        )
+        .unwrap()
+        .value
+    }
+
+    #[test]
+    fn without_heat_transfer_the_fill_is_the_adiabatic_closed_form() {
+        let r = cylinder_fill(ramp(25.0), &exchange(HeatTransfer::None, 60.0, None));
+        let closed = adiabatic_fill(
+            &air(),
+            &FillInput {
+                volume: Volume::new::<cubic_meter>(0.05),
+                from: pa(20e5),
+                to: pa(300e5),
+                initial_temperature: k(293.15),
+                supply_temperature: k(293.15),
+                ambient_temperature: k(293.15),
+                rated_temperature: None,
+            },
+        )
+        .unwrap()
+        .value;
+        assert_relative_eq!(
+            kelvin_of(r.run.peak_gas()),
+            kelvin_of(closed.final_temperature),
+            max_relative = 1e-6
+        );
+        assert_relative_eq!(
+            r.run.end.pressure.get::<pascal>(),
+            300e5,
+            max_relative = 1e-9
+        );
+        // 280 bar at 25 bar/min: 672 s.
+        assert_relative_eq!(r.run.duration().get::<second>(), 672.0, max_relative = 1e-6);
+    }
+
+    #[test]
+    fn energy_is_conserved_over_a_fill_and_a_vent() {
+        let r = cylinder_fill(ramp(25.0), &exchange(HeatTransfer::Lumped, 60.0, None));
+        assert!(r.run.energy_residual < 1e-6, "{}", r.run.energy_residual);
+        let v = receiver_vent(&exchange(HeatTransfer::Lumped, 500.0, None), 0.01);
+        assert!(v.run.energy_residual < 1e-6, "{}", v.run.energy_residual);
+    }
+
+    #[test]
+    fn results_do_not_depend_on_the_step_size() {
+        let model = air();
+        let ex = exchange(HeatTransfer::Lumped, 60.0, None);
+        let v = Volume::new::<cubic_meter>(0.05);
+        let initial = model.state_pt(pa(20e5), k(293.15)).unwrap();
+        let supply = model.state_pt(pa(300e5), k(293.15)).unwrap();
+        let h_in = model.enthalpy(&supply).get::<joule_per_kilogram>();
+        let peak = |rtol: f64| {
+            let mut setup = Setup::new(&model, v, &ex);
+            setup.rtol = rtol;
+            kelvin_of(
+                fill_run(&setup, &initial, 293.15, h_in, 300e5, ramp(25.0), 0.0)
+                    .unwrap()
+                    .peak_gas(),
+            )
+        };
+        assert_relative_eq!(peak(1e-7), peak(1e-11), max_relative = 1e-6);
+    }
+
+    #[test]
+    fn the_wall_lowers_the_peak_and_a_slower_or_heavier_fill_lowers_it_more() {
+        let adiabatic = kelvin_of(
+            cylinder_fill(ramp(25.0), &exchange(HeatTransfer::None, 60.0, None))
+                .run
+                .peak_gas(),
+        );
+        let fast = kelvin_of(
+            cylinder_fill(ramp(100.0), &exchange(HeatTransfer::Lumped, 60.0, None))
+                .run
+                .peak_gas(),
+        );
+        let planned = kelvin_of(
+            cylinder_fill(ramp(25.0), &exchange(HeatTransfer::Lumped, 60.0, None))
+                .run
+                .peak_gas(),
+        );
+        let slow = kelvin_of(
+            cylinder_fill(ramp(5.0), &exchange(HeatTransfer::Lumped, 60.0, None))
+                .run
+                .peak_gas(),
+        );
+        let heavy = kelvin_of(
+            cylinder_fill(ramp(25.0), &exchange(HeatTransfer::Lumped, 200.0, None))
+                .run
+                .peak_gas(),
+        );
+        assert!(
+            adiabatic > fast && fast > planned && planned > slow,
+            "{adiabatic} {fast} {planned} {slow}"
+        );
+        assert!(heavy < planned, "{heavy} {planned}");
+        assert!(slow > 293.15);
+    }
+
+    #[test]
+    fn filling_at_the_maximum_rate_reaches_the_rating() {
+        let ex = exchange(HeatTransfer::Lumped, 60.0, None);
+        let r = cylinder_fill(ramp(25.0), &ex);
+        let Some(MaxRate::Ramp(max)) = r.max_rate else {
+            panic!("expected a finite maximum rate, got {:?}", r.max_rate);
+        };
+        let at_max = cylinder_fill(FillRate::Ramp(max), &ex);
+        assert!((kelvin_of(at_max.run.peak_gas()) - 338.15).abs() < 1.0);
+    }
+
+    /// 2 m³ of air at 10 barg vented through `d` (Cd 1) to 1.01 atm.
+    fn receiver_vent(ex: &Exchange, d: f64) -> VentTransient {
+        let model = air();
+        let start = model.state_pt(pa(11.01325e5), k(293.15)).unwrap();
+        let area = std::f64::consts::PI / 4.0 * d * d;
+        vent(
+            &model,
+            Volume::new::<cubic_meter>(2.0),
+            &start,
+            area,
+            pa(101_325.0),
+            pa(1.01 * 101_325.0),
+            (
+                Some(Depressuring {
+                    target: pa(5e5),
+                    limit: Time::new::<second>(900.0),
+                }),
+                None,
+            ),
+            ex,
+        )
+        .unwrap()
+        .value
+    }
+
+    fn quasi_steady(process: Process, d: f64) -> (f64, f64) {
+        let r = blow_down(
+            &air(),
+            &VentInput {
+                volume: Volume::new::<cubic_meter>(2.0),
+                pressure: pa(11.01325e5),
+                temperature: k(293.15),
+                ambient: pa(101_325.0),
+                orifice: Some(Length::new::<meter>(d)),
+                cd: 1.0,
+                down_to: pa(1.01 * 101_325.0),
+                process,
+                min_metal_temperature: None,
+                within: None,
+            },
+        )
+        .unwrap()
+        .value;
+        (
+            r.time.unwrap().get::<second>(),
+            kelvin_of(r.end.temperature),
+        )
+    }
+
+    #[test]
+    fn without_heat_transfer_the_vent_is_isentropic() {
+        let r = receiver_vent(&exchange(HeatTransfer::None, 500.0, None), 0.01);
+        let (t, end) = quasi_steady(Process::Isentropic, 0.01);
+        assert_relative_eq!(r.run.duration().get::<second>(), t, max_relative = 1e-6);
+        assert_relative_eq!(kelvin_of(r.run.end.temperature), end, max_relative = 1e-6);
+    }
+
+    #[test]
+    fn a_huge_coefficient_and_wall_make_the_vent_isothermal() {
+        let r = receiver_vent(&exchange(HeatTransfer::Lumped, 1.0e7, Some(1.0e5)), 0.01);
+        let (t, _) = quasi_steady(Process::Isothermal, 0.01);
+        assert_relative_eq!(r.run.duration().get::<second>(), t, max_relative = 2e-3);
+        assert!((kelvin_of(r.run.min_gas()) - 293.15).abs() < 0.5);
+    }
+
+    #[test]
+    fn the_coldest_gas_lies_between_the_isentropic_end_and_ambient() {
+        let r = receiver_vent(&exchange(HeatTransfer::Lumped, 500.0, None), 0.01);
+        let (_, isentropic_end) = quasi_steady(Process::Isentropic, 0.01);
+        let min = kelvin_of(r.run.min_gas());
+        assert!(
+            min > isentropic_end && min < 293.15,
+            "{isentropic_end} < {min} < 293.15"
+        );
+        assert!(kelvin_of(r.run.min_wall()) > min);
+        let t = r.depressuring_time.unwrap().get::<second>();
+        assert!(t > 0.0 && t < r.run.duration().get::<second>());
+    }
 }

@@ -64,9 +64,30 @@ const A: [[f64; 6]; 7] = [
     [1.0 / 5.0, 0.0, 0.0, 0.0, 0.0, 0.0],
     [3.0 / 40.0, 9.0 / 40.0, 0.0, 0.0, 0.0, 0.0],
     [44.0 / 45.0, -56.0 / 15.0, 32.0 / 9.0, 0.0, 0.0, 0.0],
-    [19372.0 / 6561.0, -25360.0 / 2187.0, 64448.0 / 6561.0, -212.0 / 729.0, 0.0, 0.0],
-    [9017.0 / 3168.0, -355.0 / 33.0, 46732.0 / 5247.0, 49.0 / 176.0, -5103.0 / 18656.0, 0.0],
-    [35.0 / 384.0, 0.0, 500.0 / 1113.0, 125.0 / 192.0, -2187.0 / 6784.0, 11.0 / 84.0],
+    [
+        19372.0 / 6561.0,
+        -25360.0 / 2187.0,
+        64448.0 / 6561.0,
+        -212.0 / 729.0,
+        0.0,
+        0.0,
+    ],
+    [
+        9017.0 / 3168.0,
+        -355.0 / 33.0,
+        46732.0 / 5247.0,
+        49.0 / 176.0,
+        -5103.0 / 18656.0,
+        0.0,
+    ],
+    [
+        35.0 / 384.0,
+        0.0,
+        500.0 / 1113.0,
+        125.0 / 192.0,
+        -2187.0 / 6784.0,
+        11.0 / 84.0,
+    ],
 ];
 // Fifth-order weights are the last row of A (first same as last); the error weights are
 // the difference between the fifth- and fourth-order solutions.
@@ -173,7 +194,8 @@ pub fn integrate(
                 if gb == 0.0 || (b - a).abs() <= 1e-13 * h {
                     break;
                 }
-                let c = (b - gb * (b - a) / (gb - ga)).clamp(a + 1e-3 * (b - a), b - 1e-3 * (b - a));
+                let c =
+                    (b - gb * (b - a) / (gb - ga)).clamp(a + 1e-3 * (b - a), b - 1e-3 * (b - a));
                 let (gc, yc) = exact(c).ok_or(OdeError::Evaluation(t + c))?;
                 if gc > 0.0 {
                     a = c;
@@ -212,8 +234,20 @@ mod tests {
 
     #[test]
     fn exponential_decay_to_the_tolerance() {
-        let run = integrate(|_, y| Some(vec![-y[0]]), (0.0, &[1.0]), 5.0, never, &[1.0], &Options::default()).unwrap();
-        assert_relative_eq!(run.y.last().unwrap()[0], (-5.0f64).exp(), max_relative = 1e-8);
+        let run = integrate(
+            |_, y| Some(vec![-y[0]]),
+            (0.0, &[1.0]),
+            5.0,
+            never,
+            &[1.0],
+            &Options::default(),
+        )
+        .unwrap();
+        assert_relative_eq!(
+            run.y.last().unwrap()[0],
+            (-5.0f64).exp(),
+            max_relative = 1e-8
+        );
         assert!(!run.stopped_at_event);
     }
 

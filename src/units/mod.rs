@@ -10,9 +10,9 @@ mod parse;
 
 pub use format::{fmt_sig, Display, UnitSystem, Value};
 pub use parse::{
-    parse_energy, parse_length, parse_mass, parse_overpressure, parse_pressure,
-    parse_pressure_rate, parse_specific_energy, parse_temperature, parse_time, parse_volume,
-    PressureRate, PressureReading,
+    parse_energy, parse_heat_coefficient, parse_length, parse_mass, parse_overpressure,
+    parse_pressure, parse_pressure_rate, parse_rate, parse_specific_energy, parse_temperature,
+    parse_time, parse_volume, PressureRate, PressureReading, RateReading,
 };
 
 /// Pascals in one pound-force per square inch (exact, NIST SP 811).

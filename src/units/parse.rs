@@ -4,11 +4,13 @@
 //! the field name (see [`crate::InputError`]).
 
 use uom::si::f64::{
-    AvailableEnergy, Energy, Length, Mass, Pressure, ThermodynamicTemperature, Time, Volume,
+    AvailableEnergy, Energy, Length, Mass, MassRate, Pressure, ThermodynamicTemperature, Time,
+    Volume,
 };
 use uom::si::{
     available_energy::joule_per_kilogram, energy::joule, length::meter, mass::kilogram,
-    pressure::pascal, thermodynamic_temperature::kelvin, time::second, volume::cubic_meter,
+    mass_rate::kilogram_per_second, pressure::pascal, thermodynamic_temperature::kelvin,
+    time::second, volume::cubic_meter,
 };
 
 use super::{J_PER_BTU, J_PER_CAL, J_PER_FT_LBF, KG_PER_LB, M3_PER_US_GAL, M_PER_FT, PA_PER_PSI};
@@ -237,6 +239,60 @@ pub fn parse_pressure_rate(text: &str) -> Result<PressureRate, String> {
     Ok(PressureRate {
         per_second: Pressure::new::<pascal>(value * factor / per),
     })
+}
+
+/// A fill rate as given: a pressure ramp or a mass flow.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum RateReading {
+    /// `25 bar/min`, `400 psi/min`.
+    Pressure(PressureRate),
+    /// `2 kg/min`, `5 g/s`, `10 lb/min`.
+    Mass(MassRate),
+}
+
+/// Parses a fill rate: a pressure ramp (`25 bar/min`, `400 psi/min`) or a mass flow
+/// (`2 kg/min`, `5 g/s`, `10 lb/min`).
+pub fn parse_rate(text: &str) -> Result<RateReading, String> {
+    if let Ok(r) = parse_pressure_rate(text) {
+        return Ok(RateReading::Pressure(r));
+    }
+    const UNITS: &[(&[&str], f64)] = &[
+        (&["kg/s"], 1.0),
+        (&["kg/min"], 1.0 / 60.0),
+        (&["kg/h", "kg/hr"], 1.0 / 3600.0),
+        (&["g/s"], 1.0e-3),
+        (&["g/min"], 1.0e-3 / 60.0),
+        (&["lb/s"], KG_PER_LB),
+        (&["lb/min"], KG_PER_LB / 60.0),
+        (&["lb/h", "lb/hr"], KG_PER_LB / 3600.0),
+    ];
+    let f = lookup(text, UNITS, "a fill rate", "accepted: a pressure ramp such as '25 bar/min' or '400 psi/min', or a mass flow such as '2 kg/min' or '5 g/s'")?;
+    Ok(RateReading::Mass(MassRate::new::<kilogram_per_second>(f)))
+}
+
+/// Parses a heat-transfer coefficient: `500 W/m2K`, `88 BTU/(h ft2 F)`.
+pub fn parse_heat_coefficient(text: &str) -> Result<f64, String> {
+    const UNITS: &[(&[&str], f64)] = &[
+        (
+            &[
+                "w/m2k",
+                "w/(m2k)",
+                "w/m2/k",
+                "w/(m2·k)",
+                "w/m²k",
+                "w/(m²·k)",
+                "w/(m²k)",
+            ],
+            1.0,
+        ),
+        (&["btu/(hft2f)", "btu/hft2f", "btu/h/ft2/f"], 5.678_263_34),
+    ];
+    lookup(
+        text,
+        UNITS,
+        "a heat-transfer coefficient",
+        "accepted: W/m2K or BTU/(h ft2 F), e.g. '500 W/m2K'",
+    )
 }
 
 /// Parses a duration: `90 s`, `15 min`, `2 h`.
@@ -510,6 +566,20 @@ mod tests {
             parse_mass("1150 lb").unwrap().get::<kilogram>(),
             1150.0 * 0.45359237
         );
+    }
+
+    #[test]
+    fn fill_rates_and_coefficients() {
+        assert!(matches!(
+            parse_rate("25 bar/min").unwrap(),
+            RateReading::Pressure(_)
+        ));
+        match parse_rate("2 kg/min").unwrap() {
+            RateReading::Mass(m) => assert_relative_eq!(m.get::<kilogram_per_second>(), 2.0 / 60.0),
+            other => panic!("{other:?}"),
+        }
+        assert!(parse_rate("2 L/min").is_err());
+        assert_relative_eq!(parse_heat_coefficient("500 W/m2K").unwrap(), 500.0);
     }
 
     #[test]
