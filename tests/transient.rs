@@ -1,0 +1,162 @@
+//! The fill and vent with wall heat transfer, through the command line.
+
+use assert_cmd::Command;
+use serde_json::Value;
+
+fn run(args: &[&str]) -> Value {
+    let out = Command::cargo_bin("pvhazard")
+        .unwrap()
+        .args(args)
+        .arg("--json")
+        .assert()
+        .success()
+        .get_output()
+        .stdout
+        .clone();
+    serde_json::from_slice(&out).unwrap()
+}
+
+fn num(v: &Value, path: &str) -> f64 {
+    path.split('.')
+        .fold(v, |v, k| &v[k])
+        .as_f64()
+        .unwrap_or_else(|| panic!("{path} is not a number in {v}"))
+}
+
+const FILL: [&str; 12] = [
+    "fill", "--gas", "air", "--volume", "50 L", "--from", "20 bara", "--to", "300 bara",
+    "--rated-temperature", "65 C", "--wall-mass=60 kg",
+];
+
+fn fill(extra: &[&str]) -> Value {
+    let args: Vec<&str> = FILL.iter().copied().chain(extra.iter().copied()).collect();
+    run(&args)
+}
+
+#[test]
+fn a_planned_rate_adds_the_transient_with_its_contract_fields() {
+    let v = fill(&["--rate", "25 bar/min"]);
+    let t = &v["transient"];
+    for key in [
+        "peak_gas_temperature_k",
+        "peak_wall_temperature_k",
+        "end_pressure_pa",
+        "settled_pressure_pa",
+        "max_rate_pa_per_s",
+    ] {
+        assert!(t[key].as_f64().is_some_and(f64::is_finite), "{key}: {t}");
+    }
+    let samples = t["samples"].as_array().unwrap();
+    assert!(samples.len() > 10);
+    assert!(t["energy_residual"].as_f64().unwrap() < 1e-6);
+    // The wall takes heat: the peak lies between the supply and the adiabatic bound.
+    let peak = num(t, "peak_gas_temperature_k");
+    assert!(peak > 293.15 && peak < num(&v, "final_temperature_k"));
+    assert!((num(t, "end_pressure_pa") / 300e5 - 1.0).abs() < 1e-6);
+}
+
+#[test]
+fn without_heat_transfer_the_transient_is_the_adiabatic_fill() {
+    let v = fill(&["--rate", "25 bar/min", "--heat-transfer", "none"]);
+    let peak = num(&v["transient"], "peak_gas_temperature_k");
+    assert!((peak / num(&v, "final_temperature_k") - 1.0).abs() < 1e-6);
+}
+
+#[test]
+fn filling_at_the_reported_maximum_rate_reaches_the_rating_within_a_kelvin() {
+    let v = fill(&["--rate", "25 bar/min"]);
+    let max = num(&v["transient"], "max_rate_pa_per_s");
+    let rate = format!("{} bar/min", max * 60.0 / 1e5);
+    let at_max = fill(&["--rate", &rate]);
+    let peak = num(&at_max["transient"], "peak_gas_temperature_k");
+    assert!((peak - 338.15).abs() < 1.0, "{peak}");
+}
+
+#[test]
+fn a_duration_is_a_steady_ramp_and_a_mass_flow_fill_reaches_the_target() {
+    let by_duration = fill(&["--duration", "672 s"]);
+    let by_rate = fill(&["--rate", "25 bar/min"]);
+    let p = |v: &Value| num(&v["transient"], "peak_gas_temperature_k");
+    assert!((p(&by_duration) - p(&by_rate)).abs() < 1e-6);
+    let by_mass = fill(&["--rate", "1 kg/min"]);
+    assert!((num(&by_mass["transient"], "end_pressure_pa") / 300e5 - 1.0).abs() < 1e-6);
+}
+
+#[test]
+fn a_vent_with_wall_heat_stays_warmer_and_slower_than_the_isentropic_bound() {
+    let v = run(&[
+        "vent", "--gas", "air", "--volume", "2 m3", "--pressure", "10 barg", "--orifice", "12 mm",
+        "--heat-transfer", "lumped", "--wall-mass", "540 kg", "--depressuring-check",
+        "--design-pressure", "13 barg",
+    ]);
+    let t = &v["transient"];
+    assert!(num(t, "time_s") > num(&v, "time_s"));
+    assert!(num(t, "min_gas_temperature_k") > num(&v, "final_temperature_k"));
+    assert!(num(t, "min_wall_temperature_k") > num(t, "min_gas_temperature_k"));
+    let d = &v["depressuring"];
+    // 50 % of 13 barg is 6.5 barg, below the 690 kPa(g) cap.
+    assert!((num(d, "target_pressure_pa") - (6.5e5 + 101_325.0)).abs() < 1.0);
+    assert_eq!(num(d, "limit_s"), 900.0);
+    assert_eq!(d["meets"], Value::Bool(true));
+}
+
+#[test]
+fn a_slow_vent_fails_the_depressuring_check_with_a_warning() {
+    let v = run(&[
+        "vent", "--gas", "air", "--volume", "10 m3", "--pressure", "20 barg", "--orifice", "2 mm",
+        "--depressuring-check", "--design-pressure", "20 barg",
+    ]);
+    assert_eq!(v["depressuring"]["meets"], Value::Bool(false));
+    assert!(v["cautions"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .any(|c| c["level"] == "WARNING" && c["message"].as_str().unwrap().contains("Depressuring check not met")));
+}
+
+#[test]
+fn the_csv_holds_the_time_series_and_is_never_written_over() {
+    let dir = std::env::temp_dir().join(format!("pvhazard-csv-{}", std::process::id()));
+    let _ = std::fs::remove_dir_all(&dir);
+    std::fs::create_dir_all(&dir).unwrap();
+    let csv = dir.join("fill.csv");
+    let csv_arg = format!("--csv={}", csv.display());
+    let args: Vec<&str> = FILL
+        .iter()
+        .copied()
+        .chain(["--rate", "25 bar/min", csv_arg.as_str()])
+        .collect();
+    Command::cargo_bin("pvhazard").unwrap().args(&args).assert().success();
+    let text = std::fs::read_to_string(&csv).unwrap();
+    let mut lines = text.lines();
+    assert_eq!(
+        lines.next(),
+        Some("time_s,pressure_pa,gas_temperature_k,wall_temperature_k")
+    );
+    assert!(lines.count() > 10);
+    Command::cargo_bin("pvhazard")
+        .unwrap()
+        .args(&args)
+        .assert()
+        .code(2)
+        .stderr(predicates::str::contains("already exists"));
+    std::fs::remove_dir_all(&dir).unwrap();
+}
+
+#[test]
+fn bad_transient_inputs_are_refused_with_the_option_named() {
+    for (args, option) in [
+        (vec!["--rate", "25 L/min"], "--rate"),
+        (vec!["--rate", "25 bar/min", "--inner-coefficient", "-5 W/m2K"], "--inner-coefficient"),
+        (vec!["--duration", "0 s"], "--duration"),
+        (vec!["--rate", "25 bar/min", "--inlet-diameter", "2 m"], "--inlet-diameter"),
+    ] {
+        let all: Vec<&str> = FILL.iter().copied().chain(args.iter().copied()).collect();
+        Command::cargo_bin("pvhazard")
+            .unwrap()
+            .args(&all)
+            .assert()
+            .code(2)
+            .stderr(predicates::str::contains(option));
+    }
+}
