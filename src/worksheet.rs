@@ -15,12 +15,21 @@ use crate::report::{
     Axis, AxisKind, Document, EnergyReport, Entry, FillReport, Plot, Section, Series, Value,
     VentReport, TOOL_VERSION,
 };
+use crate::report::{FillTransientReport, VentTransientReport};
 use crate::rules::energy::{
     self, EnergyInput, DEFAULT_OVERPRESSURES_PA, DEFAULT_TNT_ENERGY_J_PER_KG,
 };
 use crate::rules::fill::{self, FillInput};
+use crate::rules::transient::{self, Depressuring, Exchange, FillRate, HeatTransfer, Wall};
 use crate::rules::vent::{self, VentInput, DEFAULT_TARGET_MARGIN};
-use crate::site::{Cylinder, Equipment, EquipmentKind, Site, Vessel};
+use crate::site::{Cylinder, Equipment, EquipmentKind, Material, Site, Vessel};
+use uom::si::f64::Mass;
+use uom::si::{length::meter, mass::kilogram};
+
+/// The depressuring check's cap on the gauge pressure to reach, Pa (690 kPa(g)).
+const DEPRESSURING_CAP_PA: f64 = 690.0e3;
+/// The depressuring check's time limit, s (15 minutes).
+const DEPRESSURING_LIMIT_S: f64 = 900.0;
 use crate::source::FileError;
 use crate::template::{Calculation, PressureBasis, Template};
 use crate::InputError;
@@ -524,24 +533,97 @@ fn vent_down(
         format!("Vent-down through the {}", drain.description),
         report.result_entries(),
     );
-    let temperature = Series {
-        label: "Gas temperature".to_string(),
-        right_axis: false,
-        points: report
+    // The same vent with heat from the wall: what the gas and the metal actually reach,
+    // and the depressuring check against the MAWP.
+    let material = v.material.unwrap_or(Material::CarbonSteel);
+    let design_gauge = (v.mawp - site.ambient).get::<pascal>().max(0.0);
+    let wall = Wall {
+        mass: v.empty_mass.unwrap_or_else(|| {
+            Mass::new::<kilogram>(material.estimated_vessel_wall_mass(
+                v.volume.get::<uom::si::volume::cubic_meter>(),
+                design_gauge,
+            ))
+        }),
+        material,
+        estimated: v.empty_mass.is_none(),
+    };
+    let exchange = Exchange {
+        mode: HeatTransfer::Lumped,
+        wall,
+        inner_coefficient: None,
+        ambient_temperature: site.ambient_temperature,
+        aspect: crate::heat::VESSEL_ASPECT,
+    };
+    let check = Depressuring {
+        target: site.ambient
+            + Pressure::new::<pascal>((0.5 * design_gauge).min(DEPRESSURING_CAP_PA)),
+        limit: Time::new::<second>(DEPRESSURING_LIMIT_S),
+    };
+    let start = model
+        .state_pt(pressure, v.temperature)
+        .map_err(|e| InputError::new("pressure", "(given)", e.to_string()))?;
+    let area = drain.cd * std::f64::consts::PI / 4.0 * drain.orifice.get::<meter>().powi(2);
+    let warm = transient::vent(
+        model,
+        v.volume,
+        &start,
+        area,
+        site.ambient,
+        input.down_to,
+        (Some(check), v.mdmt),
+        &exchange,
+    )?;
+    out.cautions.extend(warm.cautions.iter().cloned());
+    let (warm_report, depressuring) =
+        VentTransientReport::new(&warm.value, Some(check), exchange.mode);
+    out.section(
+        "Vent-down with heat from the wall",
+        warm_report.result_entries(depressuring.as_ref()),
+    );
+    let series = |label: &str, right_axis: bool, points: Vec<(f64, f64)>| Series {
+        label: label.to_string(),
+        right_axis,
+        points,
+    };
+    let temperature = series(
+        "Gas, isentropic bound",
+        false,
+        report
             .history
             .iter()
             .map(|s| (s.time.get::<second>(), s.temperature.get::<kelvin>()))
             .collect(),
-    };
-    let pressure_series = Series {
-        label: "Pressure".to_string(),
-        right_axis: true,
-        points: report
-            .history
+    );
+    let warm_gas = series(
+        "Gas, with wall heat",
+        false,
+        warm_report
+            .samples
+            .iter()
+            .map(|s| (s.time.get::<second>(), s.gas_temperature.get::<kelvin>()))
+            .collect(),
+    );
+    let warm_wall = series(
+        "Wall",
+        false,
+        warm_report
+            .samples
+            .iter()
+            .map(|s| (s.time.get::<second>(), s.wall_temperature.get::<kelvin>()))
+            .collect(),
+    );
+    let pressure_series = series(
+        "Pressure, with wall heat",
+        true,
+        warm_report
+            .samples
             .iter()
             .map(|s| (s.time.get::<second>(), s.pressure.get::<pascal>()))
             .collect(),
-    };
+    );
+    let mut report = report;
+    report.transient = Some(warm_report);
+    report.depressuring = depressuring;
     if temperature.points.len() > 1 {
         out.plots.push(Plot {
             title: format!(
@@ -561,7 +643,7 @@ fn vent_down(
                 label: "Pressure".to_string(),
                 kind: AxisKind::Pressure,
             }),
-            series: vec![temperature, pressure_series],
+            series: vec![temperature, warm_gas, warm_wall, pressure_series],
             limits: v
                 .mdmt
                 .map(|m| (m.get::<kelvin>(), "MDMT".to_string()))
@@ -646,8 +728,82 @@ fn cylinder_parts(
         });
     }
     out.section("Fast fill (adiabatic bound)", entries);
+    let mut plot_series = vec![Series {
+        label: "Gas, adiabatic bound".to_string(),
+        right_axis: false,
+        points: report
+            .path
+            .iter()
+            .map(|s| (s.pressure.get::<pascal>(), s.temperature.get::<kelvin>()))
+            .collect(),
+    }];
+    let mut report = report;
+    if let Some(rate) = c.fill_rate {
+        let wall = Wall {
+            mass: Mass::new::<kilogram>(c.construction.estimated_wall_mass(
+                c.water_capacity.get::<uom::si::volume::cubic_meter>(),
+                (c.service_pressure - site.ambient).get::<pascal>(),
+            )),
+            material: c.construction.heat_material(),
+            estimated: true,
+        };
+        let exchange = Exchange {
+            mode: HeatTransfer::Lumped,
+            wall,
+            inner_coefficient: None,
+            ambient_temperature: site.ambient_temperature,
+            aspect: crate::heat::CYLINDER_ASPECT,
+        };
+        let initial = model
+            .state_pt(input.from, input.initial_temperature)
+            .map_err(|e| InputError::new("from", "(given)", e.to_string()))?;
+        let supply = model
+            .state_pt(input.to, input.supply_temperature)
+            .map_err(|e| InputError::new("supply-temperature", "(given)", e.to_string()))?;
+        let warm = transient::fill(
+            model,
+            c.water_capacity,
+            &initial,
+            &supply,
+            c.service_pressure,
+            FillRate::Ramp(rate),
+            None,
+            Some(c.rated_temperature),
+            &exchange,
+        )?;
+        out.cautions.extend(warm.cautions.iter().cloned());
+        let t = FillTransientReport::new(
+            &warm.value,
+            FillRate::Ramp(rate),
+            Some(c.rated_temperature),
+            exchange.mode,
+        );
+        out.section(
+            "Fill at the planned rate, with heat to the wall",
+            t.result_entries(),
+        );
+        for (label, wall) in [("Gas, with wall heat", false), ("Wall", true)] {
+            plot_series.push(Series {
+                label: label.to_string(),
+                right_axis: false,
+                points: t
+                    .samples
+                    .iter()
+                    .map(|s| {
+                        let temp = if wall {
+                            s.wall_temperature
+                        } else {
+                            s.gas_temperature
+                        };
+                        (s.pressure.get::<pascal>(), temp.get::<kelvin>())
+                    })
+                    .collect(),
+            });
+        }
+        report.transient = Some(t);
+    }
     out.plots.push(Plot {
-        title: "Gas temperature during the fill (adiabatic bound)".to_string(),
+        title: "Gas temperature during the fill".to_string(),
         x: Axis {
             label: "Pressure".to_string(),
             kind: AxisKind::Pressure,
@@ -657,15 +813,7 @@ fn cylinder_parts(
             kind: AxisKind::Temperature,
         },
         right: None,
-        series: vec![Series {
-            label: "Gas temperature".to_string(),
-            right_axis: false,
-            points: report
-                .path
-                .iter()
-                .map(|s| (s.pressure.get::<pascal>(), s.temperature.get::<kelvin>()))
-                .collect(),
-        }],
+        series: plot_series,
         limits: vec![(
             c.rated_temperature.get::<kelvin>(),
             "Rated temperature".to_string(),

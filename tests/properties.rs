@@ -152,18 +152,22 @@ proptest! {
     }
 
     #[test]
-    fn isentropic_vent_is_faster_and_colder_than_isothermal(
+    fn isentropic_vent_is_colder_than_isothermal_and_faster_at_moderate_ratios(
         d in 0.002f64..0.05,
         p in 2.0e5f64..1e7,
     ) {
         let model = IdealGas::new(Gas::find("air").unwrap());
-        let run = |process| {
+        let run = |process, p: f64| {
             let mut input = vent_input(d, 0.61, process);
             input.pressure = Pressure::new::<pascal>(p);
             blow_down(&model, &input).unwrap().value
         };
-        let (fast, slow) = (run(Process::Isentropic), run(Process::Isothermal));
-        prop_assert!(fast.time.unwrap() < slow.time.unwrap());
-        prop_assert!(fast.end.temperature < slow.end.temperature);
+        let (cold, warm) = (run(Process::Isentropic, p), run(Process::Isothermal, p));
+        prop_assert!(cold.end.temperature < warm.end.temperature);
+        // Choked closed forms: isentropic 2τ/(γ−1)·[r^((γ−1)/2γ) − 1] is below isothermal
+        // τ·ln r up to r ≈ 80 (Bar-Meir ch. 11); well inside that the order is certain.
+        let moderate = 2.0e5 + (p - 2.0e5) * 1.5e6 / 9.8e6;
+        let (cold, warm) = (run(Process::Isentropic, moderate), run(Process::Isothermal, moderate));
+        prop_assert!(cold.time.unwrap() < warm.time.unwrap());
     }
 }

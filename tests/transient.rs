@@ -24,8 +24,18 @@ fn num(v: &Value, path: &str) -> f64 {
 }
 
 const FILL: [&str; 12] = [
-    "fill", "--gas", "air", "--volume", "50 L", "--from", "20 bara", "--to", "300 bara",
-    "--rated-temperature", "65 C", "--wall-mass=60 kg",
+    "fill",
+    "--gas",
+    "air",
+    "--volume",
+    "50 L",
+    "--from",
+    "20 bara",
+    "--to",
+    "300 bara",
+    "--rated-temperature",
+    "65 C",
+    "--wall-mass=60 kg",
 ];
 
 fn fill(extra: &[&str]) -> Value {
@@ -85,9 +95,22 @@ fn a_duration_is_a_steady_ramp_and_a_mass_flow_fill_reaches_the_target() {
 #[test]
 fn a_vent_with_wall_heat_stays_warmer_and_slower_than_the_isentropic_bound() {
     let v = run(&[
-        "vent", "--gas", "air", "--volume", "2 m3", "--pressure", "10 barg", "--orifice", "12 mm",
-        "--heat-transfer", "lumped", "--wall-mass", "540 kg", "--depressuring-check",
-        "--design-pressure", "13 barg",
+        "vent",
+        "--gas",
+        "air",
+        "--volume",
+        "2 m3",
+        "--pressure",
+        "10 barg",
+        "--orifice",
+        "12 mm",
+        "--heat-transfer",
+        "lumped",
+        "--wall-mass",
+        "540 kg",
+        "--depressuring-check",
+        "--design-pressure",
+        "13 barg",
     ]);
     let t = &v["transient"];
     assert!(num(t, "time_s") > num(&v, "time_s"));
@@ -103,15 +126,29 @@ fn a_vent_with_wall_heat_stays_warmer_and_slower_than_the_isentropic_bound() {
 #[test]
 fn a_slow_vent_fails_the_depressuring_check_with_a_warning() {
     let v = run(&[
-        "vent", "--gas", "air", "--volume", "10 m3", "--pressure", "20 barg", "--orifice", "2 mm",
-        "--depressuring-check", "--design-pressure", "20 barg",
+        "vent",
+        "--gas",
+        "air",
+        "--volume",
+        "10 m3",
+        "--pressure",
+        "20 barg",
+        "--orifice",
+        "2 mm",
+        "--depressuring-check",
+        "--design-pressure",
+        "20 barg",
     ]);
     assert_eq!(v["depressuring"]["meets"], Value::Bool(false));
     assert!(v["cautions"]
         .as_array()
         .unwrap()
         .iter()
-        .any(|c| c["level"] == "WARNING" && c["message"].as_str().unwrap().contains("Depressuring check not met")));
+        .any(|c| c["level"] == "WARNING"
+            && c["message"]
+                .as_str()
+                .unwrap()
+                .contains("Depressuring check not met")));
 }
 
 #[test]
@@ -126,7 +163,11 @@ fn the_csv_holds_the_time_series_and_is_never_written_over() {
         .copied()
         .chain(["--rate", "25 bar/min", csv_arg.as_str()])
         .collect();
-    Command::cargo_bin("pvhazard").unwrap().args(&args).assert().success();
+    Command::cargo_bin("pvhazard")
+        .unwrap()
+        .args(&args)
+        .assert()
+        .success();
     let text = std::fs::read_to_string(&csv).unwrap();
     let mut lines = text.lines();
     assert_eq!(
@@ -147,9 +188,15 @@ fn the_csv_holds_the_time_series_and_is_never_written_over() {
 fn bad_transient_inputs_are_refused_with_the_option_named() {
     for (args, option) in [
         (vec!["--rate", "25 L/min"], "--rate"),
-        (vec!["--rate", "25 bar/min", "--inner-coefficient", "-5 W/m2K"], "--inner-coefficient"),
+        (
+            vec!["--rate", "25 bar/min", "--inner-coefficient", "-5 W/m2K"],
+            "--inner-coefficient",
+        ),
         (vec!["--duration", "0 s"], "--duration"),
-        (vec!["--rate", "25 bar/min", "--inlet-diameter", "2 m"], "--inlet-diameter"),
+        (
+            vec!["--rate", "25 bar/min", "--inlet-diameter", "2 m"],
+            "--inlet-diameter",
+        ),
     ] {
         let all: Vec<&str> = FILL.iter().copied().chain(args.iter().copied()).collect();
         Command::cargo_bin("pvhazard")

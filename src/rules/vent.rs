@@ -34,9 +34,9 @@ pub const DEFAULT_TARGET_MARGIN: f64 = 0.01;
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, serde::Deserialize, clap::ValueEnum)]
 #[serde(rename_all = "lowercase")]
 pub enum Process {
-    /// No heat from the wall: the fastest vent and the coldest gas.
+    /// No heat from the wall: the coldest gas.
     Isentropic,
-    /// The wall keeps the gas at its starting temperature: the slowest vent.
+    /// The wall keeps the gas at its starting temperature.
     Isothermal,
 }
 
@@ -369,8 +369,8 @@ fn vent_cautions(model: &dyn GasModel, input: &VentInput, r: &VentResult) -> Vec
     out.push(Caution::new(
         Level::Notice,
         match input.process {
-            Process::Isentropic => "Isentropic vent: no heat from the wall, so the time is the shortest and the gas the coldest a real vent gives; the true time lies between this and the isothermal time.",
-            Process::Isothermal => "Isothermal vent: the wall keeps the gas at its starting temperature, so the time is the longest a real vent gives; the gas in a real fast vent is colder (run with --process isentropic for the cold bound).",
+            Process::Isentropic => "Isentropic vent: no heat from the wall, so the gas is the coldest a real vent gives. A real vent's time usually lies between the isentropic and the isothermal times (which is shorter depends on the pressure ratio: isentropic below about 80, isothermal above); --heat-transfer lumped models the wall.",
+            Process::Isothermal => "Isothermal vent: the wall keeps the gas at its starting temperature; a real fast vent's gas is colder (--process isentropic gives the cold bound, --heat-transfer lumped models the wall).",
         },
     ));
     out.push(Caution::new(
