@@ -626,11 +626,7 @@ fn vent_down(
     report.depressuring = depressuring;
     if temperature.points.len() > 1 {
         out.plots.push(Plot {
-            title: format!(
-                "Vent-down through the {} ({})",
-                drain.description,
-                format!("{:?}", t.vent_process).to_lowercase()
-            ),
+            title: format!("Vent-down through the {}", drain.description),
             x: Axis {
                 label: "Time".to_string(),
                 kind: AxisKind::Time,

@@ -417,6 +417,31 @@ pub struct FillTransient {
     pub wall: Wall,
 }
 
+/// One fill run of `volume` from `initial` (wall at its temperature) to `to` at `rate`, the
+/// gas arriving as `supply`: the time series alone, without the searches of [`fill`].
+#[allow(clippy::too_many_arguments)]
+pub fn fill_once(
+    model: &dyn GasModel,
+    volume: Volume,
+    initial: &State,
+    supply: &State,
+    to: Pressure,
+    rate: FillRate,
+    inlet_diameter: Option<Length>,
+    exchange: &Exchange,
+) -> Result<Run, InputError> {
+    let setup = Setup::new(model, volume, exchange);
+    fill_run(
+        &setup,
+        initial,
+        initial.temperature.get::<kelvin>(),
+        model.enthalpy(supply).get::<joule_per_kilogram>(),
+        to.get::<pascal>(),
+        rate,
+        inlet_diameter.map_or(0.0, |d| d.get::<meter>()),
+    )
+}
+
 /// The fastest fill that keeps the gas within its rating.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub enum MaxRate {

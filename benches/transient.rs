@@ -1,0 +1,74 @@
+//! Speed of the transient models: a full 300-bar cylinder fill and a full receiver
+//! vent-down, each one complete run of the adaptive integrator with wall heat transfer.
+//! Run with `cargo bench`.
+
+use criterion::{criterion_group, criterion_main, Criterion};
+use pvhazard::gas::{Gas, GasModel, IdealGas};
+use pvhazard::heat;
+use pvhazard::rules::transient::{self, Exchange, FillRate, HeatTransfer, Wall};
+use pvhazard::site::Material;
+use pvhazard::units::PressureRate;
+use uom::si::f64::{Mass, Pressure, ThermodynamicTemperature, Volume};
+use uom::si::{mass::kilogram, pressure::pascal, thermodynamic_temperature::kelvin, volume::cubic_meter};
+
+fn exchange(wall_kg: f64, aspect: f64) -> Exchange {
+    Exchange {
+        mode: HeatTransfer::Lumped,
+        wall: Wall {
+            mass: Mass::new::<kilogram>(wall_kg),
+            material: Material::CarbonSteel,
+            estimated: false,
+        },
+        inner_coefficient: None,
+        ambient_temperature: ThermodynamicTemperature::new::<kelvin>(293.15),
+        aspect,
+    }
+}
+
+fn benches(c: &mut Criterion) {
+    let air = IdealGas::new(Gas::find("air").unwrap());
+    let t = ThermodynamicTemperature::new::<kelvin>(293.15);
+    let p = Pressure::new::<pascal>;
+
+    let initial = air.state_pt(p(20e5), t).unwrap();
+    let supply = air.state_pt(p(300e5), t).unwrap();
+    let rate = FillRate::Ramp(PressureRate { per_second: p(25e5 / 60.0) });
+    let cylinder = exchange(60.0, heat::CYLINDER_ASPECT);
+    c.bench_function("fill 50 L air 20 -> 300 bar(a), 25 bar/min, lumped wall", |b| {
+        b.iter(|| {
+            transient::fill_once(
+                &air,
+                Volume::new::<cubic_meter>(0.05),
+                &initial,
+                &supply,
+                p(300e5),
+                rate,
+                None,
+                &cylinder,
+            )
+            .unwrap()
+        })
+    });
+
+    let start = air.state_pt(p(11.01325e5), t).unwrap();
+    let receiver = exchange(540.0, heat::VESSEL_ASPECT);
+    let area = 0.61 * std::f64::consts::PI / 4.0 * 0.012f64.powi(2);
+    c.bench_function("vent 2 m3 air 10 barg through 12 mm, lumped wall", |b| {
+        b.iter(|| {
+            transient::vent(
+                &air,
+                Volume::new::<cubic_meter>(2.0),
+                &start,
+                area,
+                p(101_325.0),
+                p(1.01 * 101_325.0),
+                (None, None),
+                &receiver,
+            )
+            .unwrap()
+        })
+    });
+}
+
+criterion_group!(transient_benches, benches);
+criterion_main!(transient_benches);
