@@ -9,7 +9,9 @@ use pvhazard::rules::transient::{self, Exchange, FillRate, HeatTransfer, Wall};
 use pvhazard::site::Material;
 use pvhazard::units::PressureRate;
 use uom::si::f64::{Mass, Pressure, ThermodynamicTemperature, Volume};
-use uom::si::{mass::kilogram, pressure::pascal, thermodynamic_temperature::kelvin, volume::cubic_meter};
+use uom::si::{
+    mass::kilogram, pressure::pascal, thermodynamic_temperature::kelvin, volume::cubic_meter,
+};
 
 fn exchange(wall_kg: f64, aspect: f64) -> Exchange {
     Exchange {
@@ -32,23 +34,28 @@ fn benches(c: &mut Criterion) {
 
     let initial = air.state_pt(p(20e5), t).unwrap();
     let supply = air.state_pt(p(300e5), t).unwrap();
-    let rate = FillRate::Ramp(PressureRate { per_second: p(25e5 / 60.0) });
-    let cylinder = exchange(60.0, heat::CYLINDER_ASPECT);
-    c.bench_function("fill 50 L air 20 -> 300 bar(a), 25 bar/min, lumped wall", |b| {
-        b.iter(|| {
-            transient::fill_once(
-                &air,
-                Volume::new::<cubic_meter>(0.05),
-                &initial,
-                &supply,
-                p(300e5),
-                rate,
-                None,
-                &cylinder,
-            )
-            .unwrap()
-        })
+    let rate = FillRate::Ramp(PressureRate {
+        per_second: p(25e5 / 60.0),
     });
+    let cylinder = exchange(60.0, heat::CYLINDER_ASPECT);
+    c.bench_function(
+        "fill 50 L air 20 -> 300 bar(a), 25 bar/min, lumped wall",
+        |b| {
+            b.iter(|| {
+                transient::fill_once(
+                    &air,
+                    Volume::new::<cubic_meter>(0.05),
+                    &initial,
+                    &supply,
+                    p(300e5),
+                    rate,
+                    None,
+                    &cylinder,
+                )
+                .unwrap()
+            })
+        },
+    );
 
     let start = air.state_pt(p(11.01325e5), t).unwrap();
     let receiver = exchange(540.0, heat::VESSEL_ASPECT);

@@ -832,23 +832,7 @@ fn fill_command(a: FillArgs) -> Result<String, Failure> {
             FillRate::MassFlow(m) => m.get::<uom::si::mass_rate::kilogram_per_second>(),
         };
         check_range("rate", rate_si, "SI units per second", 1e-9, 1e9)?;
-        let initial = model
-            .state_pt(input.from, input.initial_temperature)
-            .map_err(|e| InputError::new("from", "(given)", e.to_string()))?;
-        let supply = model
-            .state_pt(input.to, input.supply_temperature)
-            .map_err(|e| InputError::new("supply-temperature", "(given)", e.to_string()))?;
-        let t = transient::fill(
-            model.as_ref(),
-            input.volume,
-            &initial,
-            &supply,
-            input.to,
-            rate,
-            a.inlet_diameter,
-            input.rated_temperature,
-            &exchange,
-        )?;
+        let t = transient::fill_from(model.as_ref(), &input, rate, a.inlet_diameter, &exchange)?;
         let t_report =
             FillTransientReport::new(&t.value, rate, input.rated_temperature, exchange.mode);
         if let Some(path) = &a.wall.csv {
@@ -947,14 +931,6 @@ fn vent_command(a: VentArgs) -> Result<String, Failure> {
     let out = vent::blow_down(model.as_ref(), &input)?;
     let mut report = VentReport::new(model.as_ref(), &input, out);
     if a.wall.heat_transfer.is_some() || a.depressuring_check {
-        let Some(orifice) = input.orifice else {
-            return Err(InputError::new(
-                "orifice",
-                "(none)",
-                "the vent with wall heat transfer and the depressuring check need the orifice diameter",
-            )
-            .into());
-        };
         let design = match a.design_pressure {
             Some(r) => absolute("design-pressure", r, pa)?,
             None => input.pressure,
@@ -991,21 +967,7 @@ fn vent_command(a: VentArgs) -> Result<String, Failure> {
         } else {
             None
         };
-        let start = model
-            .state_pt(input.pressure, input.temperature)
-            .map_err(|e| InputError::new("pressure", "(given)", e.to_string()))?;
-        let area =
-            input.cd * std::f64::consts::PI / 4.0 * orifice.get::<uom::si::length::meter>().powi(2);
-        let t = transient::vent(
-            model.as_ref(),
-            input.volume,
-            &start,
-            area,
-            pa,
-            input.down_to,
-            (check, input.min_metal_temperature),
-            &exchange,
-        )?;
+        let t = transient::vent_from(model.as_ref(), &input, check, &exchange)?;
         let (t_report, dep) = VentTransientReport::new(&t.value, check, exchange.mode);
         if let Some(path) = &wall_args.csv {
             write_csv(path, &t_report.samples)?;

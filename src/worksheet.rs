@@ -24,7 +24,7 @@ use crate::rules::transient::{self, Depressuring, Exchange, FillRate, HeatTransf
 use crate::rules::vent::{self, VentInput, DEFAULT_TARGET_MARGIN};
 use crate::site::{Cylinder, Equipment, EquipmentKind, Material, Site, Vessel};
 use uom::si::f64::Mass;
-use uom::si::{length::meter, mass::kilogram};
+use uom::si::mass::kilogram;
 
 /// The depressuring check's cap on the gauge pressure to reach, Pa (690 kPa(g)).
 const DEPRESSURING_CAP_PA: f64 = 690.0e3;
@@ -559,20 +559,7 @@ fn vent_down(
             + Pressure::new::<pascal>((0.5 * design_gauge).min(DEPRESSURING_CAP_PA)),
         limit: Time::new::<second>(DEPRESSURING_LIMIT_S),
     };
-    let start = model
-        .state_pt(pressure, v.temperature)
-        .map_err(|e| InputError::new("pressure", "(given)", e.to_string()))?;
-    let area = drain.cd * std::f64::consts::PI / 4.0 * drain.orifice.get::<meter>().powi(2);
-    let warm = transient::vent(
-        model,
-        v.volume,
-        &start,
-        area,
-        site.ambient,
-        input.down_to,
-        (Some(check), v.mdmt),
-        &exchange,
-    )?;
+    let warm = transient::vent_from(model, &input, Some(check), &exchange)?;
     out.cautions.extend(warm.cautions.iter().cloned());
     let (warm_report, depressuring) =
         VentTransientReport::new(&warm.value, Some(check), exchange.mode);
@@ -750,23 +737,7 @@ fn cylinder_parts(
             ambient_temperature: site.ambient_temperature,
             aspect: crate::heat::CYLINDER_ASPECT,
         };
-        let initial = model
-            .state_pt(input.from, input.initial_temperature)
-            .map_err(|e| InputError::new("from", "(given)", e.to_string()))?;
-        let supply = model
-            .state_pt(input.to, input.supply_temperature)
-            .map_err(|e| InputError::new("supply-temperature", "(given)", e.to_string()))?;
-        let warm = transient::fill(
-            model,
-            c.water_capacity,
-            &initial,
-            &supply,
-            c.service_pressure,
-            FillRate::Ramp(rate),
-            None,
-            Some(c.rated_temperature),
-            &exchange,
-        )?;
+        let warm = transient::fill_from(model, &input, FillRate::Ramp(rate), None, &exchange)?;
         out.cautions.extend(warm.cautions.iter().cloned());
         let t = FillTransientReport::new(
             &warm.value,

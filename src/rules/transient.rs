@@ -18,6 +18,9 @@ use uom::si::{
     time::second, volume::cubic_meter,
 };
 
+use super::fill::FillInput;
+use super::gas_error;
+use super::vent::VentInput;
 use crate::caution::{Assessed, Caution, Level};
 use crate::gas::{GasModel, State};
 use crate::heat::{self, Film, InnerBasis};
@@ -544,6 +547,64 @@ pub struct Depressuring {
     pub limit: Time,
 }
 
+/// The fill a [`FillInput`] describes, at `rate`, with heat exchanged as `exchange` says.
+pub fn fill_from(
+    model: &dyn GasModel,
+    input: &FillInput,
+    rate: FillRate,
+    inlet_diameter: Option<Length>,
+    exchange: &Exchange,
+) -> Result<Assessed<FillTransient>, InputError> {
+    let initial = model
+        .state_pt(input.from, input.initial_temperature)
+        .map_err(gas_error("from"))?;
+    let supply = model
+        .state_pt(input.to, input.supply_temperature)
+        .map_err(gas_error("supply-temperature"))?;
+    fill(
+        model,
+        input.volume,
+        &initial,
+        &supply,
+        input.to,
+        rate,
+        inlet_diameter,
+        input.rated_temperature,
+        exchange,
+    )
+}
+
+/// The vent a [`VentInput`] describes (its orifice is required), with heat exchanged as
+/// `exchange` says and an optional depressuring check.
+pub fn vent_from(
+    model: &dyn GasModel,
+    input: &VentInput,
+    check: Option<Depressuring>,
+    exchange: &Exchange,
+) -> Result<Assessed<VentTransient>, InputError> {
+    let Some(orifice) = input.orifice else {
+        return Err(InputError::new(
+            "orifice",
+            "(none)",
+            "the vent with wall heat transfer and the depressuring check need the orifice diameter",
+        ));
+    };
+    let start = model
+        .state_pt(input.pressure, input.temperature)
+        .map_err(gas_error("pressure"))?;
+    let area = input.cd * std::f64::consts::PI / 4.0 * orifice.get::<meter>().powi(2);
+    vent(
+        model,
+        input.volume,
+        &start,
+        area,
+        input.ambient,
+        input.down_to,
+        (check, input.min_metal_temperature),
+        exchange,
+    )
+}
+
 /// A vent with heat from the wall.
 #[derive(Debug, Clone, PartialEq)]
 pub struct VentTransient {
@@ -890,31 +951,18 @@ mod tests {
 
     #[test]
     fn the_wall_lowers_the_peak_and_a_slower_or_heavier_fill_lowers_it_more() {
-        let adiabatic = kelvin_of(
-            cylinder_fill(ramp(25.0), &exchange(HeatTransfer::None, 60.0, None))
-                .run
-                .peak_gas(),
-        );
-        let fast = kelvin_of(
-            cylinder_fill(ramp(100.0), &exchange(HeatTransfer::Lumped, 60.0, None))
-                .run
-                .peak_gas(),
-        );
-        let planned = kelvin_of(
-            cylinder_fill(ramp(25.0), &exchange(HeatTransfer::Lumped, 60.0, None))
-                .run
-                .peak_gas(),
-        );
-        let slow = kelvin_of(
-            cylinder_fill(ramp(5.0), &exchange(HeatTransfer::Lumped, 60.0, None))
-                .run
-                .peak_gas(),
-        );
-        let heavy = kelvin_of(
-            cylinder_fill(ramp(25.0), &exchange(HeatTransfer::Lumped, 200.0, None))
-                .run
-                .peak_gas(),
-        );
+        let peak = |bar_per_min: f64, mode: HeatTransfer, wall_kg: f64| {
+            kelvin_of(
+                cylinder_fill(ramp(bar_per_min), &exchange(mode, wall_kg, None))
+                    .run
+                    .peak_gas(),
+            )
+        };
+        let adiabatic = peak(25.0, HeatTransfer::None, 60.0);
+        let fast = peak(100.0, HeatTransfer::Lumped, 60.0);
+        let planned = peak(25.0, HeatTransfer::Lumped, 60.0);
+        let slow = peak(5.0, HeatTransfer::Lumped, 60.0);
+        let heavy = peak(25.0, HeatTransfer::Lumped, 200.0);
         assert!(
             adiabatic > fast && fast > planned && planned > slow,
             "{adiabatic} {fast} {planned} {slow}"
