@@ -354,9 +354,12 @@ fn vent_cautions(model: &dyn GasModel, input: &VentInput, r: &VentResult) -> Vec
                 Level::Warning,
                 "The gas falls to ",
                 Value::Temperature(r.end.temperature),
-                ", below the MDMT (",
+                match input.process {
+                    Process::Isentropic => " at the isentropic bound (no heat from the wall), below the MDMT (",
+                    Process::Isothermal => ", below the MDMT (",
+                },
                 Value::Temperature(mdmt),
-                "). The metal lags the gas but can approach it in a long or repeated vent: brittle fracture is possible. Vent more slowly or in stages, and have an authorised inspector confirm the vessel's low-temperature rating before venting this way.",
+                "). The metal lags the gas but can approach it in a long or repeated vent: brittle fracture is possible. Vent more slowly or in stages, check the wall with --heat-transfer lumped, and have an authorised inspector confirm the vessel's low-temperature rating before venting this way.",
             ));
         }
     } else if input.process == Process::Isentropic {
