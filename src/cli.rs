@@ -322,8 +322,9 @@ pub enum Failure {
     Input(InputError),
     /// A user's file (site or template); exit 2.
     File(FileError),
-    /// A record that would be overwritten; exit 2.
-    Exists(String),
+    /// Refused for a reason the message gives (a record that would be overwritten, a bad
+    /// environment variable); exit 2.
+    Refused(String),
     /// A defect or an I/O failure; exit 1.
     Internal(String),
 }
@@ -373,7 +374,7 @@ pub fn run(args: impl IntoIterator<Item = std::ffi::OsString>, out: &mut dyn Wri
             eprintln!("pvhazard: error: {e}");
             EXIT_BAD_INPUT
         }
-        Err(Failure::Exists(msg)) => {
+        Err(Failure::Refused(msg)) => {
             eprintln!("pvhazard: error: {msg}");
             EXIT_BAD_INPUT
         }
@@ -419,20 +420,13 @@ fn worksheet_date(
         return Ok(d);
     }
     if let Ok(epoch) = std::env::var("SOURCE_DATE_EPOCH") {
-        let secs: i64 = epoch.trim().parse().map_err(|_| {
-            Failure::Input(InputError::new(
-                "SOURCE_DATE_EPOCH",
-                epoch.clone(),
-                "not a number of seconds since 1970-01-01 UTC",
+        let refused = || {
+            Failure::Refused(format!(
+                "SOURCE_DATE_EPOCH = '{epoch}': not a number of seconds since 1970-01-01 UTC in range; accepted: e.g. 1773477000, or unset it and give --date"
             ))
-        })?;
-        let utc = chrono::DateTime::from_timestamp(secs, 0).ok_or_else(|| {
-            Failure::Input(InputError::new(
-                "SOURCE_DATE_EPOCH",
-                epoch.clone(),
-                "out of range",
-            ))
-        })?;
+        };
+        let secs: i64 = epoch.trim().parse().map_err(|_| refused())?;
+        let utc = chrono::DateTime::from_timestamp(secs, 0).ok_or_else(refused)?;
         return Ok(utc.with_timezone(&zone));
     }
     Ok(chrono::Utc::now().with_timezone(&zone))
@@ -528,7 +522,7 @@ fn worksheet_command(a: WorksheetArgs) -> Result<String, Failure> {
         .collect();
     if !a.force {
         if let Some(p) = batches.iter().flat_map(|b| b.existing()).next() {
-            return Err(Failure::Exists(
+            return Err(Failure::Refused(
                 record::RecordError::Exists(p.to_path_buf()).to_string(),
             ));
         }
@@ -536,7 +530,7 @@ fn worksheet_command(a: WorksheetArgs) -> Result<String, Failure> {
     let mut text = String::new();
     for ((tag, highest, _, _, _), batch) in records.iter().zip(&batches) {
         let written = batch.write(a.force).map_err(|e| match e {
-            record::RecordError::Exists(_) => Failure::Exists(e.to_string()),
+            record::RecordError::Exists(_) => Failure::Refused(e.to_string()),
             record::RecordError::Io { .. } => Failure::Internal(e.to_string()),
         })?;
         let names: Vec<String> = written.iter().map(|p| p.display().to_string()).collect();
@@ -901,7 +895,7 @@ fn write_csv(path: &std::path::Path, samples: &[transient::Sample]) -> Result<()
         files: vec![(path.to_path_buf(), text.as_bytes())],
     };
     files.write(false).map(|_| ()).map_err(|e| match e {
-        record::RecordError::Exists(p) => Failure::Exists(format!(
+        record::RecordError::Exists(p) => Failure::Refused(format!(
             "{} already exists; the CSV is not written over an existing file: choose another --csv path",
             p.display()
         )),

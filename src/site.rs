@@ -168,26 +168,35 @@ pub struct Vessel {
     #[serde(serialize_with = "gas_name")]
     pub gas: &'static Gas,
     /// Gas volume.
+    #[serde(rename = "volume_m3")]
     pub volume: Volume,
     /// Maximum allowable working pressure (design pressure), absolute.
+    #[serde(rename = "mawp_pa")]
     pub mawp: Pressure,
     /// Normal operating pressure, absolute.
+    #[serde(rename = "operating_pressure_pa")]
     pub operating_pressure: Pressure,
     /// Relief device set pressure, absolute, if fitted.
+    #[serde(rename = "relief_set_pressure_pa")]
     pub relief_set_pressure: Option<Pressure>,
     /// Minimum design metal temperature, if known.
+    #[serde(rename = "mdmt_k")]
     pub mdmt: Option<ThermodynamicTemperature>,
     /// Shell material.
     pub material: Option<Material>,
     /// Shell wall thickness.
+    #[serde(rename = "wall_thickness_m")]
     pub wall_thickness: Option<Length>,
     /// Empty mass.
+    #[serde(rename = "empty_mass_kg")]
     pub empty_mass: Option<Mass>,
     /// Gas temperature in service.
+    #[serde(rename = "temperature_k")]
     pub temperature: ThermodynamicTemperature,
     /// The path used to depressurise it.
     pub drain: Option<Drain>,
     /// Pneumatic or hydrostatic test pressure, absolute, if a test is planned.
+    #[serde(rename = "test_pressure_pa")]
     pub test_pressure: Option<Pressure>,
     /// Where it stood in the site file.
     #[serde(skip)]
@@ -200,6 +209,7 @@ pub struct Drain {
     /// What it is ("1/2 in ball valve to vent stack").
     pub description: String,
     /// The limiting orifice diameter.
+    #[serde(rename = "orifice_m")]
     pub orifice: Length,
     /// Its discharge coefficient.
     pub cd: f64,
@@ -216,18 +226,24 @@ pub struct Cylinder {
     #[serde(serialize_with = "gas_name")]
     pub gas: &'static Gas,
     /// Water (internal) capacity.
+    #[serde(rename = "water_capacity_m3")]
     pub water_capacity: Volume,
     /// Service (working) pressure at the reference temperature, absolute.
+    #[serde(rename = "service_pressure_pa")]
     pub service_pressure: Pressure,
     /// Rated maximum gas temperature.
+    #[serde(rename = "rated_temperature_k")]
     pub rated_temperature: ThermodynamicTemperature,
     /// Construction.
     pub construction: Construction,
     /// Supply gas temperature at the fill station.
+    #[serde(rename = "supply_temperature_k")]
     pub supply_temperature: ThermodynamicTemperature,
     /// Planned fill rate.
+    #[serde(rename = "fill_rate_pa_per_s")]
     pub fill_rate: Option<PressureRate>,
     /// Pressure left in the cylinder when it comes to be filled, absolute.
+    #[serde(rename = "residual_pressure_pa")]
     pub residual_pressure: Pressure,
     /// Where it stood in the site file.
     #[serde(skip)]
@@ -313,6 +329,13 @@ pub fn load(path: &Path) -> Result<Site, FileError> {
         (Some(p), None) => {
             let reading = located(&src, "site.ambient_pressure", p, units::parse_pressure)?;
             match reading {
+                PressureReading::Absolute(x) if !(1.0e3..=2.0e5).contains(&x.get::<pascal>()) => {
+                    return Err(src.error(
+                        p.span().start,
+                        "site.ambient_pressure",
+                        format!("'{}' is outside the range of atmospheres on the ground; accepted: 1 kPa(a) to 200 kPa(a)", p.get_ref()),
+                    ))
+                }
                 PressureReading::Absolute(p) => (p, "given on the site file".to_string()),
                 PressureReading::Gauge(_) => {
                     return Err(src.error(

@@ -405,7 +405,7 @@ fn vessel_parts(
         .extend(v.mdmt.map(|x| input("MDMT", Value::Temperature(x))));
     out.inputs.extend(
         v.material
-            .map(|m| input("Material", Value::Text(format!("{m:?}")))),
+            .map(|m| input("Material", Value::Text(m.name().to_string()))),
     );
     out.inputs.extend(
         v.wall_thickness
@@ -441,7 +441,9 @@ fn vessel_parts(
             .contains(&Calculation::VentTarget)
             .then_some(t.energy_limit)
             .flatten(),
-        mawp: Some(v.mawp),
+        // A test pressure above the MAWP is what a pressure test is; the test procedure,
+        // not the MAWP, governs it.
+        mawp: (t.pressure != PressureBasis::Test).then_some(v.mawp),
         clearance: site.clearance,
     };
     let assessed = energy::stored_energy(model, &energy_input)?;
@@ -474,11 +476,16 @@ fn vessel_parts(
             }
             Calculation::VentTarget => out.section("Vent-down target", report.target_entries()),
             Calculation::VentDown => {
-                let drain = v
-                    .drain
-                    .as_ref()
-                    .ok_or_else(|| missing("drain", "(vent-down through the drain path)"))?;
-                vent_down(model, site, v, t, pressure, drain, out)?;
+                match &v.drain {
+                    Some(drain) => vent_down(model, site, v, t, pressure, drain, out)?,
+                    None => out.cautions.push(Caution::new(
+                        Level::Warning,
+                        format!(
+                            "No drain path is on file for {}: the vent-down time and the cold gas and metal it brings are not computed. Add the drain (orifice and Cd) to the site file, or work them out before venting.",
+                            v.tag
+                        ),
+                    )),
+                }
             }
             Calculation::Fill => {}
         }
@@ -664,14 +671,7 @@ fn cylinder_parts(
     if let Some(rate) = c.fill_rate {
         out.inputs.push(input(
             "Planned fill rate",
-            Value::Text(format!(
-                "{} bar/min ({} psi/min)",
-                crate::units::fmt_sig(rate.per_second.get::<pascal>() * 60.0 / 1e5, 3),
-                crate::units::fmt_sig(
-                    rate.per_second.get::<pascal>() * 60.0 / crate::units::PA_PER_PSI,
-                    3
-                )
-            )),
+            Value::PressureRate(rate.per_second),
         ));
     }
     site_inputs(site, out);

@@ -288,7 +288,7 @@ impl FillTransientReport {
             ));
         }
         let max = match (self.max_rate, self.max_rate_pa_per_s) {
-            (Some("ramp"), Some(r)) => Some(Value::Text(rate_text(r))),
+            (Some("ramp"), Some(r)) => Some(Value::PressureRate(r)),
             (Some("unlimited"), _) => Some(Value::Text(
                 "no limit: even the adiabatic bound stays within the rating".to_string(),
             )),
@@ -306,16 +306,6 @@ impl FillTransientReport {
         }
         out
     }
-}
-
-/// A pressure ramp as text in both systems.
-fn rate_text(per_second: Pressure) -> String {
-    let pa_s = per_second.get::<uom::si::pressure::pascal>();
-    format!(
-        "{} bar/min ({} psi/min)",
-        crate::units::fmt_sig(pa_s * 60.0 / 1e5, 3),
-        crate::units::fmt_sig(pa_s * 60.0 / crate::units::PA_PER_PSI, 3)
-    )
 }
 
 /// The fill command's inputs as used.

@@ -15,6 +15,7 @@ use uom::si::{pressure::pascal, thermodynamic_temperature::kelvin};
 use crate::caution;
 use crate::caution::{Caution, Level};
 use crate::gas::{GasError, GasModel, State};
+use crate::units::Value;
 use crate::InputError;
 
 /// Largest absolute pressure accepted, Pa (10 000 bar: above any gas vessel in service).
@@ -102,19 +103,26 @@ fn end_phase_caution(model: &dyn GasModel, what: &str, end: &State) -> Option<Ca
     if t < gas.min_temperature_k {
         return Some(caution!(
             Level::Caution,
-            format!("{what} ends at {t:.0} K, below {:.0} K, the lowest temperature these methods accept for {}: the gas would partly condense or freeze{}, which they do not model. Treat the result as an estimate and expect ice or liquid in the vent path.",
-                gas.min_temperature_k,
+            format!("{what} ends at "),
+            Value::Temperature(end.temperature),
+            ", below ",
+            Value::Temperature(ThermodynamicTemperature::new::<kelvin>(gas.min_temperature_k)),
+            format!(
+                ", the lowest temperature these methods accept for {}: the gas would partly condense or freeze{}, which they do not model. Treat the result as an estimate and expect ice or liquid in the vent path.",
                 gas.name,
-                if gas.name == "carbon-dioxide" { " (dry-ice snow, which can block a vent)" } else { "" }),
+                if gas.name == "carbon-dioxide" { " (dry-ice snow, which can block a vent)" } else { "" }
+            ),
         ));
     }
     let tsat = gas.saturation_temperature(end.pressure)?;
     (end.temperature < tsat).then(|| {
         caution!(
             Level::Caution,
-            format!("{what} ends at {t:.0} K, below {}'s condensation temperature there ({:.0} K): part of the gas would condense, which these gas methods do not model. Treat the result as an estimate.",
-                gas.name,
-                tsat.get::<kelvin>()),
+            format!("{what} ends at "),
+            Value::Temperature(end.temperature),
+            format!(", below {}'s condensation temperature there (", gas.name),
+            Value::Temperature(tsat),
+            "): part of the gas would condense, which these gas methods do not model. Treat the result as an estimate.",
         )
     })
 }

@@ -39,6 +39,8 @@ pub enum Value {
     Time(Time),
     /// A mass flow.
     MassFlow(MassRate),
+    /// A rate of pressure change, as the pressure gained in one second.
+    PressureRate(Pressure),
     /// A plain number with its meaning.
     Number(f64),
     /// Text.
@@ -195,6 +197,15 @@ impl Display {
         )
     }
 
+    /// A pressure ramp in bar/min or psi/min, from the pressure gained per second.
+    pub fn pressure_rate(&self, per_second: Pressure) -> String {
+        let pa_s = per_second.get::<pascal>();
+        self.pair(
+            format!("{} bar/min", fmt_sig(pa_s * 60.0 / 1e5, 3)),
+            format!("{} psi/min", fmt_sig(pa_s * 60.0 / PA_PER_PSI, 3)),
+        )
+    }
+
     /// A mass flow in kg/s or lb/s.
     pub fn mass_flow(&self, m: MassRate) -> String {
         let kg = m.get::<kilogram_per_second>();
@@ -269,6 +280,7 @@ impl Display {
                     Value::Diameter(x) => full.small_length(*x),
                     Value::Time(x) => full.time(*x),
                     Value::MassFlow(x) => full.mass_flow(*x),
+                    Value::PressureRate(x) => full.pressure_rate(*x),
                     Value::Number(x) => fmt_sig(*x, 3),
                     Value::Text(s) => s.clone(),
                     _ => String::new(),
