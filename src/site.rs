@@ -392,7 +392,7 @@ pub fn load(path: &Path) -> Result<Site, FileError> {
         },
     };
     let time_zone = match &s.time_zone {
-        None => FixedOffset::east_opt(0).expect("zero offset"),
+        None => chrono::Offset::fix(&chrono::Utc),
         Some(z) => located(&src, "site.time_zone", z, parse_offset)?,
     };
     let clearance = s
@@ -720,7 +720,7 @@ pub fn parse_offset(s: &str) -> Result<FixedOffset, String> {
         .or_else(|| t.strip_prefix("utc"))
         .unwrap_or(t);
     if t.is_empty() || t == "Z" {
-        return Ok(FixedOffset::east_opt(0).expect("zero offset"));
+        return Ok(chrono::Offset::fix(&chrono::Utc));
     }
     if !t.is_ascii() {
         return Err(format!("'{s}' is not a UTC offset; {ACCEPTED}"));

@@ -359,7 +359,7 @@ fn vent_cautions(model: &dyn GasModel, input: &VentInput, r: &VentResult) -> Vec
                     Process::Isothermal => ", below the MDMT (",
                 },
                 Value::Temperature(mdmt),
-                "). The metal lags the gas but can approach it in a long or repeated vent: brittle fracture is possible. Vent more slowly or in stages, check the wall with --heat-transfer lumped, and have an authorised inspector confirm the vessel's low-temperature rating before venting this way.",
+                "). The metal lags the gas but can approach it in a long or repeated vent: brittle fracture is possible. Vent more slowly or in stages, compare the wall temperature from the wall heat-transfer model (vent --heat-transfer lumped; the worksheet section with heat from the wall), and have an authorised inspector confirm the vessel's low-temperature rating before venting this way.",
             ));
         }
     } else if input.process == Process::Isentropic {
