@@ -1,137 +1,31 @@
-//! The command line: clap definitions, translated once into typed rule inputs.
-//!
-//! Quantities are parsed by clap value parsers (so a bad value is reported with its option
-//! name), gauge readings become absolute here, and nothing downstream sees a string.
+//! The calculation commands: energy, fill and vent, their options, and the translation of
+//! those options into rule inputs.
 
-use std::io::Write;
-
-use clap::{Args, Parser, Subcommand};
+use clap::Args;
 use uom::si::f64::{
     AvailableEnergy, Energy, Length, Mass, Pressure, ThermodynamicTemperature, Time, Volume,
 };
 use uom::si::pressure::pascal;
 
-use std::io::IsTerminal;
-
+use super::Failure;
 use crate::atmosphere;
-use crate::caution::{ordered, Caution, Level};
-use crate::gas::{Gas, GasModel, IdealGas, ModelKind, GASES};
+use crate::caution::ordered;
+use crate::gas::{Gas, ModelKind};
 use crate::heat;
 use crate::record;
-use crate::report::{render_pdf, Paper};
 use crate::report::{render_text, to_json, EnergyReport, FillReport, VentReport, Worksheet};
 use crate::report::{FillTransientReport, VentTransientReport};
 use crate::rules::energy::{self, EnergyInput};
 use crate::rules::fill::{self, FillInput};
 use crate::rules::transient::{self, FillRate, HeatTransfer, Wall};
 use crate::rules::vent::{self, Process, VentInput};
-use crate::site::{self, Equipment, EquipmentKind, Site};
 use crate::site::{Construction, Material};
-use crate::source::FileError;
-use crate::template;
 use crate::units::{self, fmt_sig, PressureReading, UnitSystem};
-use crate::worksheet::{self, Meta};
 use crate::InputError;
-
-/// Exit code: computed (whatever the cautions).
-pub const EXIT_OK: i32 = 0;
-/// Exit code: the program failed for a reason other than the input (a defect).
-pub const EXIT_INTERNAL: i32 = 1;
-/// Exit code: bad input; the message names the field, the value and what is accepted.
-pub const EXIT_BAD_INPUT: i32 = 2;
-/// Exit code of `check`: the site was checked and some item raises DANGER.
-pub const EXIT_DANGER: i32 = 3;
-
-/// Stored energy, safe distances, blow-down times and fill temperatures of compressed-gas
-/// vessels, with cautions. Every quantity takes a unit; every pressure says gauge or
-/// absolute (`10 barg`, `2.5 bara`, `150 psig`, `101.3 kPa(a)`).
-#[derive(Debug, Parser)]
-#[command(name = "pvhazard", version, about, long_about = None)]
-pub struct Cli {
-    #[command(subcommand)]
-    command: Command,
-}
-
-#[derive(Debug, Subcommand)]
-enum Command {
-    /// Stored expansion energy, TNT equivalent, exclusion distance and overpressure standoffs.
-    Energy(EnergyArgs),
-    /// Adiabatic fast-fill temperature, settled pressure and fill-to pressure of a cylinder.
-    Fill(FillArgs),
-    /// Blow-down time through an orifice, final gas temperature, or the orifice for a time.
-    Vent(VentArgs),
-    /// The gases known, with their constants and sources.
-    Gases(GasesArgs),
-    /// Dated PDF worksheets, each with a JSON record beside it, for equipment on a site file.
-    Worksheet(WorksheetArgs),
-    /// Checks a site file and ranks its equipment by hazard; exits 3 if any item raises DANGER.
-    Check(CheckArgs),
-}
-
-#[derive(Debug, Args)]
-struct WorksheetArgs {
-    /// The site file (TOML).
-    #[arg(value_name = "SITE.toml")]
-    site: std::path::PathBuf,
-    /// Tag of an item on the site; repeatable.
-    #[arg(
-        long,
-        value_name = "TAG",
-        required_unless_present = "all",
-        conflicts_with = "all"
-    )]
-    tag: Vec<String>,
-    /// Every item on the site.
-    #[arg(long)]
-    all: bool,
-    /// A built-in template's name (pre-maintenance, fill-check, pressure-test) or a template file [default: pre-maintenance for vessels, fill-check for cylinders].
-    #[arg(long, value_name = "NAME|PATH")]
-    template: Option<String>,
-    /// The work order the worksheet is attached to.
-    #[arg(long, value_name = "ID")]
-    work_order: Option<String>,
-    /// The name of the person preparing the worksheet.
-    #[arg(long, value_name = "NAME")]
-    prepared_by: Option<String>,
-    /// The worksheet's date and time, RFC 3339 (e.g. 2026-03-14T09:30:00+01:00) [default: SOURCE_DATE_EPOCH if set, else now, in the site's time zone].
-    #[arg(long, value_name = "RFC3339", value_parser = parse_date)]
-    date: Option<chrono::DateTime<chrono::FixedOffset>>,
-    /// Paper size.
-    #[arg(long, value_enum, default_value = "a4")]
-    paper: Paper,
-    /// Folder for the PDFs and their JSON records (created if missing).
-    #[arg(long, value_name = "DIR", default_value = ".")]
-    out: std::path::PathBuf,
-    /// Replace existing records of the same name.
-    #[arg(long)]
-    force: bool,
-    /// Gas model.
-    #[arg(long, value_enum, default_value = "ideal")]
-    model: ModelKind,
-}
-
-#[derive(Debug, Args)]
-struct CheckArgs {
-    /// The site file (TOML).
-    #[arg(value_name = "SITE.toml")]
-    site: std::path::PathBuf,
-    /// Print one JSON object instead of a table.
-    #[arg(long)]
-    json: bool,
-    /// Gas model.
-    #[arg(long, value_enum, default_value = "ideal")]
-    model: ModelKind,
-}
-
-fn parse_date(s: &str) -> Result<chrono::DateTime<chrono::FixedOffset>, String> {
-    chrono::DateTime::parse_from_rfc3339(s.trim()).map_err(|e| {
-        format!("'{s}' is not an RFC 3339 date and time ({e}); accepted: e.g. 2026-03-14T09:30:00+01:00 or 2026-03-14T08:30:00Z")
-    })
-}
 
 /// Options every calculation takes.
 #[derive(Debug, Args)]
-struct Common {
+pub(super) struct Common {
     /// Gas: air, nitrogen, oxygen, argon, helium, hydrogen, methane, carbon-dioxide (or N2, O2, Ar, He, H2, CH4, CO2).
     #[arg(long, value_name = "GAS", value_parser = parse_gas)]
     gas: &'static Gas,
@@ -153,7 +47,7 @@ struct Common {
 }
 
 #[derive(Debug, Args)]
-struct EnergyArgs {
+pub(super) struct EnergyArgs {
     #[command(flatten)]
     common: Common,
     /// Gas volume of the vessel (e.g. 2 m3, 500 L, 20 gal).
@@ -183,7 +77,7 @@ struct EnergyArgs {
 }
 
 #[derive(Debug, Args)]
-struct FillArgs {
+pub(super) struct FillArgs {
     #[command(flatten)]
     common: Common,
     /// Cylinder internal (water) volume.
@@ -225,7 +119,7 @@ struct FillArgs {
 
 /// Options of the wall heat-transfer model, shared by fill and vent.
 #[derive(Debug, Args)]
-struct WallArgs {
+pub(super) struct WallArgs {
     /// Heat exchanged between gas and wall: lumped (gas and wall nodes) or none (the adiabatic bound).
     #[arg(long, value_enum)]
     heat_transfer: Option<HeatTransfer>,
@@ -241,7 +135,7 @@ struct WallArgs {
 }
 
 #[derive(Debug, Args)]
-struct VentArgs {
+pub(super) struct VentArgs {
     #[command(flatten)]
     common: Common,
     /// Gas volume of the vessel.
@@ -293,18 +187,11 @@ struct VentArgs {
     depressuring_limit: Time,
 }
 
-#[derive(Debug, Args)]
-struct GasesArgs {
-    /// Print one JSON object instead of a table.
-    #[arg(long)]
-    json: bool,
-}
-
-fn parse_gas(s: &str) -> Result<&'static Gas, String> {
+pub(super) fn parse_gas(s: &str) -> Result<&'static Gas, String> {
     Gas::find(s).ok_or_else(|| format!("unknown gas '{s}'; accepted: {}", Gas::accepted_names()))
 }
 
-fn parse_cd(s: &str) -> Result<f64, String> {
+pub(super) fn parse_cd(s: &str) -> Result<f64, String> {
     let cd: f64 = s.trim().parse().map_err(|_| {
         format!("'{s}' is not a number; accepted: a discharge coefficient in (0, 1], e.g. 0.61")
     })?;
@@ -315,343 +202,8 @@ fn parse_cd(s: &str) -> Result<f64, String> {
     }
 }
 
-/// Why a run stopped without a result.
-#[derive(Debug)]
-pub enum Failure {
-    /// The user's input; exit 2.
-    Input(InputError),
-    /// A user's file (site or template); exit 2.
-    File(FileError),
-    /// Refused for a reason the message gives (a record that would be overwritten, a bad
-    /// environment variable); exit 2.
-    Refused(String),
-    /// A defect or an I/O failure; exit 1.
-    Internal(String),
-}
-
-impl From<FileError> for Failure {
-    fn from(e: FileError) -> Failure {
-        Failure::File(e)
-    }
-}
-
-impl From<InputError> for Failure {
-    fn from(e: InputError) -> Failure {
-        Failure::Input(e)
-    }
-}
-
-/// Runs the command line `args` and writes its output to `out`; returns the exit code.
-pub fn run(args: impl IntoIterator<Item = std::ffi::OsString>, out: &mut dyn Write) -> i32 {
-    let cli = match Cli::try_parse_from(args) {
-        Ok(cli) => cli,
-        Err(e) => {
-            let code = if e.use_stderr() {
-                EXIT_BAD_INPUT
-            } else {
-                EXIT_OK
-            };
-            // A failed write of help or an error message leaves nothing more to do.
-            let _ = e.print();
-            return code;
-        }
-    };
-    match execute(cli.command) {
-        Ok((text, code)) => match out.write_all(text.as_bytes()).and_then(|_| out.flush()) {
-            Ok(()) => code,
-            // A closed pipe (`pvhazard ... | head`) is the reader's choice, not an error.
-            Err(e) if e.kind() == std::io::ErrorKind::BrokenPipe => EXIT_OK,
-            Err(e) => {
-                eprintln!("pvhazard: error: cannot write the output: {e}");
-                EXIT_INTERNAL
-            }
-        },
-        Err(Failure::Input(e)) => {
-            eprintln!("pvhazard: error: --{}", e);
-            EXIT_BAD_INPUT
-        }
-        Err(Failure::File(e)) => {
-            eprintln!("pvhazard: error: {e}");
-            EXIT_BAD_INPUT
-        }
-        Err(Failure::Refused(msg)) => {
-            eprintln!("pvhazard: error: {msg}");
-            EXIT_BAD_INPUT
-        }
-        Err(Failure::Internal(msg)) => {
-            eprintln!("pvhazard: {msg}");
-            EXIT_INTERNAL
-        }
-    }
-}
-
-/// Runs a command: its output and exit code.
-fn execute(command: Command) -> Result<(String, i32), Failure> {
-    let computed = |text: String| (text, EXIT_OK);
-    match command {
-        Command::Energy(a) => energy_command(a).map(computed),
-        Command::Fill(a) => fill_command(a).map(computed),
-        Command::Vent(a) => vent_command(a).map(computed),
-        Command::Gases(a) => gases_command(a).map(computed),
-        Command::Worksheet(a) => worksheet_command(a).map(computed),
-        Command::Check(a) => check_command(a),
-    }
-}
-
-/// The gas model `kind` for `gas`, for site items.
-fn site_model(kind: ModelKind, gas: &'static Gas) -> Result<Box<dyn GasModel>, InputError> {
-    match kind {
-        ModelKind::Ideal => Ok(Box::new(IdealGas::new(gas))),
-        ModelKind::Real => Err(InputError::new(
-            "model",
-            "real",
-            "the real-gas model is not available yet in this version; accepted: ideal",
-        )),
-    }
-}
-
-/// The worksheet date: `--date`, else SOURCE_DATE_EPOCH, else now; in the site's zone
-/// unless `--date` gave its own offset.
-fn worksheet_date(
-    given: Option<chrono::DateTime<chrono::FixedOffset>>,
-    zone: chrono::FixedOffset,
-) -> Result<chrono::DateTime<chrono::FixedOffset>, Failure> {
-    if let Some(d) = given {
-        return Ok(d);
-    }
-    if let Ok(epoch) = std::env::var("SOURCE_DATE_EPOCH") {
-        let refused = || {
-            Failure::Refused(format!(
-                "SOURCE_DATE_EPOCH = '{epoch}': not a number of seconds since 1970-01-01 UTC in range; accepted: e.g. 1773477000, or unset it and give --date"
-            ))
-        };
-        let secs: i64 = epoch.trim().parse().map_err(|_| refused())?;
-        let utc = chrono::DateTime::from_timestamp(secs, 0).ok_or_else(refused)?;
-        return Ok(utc.with_timezone(&zone));
-    }
-    Ok(chrono::Utc::now().with_timezone(&zone))
-}
-
-/// The items `--tag` names (in the order given), or every item with `--all`.
-fn selected<'a>(
-    site: &'a Site,
-    tags: &[String],
-    all: bool,
-) -> Result<Vec<&'a Equipment>, InputError> {
-    if all {
-        return Ok(site.equipment.iter().collect());
-    }
-    let mut chosen: Vec<&Equipment> = Vec::new();
-    for t in tags {
-        let item = site
-            .equipment
-            .iter()
-            .find(|e| e.tag().eq_ignore_ascii_case(t))
-            .ok_or_else(|| {
-                InputError::new(
-                    "tag",
-                    t.clone(),
-                    format!(
-                        "no item with this tag on the site; accepted: {}",
-                        site.equipment
-                            .iter()
-                            .map(|e| e.tag())
-                            .collect::<Vec<_>>()
-                            .join(", ")
-                    ),
-                )
-            })?;
-        // A tag given twice is one worksheet, not a clash with itself.
-        if !chosen.iter().any(|c| std::ptr::eq(*c, item)) {
-            chosen.push(item);
-        }
-    }
-    Ok(chosen)
-}
-
-fn worksheet_command(a: WorksheetArgs) -> Result<String, Failure> {
-    let site = site::load(&a.site)?;
-    let items = selected(&site, &a.tag, a.all)?;
-    let date = worksheet_date(a.date, site.time_zone)?;
-    let meta = Meta {
-        work_order: a.work_order.clone(),
-        prepared_by: a.prepared_by.clone(),
-        date,
-    };
-    let given_template = a.template.as_deref().map(template::resolve).transpose()?;
-    // Every worksheet is computed and rendered before any is written, so a bad item leaves
-    // no partial batch behind.
-    let progress = a.all && std::io::stderr().is_terminal();
-    let mut records = Vec::new();
-    for (i, item) in items.iter().enumerate() {
-        if progress {
-            eprint!("\r[{}/{}] {:<24}", i + 1, items.len(), item.tag());
-        }
-        let template = match &given_template {
-            Some(t) => t.clone(),
-            None => template::resolve(template::default_for(item.kind()))?,
-        };
-        let model = site_model(a.model, item.gas())?;
-        let sheet = worksheet::build(model.as_ref(), &site, item, &template, &meta)?;
-        let pdf =
-            render_pdf(&sheet.document, a.paper).map_err(|e| Failure::Internal(e.to_string()))?;
-        let json = to_json(&sheet.record).map_err(Failure::Internal)? + "\n";
-        let stem = record::stem(
-            &site.name,
-            item.tag(),
-            &template.name,
-            a.work_order.as_deref(),
-            &date.format("%Y-%m-%d").to_string(),
-        );
-        records.push((item.tag().to_string(), sheet.highest, stem, pdf, json));
-    }
-    if progress {
-        eprintln!();
-    }
-    std::fs::create_dir_all(&a.out).map_err(|e| {
-        Failure::Internal(format!("cannot create the folder {}: {e}", a.out.display()))
-    })?;
-    let batches: Vec<record::Files> = records
-        .iter()
-        .map(|(_, _, stem, pdf, json)| record::Files {
-            files: vec![
-                (a.out.join(format!("{stem}.json")), json.as_bytes()),
-                (a.out.join(format!("{stem}.pdf")), pdf.as_slice()),
-            ],
-        })
-        .collect();
-    if !a.force {
-        if let Some(p) = batches.iter().flat_map(|b| b.existing()).next() {
-            return Err(Failure::Refused(
-                record::RecordError::Exists(p.to_path_buf()).to_string(),
-            ));
-        }
-    }
-    let mut text = String::new();
-    for ((tag, highest, _, _, _), batch) in records.iter().zip(&batches) {
-        let written = batch.write(a.force).map_err(|e| match e {
-            record::RecordError::Exists(_) => Failure::Refused(e.to_string()),
-            record::RecordError::Io { .. } => Failure::Internal(e.to_string()),
-        })?;
-        let names: Vec<String> = written.iter().map(|p| p.display().to_string()).collect();
-        text.push_str(&format!(
-            "{tag}: {} (highest caution: {})\n",
-            names.join(", "),
-            highest.word()
-        ));
-    }
-    Ok(text)
-}
-
-fn check_command(a: CheckArgs) -> Result<(String, i32), Failure> {
-    #[derive(serde::Serialize)]
-    struct Item {
-        tag: String,
-        kind: EquipmentKind,
-        gas: &'static str,
-        template: String,
-        stored_energy_j: uom::si::f64::Energy,
-        highest_level: Level,
-        cautions: Vec<Caution>,
-    }
-    #[derive(serde::Serialize)]
-    struct Summary {
-        command: &'static str,
-        tool_version: &'static str,
-        site: String,
-        items: Vec<Item>,
-        danger: bool,
-    }
-    let site = site::load(&a.site)?;
-    // The check's results do not depend on the date; a fixed one keeps runs identical.
-    let meta = Meta {
-        work_order: None,
-        prepared_by: None,
-        date: chrono::DateTime::from_timestamp(0, 0)
-            .unwrap_or_default()
-            .with_timezone(&site.time_zone),
-    };
-    let mut items = Vec::new();
-    for item in &site.equipment {
-        let template = template::resolve(template::default_for(item.kind()))?;
-        let model = site_model(a.model, item.gas())?;
-        let sheet = worksheet::build(model.as_ref(), &site, item, &template, &meta)?;
-        items.push(Item {
-            tag: item.tag().to_string(),
-            kind: item.kind(),
-            gas: item.gas().name,
-            template: template.name.clone(),
-            stored_energy_j: sheet.stored_energy,
-            highest_level: sheet.highest,
-            cautions: sheet.record.cautions,
-        });
-    }
-    items.sort_by(|x, y| {
-        y.highest_level
-            .cmp(&x.highest_level)
-            .then(y.stored_energy_j.value.total_cmp(&x.stored_energy_j.value))
-    });
-    let danger = items.iter().any(|i| i.highest_level == Level::Danger);
-    let code = if danger { EXIT_DANGER } else { EXIT_OK };
-    if a.json {
-        let summary = Summary {
-            command: "check",
-            tool_version: crate::report::TOOL_VERSION,
-            site: site.name.clone(),
-            items,
-            danger,
-        };
-        return Ok((to_json(&summary).map_err(Failure::Internal)? + "\n", code));
-    }
-    let display = crate::units::Display {
-        system: site.units,
-        ambient: site.ambient,
-    };
-    let mut text = format!(
-        "{} — {} item(s), ranked by hazard\n\n",
-        site.name,
-        items.len()
-    );
-    text.push_str(&format!(
-        "{:<12} {:<9} {:<15} {:<8} {}\n",
-        "tag", "kind", "gas", "highest", "stored energy (isentropic)"
-    ));
-    for i in &items {
-        text.push_str(&format!(
-            "{:<12} {:<9} {:<15} {:<8} {}\n",
-            i.tag,
-            format!("{:?}", i.kind).to_lowercase(),
-            i.gas,
-            i.highest_level.word(),
-            display.energy(i.stored_energy_j)
-        ));
-    }
-    for i in items.iter().filter(|i| i.highest_level >= Level::Warning) {
-        text.push_str(&format!("\n{}:\n", i.tag));
-        for c in i.cautions.iter().filter(|c| c.level >= Level::Warning) {
-            text.push_str(&format!("  {:<8} {}\n", c.level.word(), c.render(&display)));
-        }
-    }
-    if danger {
-        text.push_str("\nAt least one item raises DANGER (exit code 3).\n");
-    }
-    Ok((text, code))
-}
-
-/// The gas model asked for.
-fn model_for(common: &Common) -> Result<Box<dyn GasModel>, InputError> {
-    match common.model {
-        ModelKind::Ideal => Ok(Box::new(IdealGas::new(common.gas))),
-        ModelKind::Real => Err(InputError::new(
-            "model",
-            "real",
-            "the real-gas model is not available yet in this version; accepted: ideal",
-        )),
-    }
-}
-
 /// The absolute ambient pressure from `--ambient-pressure` or `--elevation`.
-fn ambient(common: &Common) -> Result<Pressure, InputError> {
+pub(super) fn ambient(common: &Common) -> Result<Pressure, InputError> {
     let standard = Pressure::new::<pascal>(atmosphere::SEA_LEVEL_PRESSURE_PA);
     let p = match (common.ambient_pressure, common.elevation) {
         (Some(PressureReading::Absolute(p)), _) => p,
@@ -677,7 +229,7 @@ fn ambient(common: &Common) -> Result<Pressure, InputError> {
 }
 
 /// A gauge or absolute reading made absolute, refused if at or below vacuum.
-fn absolute(
+pub(super) fn absolute(
     field: &str,
     reading: PressureReading,
     ambient: Pressure,
@@ -703,7 +255,7 @@ fn absolute(
     Ok(p)
 }
 
-fn render<R: serde::Serialize>(
+pub(super) fn render<R: serde::Serialize>(
     report: &R,
     json: bool,
     system: UnitSystem,
@@ -718,8 +270,8 @@ where
     }
 }
 
-fn energy_command(a: EnergyArgs) -> Result<String, Failure> {
-    let model = model_for(&a.common)?;
+pub(super) fn energy_command(a: EnergyArgs) -> Result<String, Failure> {
+    let model = super::gas_model(a.common.model, a.common.gas)?;
     let pa = ambient(&a.common)?;
     let mut overpressures: Vec<Pressure> = energy::DEFAULT_OVERPRESSURES_PA
         .iter()
@@ -742,8 +294,8 @@ fn energy_command(a: EnergyArgs) -> Result<String, Failure> {
     render(&report, a.common.json, a.common.units)
 }
 
-fn fill_command(a: FillArgs) -> Result<String, Failure> {
-    let model = model_for(&a.common)?;
+pub(super) fn fill_command(a: FillArgs) -> Result<String, Failure> {
+    let model = super::gas_model(a.common.model, a.common.gas)?;
     let pa = ambient(&a.common)?;
     let input = FillInput {
         volume: a.volume,
@@ -840,7 +392,7 @@ fn fill_command(a: FillArgs) -> Result<String, Failure> {
 }
 
 /// The heat-transfer settings from the wall options, checked.
-fn exchange(
+pub(super) fn exchange(
     w: &WallArgs,
     wall: Wall,
     ambient_temperature: ThermodynamicTemperature,
@@ -866,7 +418,13 @@ fn exchange(
 }
 
 /// Refuses `value` outside (lo, hi].
-fn check_range(field: &str, value: f64, unit: &str, lo: f64, hi: f64) -> Result<(), InputError> {
+pub(super) fn check_range(
+    field: &str,
+    value: f64,
+    unit: &str,
+    lo: f64,
+    hi: f64,
+) -> Result<(), InputError> {
     if value.is_finite() && value > lo && value <= hi {
         Ok(())
     } else {
@@ -879,7 +437,10 @@ fn check_range(field: &str, value: f64, unit: &str, lo: f64, hi: f64) -> Result<
 }
 
 /// Writes a transient's samples as CSV, never over an existing file.
-fn write_csv(path: &std::path::Path, samples: &[transient::Sample]) -> Result<(), Failure> {
+pub(super) fn write_csv(
+    path: &std::path::Path,
+    samples: &[transient::Sample],
+) -> Result<(), Failure> {
     use uom::si::thermodynamic_temperature::kelvin;
     let mut text = String::from("time_s,pressure_pa,gas_temperature_k,wall_temperature_k\n");
     for s in samples {
@@ -903,8 +464,8 @@ fn write_csv(path: &std::path::Path, samples: &[transient::Sample]) -> Result<()
     })
 }
 
-fn vent_command(a: VentArgs) -> Result<String, Failure> {
-    let model = model_for(&a.common)?;
+pub(super) fn vent_command(a: VentArgs) -> Result<String, Failure> {
+    let model = super::gas_model(a.common.model, a.common.gas)?;
     let pa = ambient(&a.common)?;
     let down_to = match a.down_to {
         Some(r) => absolute("down-to", r, pa)?,
@@ -972,71 +533,4 @@ fn vent_command(a: VentArgs) -> Result<String, Failure> {
         report.depressuring = dep;
     }
     render(&report, a.common.json, a.common.units)
-}
-
-fn gases_command(a: GasesArgs) -> Result<String, Failure> {
-    #[derive(serde::Serialize)]
-    struct Row {
-        name: &'static str,
-        formula: &'static str,
-        molar_mass_kg_per_mol: f64,
-        specific_gas_constant_j_per_kg_k: f64,
-        cp_300k_j_per_kg_k: f64,
-        gamma_300k: f64,
-        critical_temperature_k: f64,
-        critical_pressure_pa: f64,
-        hazard: crate::gas::GasHazard,
-        equation_of_state: &'static str,
-    }
-    #[derive(serde::Serialize)]
-    struct Gases {
-        command: &'static str,
-        tool_version: &'static str,
-        gases: Vec<Row>,
-        sources: &'static str,
-    }
-    const SOURCES: &str = "molar mass: IUPAC/CIAAW standard atomic weights 2021 (air: CIPM-2007 dry air); cp at 300 K: NIST-JANAF Thermochemical Tables (Chase 1998), air: Lemmon et al. 2000; critical points: each gas's reference equation of state";
-    let rows: Vec<Row> = GASES
-        .iter()
-        .map(|g| Row {
-            name: g.name,
-            formula: g.formula,
-            molar_mass_kg_per_mol: g.molar_mass_kg_per_mol,
-            specific_gas_constant_j_per_kg_k: g.specific_gas_constant(),
-            cp_300k_j_per_kg_k: g.cp_300k_j_per_kg_k,
-            gamma_300k: g.gamma_300k(),
-            critical_temperature_k: g.critical_temperature_k,
-            critical_pressure_pa: g.critical_pressure_pa,
-            hazard: g.hazard,
-            equation_of_state: g.eos,
-        })
-        .collect();
-    if a.json {
-        let all = Gases {
-            command: "gases",
-            tool_version: crate::report::TOOL_VERSION,
-            gases: rows,
-            sources: SOURCES,
-        };
-        return to_json(&all).map(|s| s + "\n").map_err(Failure::Internal);
-    }
-    let mut s = format!(
-        "{:<15} {:<8} {:>10} {:>11} {:>11} {:>7} {:>9} {:>10}\n",
-        "gas", "formula", "M g/mol", "R J/(kg K)", "cp J/(kg K)", "gamma", "Tc K", "pc bar(a)"
-    );
-    for r in &rows {
-        s.push_str(&format!(
-            "{:<15} {:<8} {:>10.4} {:>11.2} {:>11.1} {:>7.4} {:>9.2} {:>10.3}\n",
-            r.name,
-            r.formula,
-            r.molar_mass_kg_per_mol * 1e3,
-            r.specific_gas_constant_j_per_kg_k,
-            r.cp_300k_j_per_kg_k,
-            r.gamma_300k,
-            r.critical_temperature_k,
-            r.critical_pressure_pa / 1e5
-        ));
-    }
-    s.push_str(&format!("\nSources: {SOURCES}.\n"));
-    Ok(s)
 }

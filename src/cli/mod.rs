@@ -1,0 +1,149 @@
+//! The command line: clap definitions, translated once into typed rule inputs.
+//!
+//! Quantities are parsed by clap value parsers (so a bad value is reported with its option
+//! name), gauge readings become absolute here, and nothing downstream sees a string.
+
+mod calc;
+mod gases;
+mod records;
+
+use std::io::Write;
+
+use clap::{Parser, Subcommand};
+
+use crate::gas::{Gas, GasModel, IdealGas, ModelKind};
+use crate::source::FileError;
+use crate::InputError;
+use calc::{EnergyArgs, FillArgs, VentArgs};
+use gases::GasesArgs;
+use records::{CheckArgs, WorksheetArgs};
+
+/// Exit code: computed (whatever the cautions).
+pub const EXIT_OK: i32 = 0;
+/// Exit code: the program failed for a reason other than the input (a defect).
+pub const EXIT_INTERNAL: i32 = 1;
+/// Exit code: bad input; the message names the field, the value and what is accepted.
+pub const EXIT_BAD_INPUT: i32 = 2;
+/// Exit code of `check`: the site was checked and some item raises DANGER.
+pub const EXIT_DANGER: i32 = 3;
+
+/// Stored energy, safe distances, blow-down times and fill temperatures of compressed-gas
+/// vessels, with cautions. Every quantity takes a unit; every pressure says gauge or
+/// absolute (`10 barg`, `2.5 bara`, `150 psig`, `101.3 kPa(a)`).
+#[derive(Debug, Parser)]
+#[command(name = "pvhazard", version, about, long_about = None)]
+pub struct Cli {
+    #[command(subcommand)]
+    command: Command,
+}
+
+#[derive(Debug, Subcommand)]
+enum Command {
+    /// Stored expansion energy, TNT equivalent, exclusion distance and overpressure standoffs.
+    Energy(EnergyArgs),
+    /// Adiabatic fast-fill temperature, settled pressure and fill-to pressure of a cylinder.
+    Fill(FillArgs),
+    /// Blow-down time through an orifice, final gas temperature, or the orifice for a time.
+    Vent(VentArgs),
+    /// The gases known, with their constants and sources.
+    Gases(GasesArgs),
+    /// Dated PDF worksheets, each with a JSON record beside it, for equipment on a site file.
+    Worksheet(WorksheetArgs),
+    /// Checks a site file and ranks its equipment by hazard; exits 3 if any item raises DANGER.
+    Check(CheckArgs),
+}
+
+/// Why a run stopped without a result.
+#[derive(Debug)]
+pub enum Failure {
+    /// The user's input; exit 2.
+    Input(InputError),
+    /// A user's file (site or template); exit 2.
+    File(FileError),
+    /// Refused for a reason the message gives (a record that would be overwritten, a bad
+    /// environment variable); exit 2.
+    Refused(String),
+    /// A defect or an I/O failure; exit 1.
+    Internal(String),
+}
+
+impl From<FileError> for Failure {
+    fn from(e: FileError) -> Failure {
+        Failure::File(e)
+    }
+}
+
+impl From<InputError> for Failure {
+    fn from(e: InputError) -> Failure {
+        Failure::Input(e)
+    }
+}
+
+/// Runs the command line `args` and writes its output to `out`; returns the exit code.
+pub fn run(args: impl IntoIterator<Item = std::ffi::OsString>, out: &mut dyn Write) -> i32 {
+    let cli = match Cli::try_parse_from(args) {
+        Ok(cli) => cli,
+        Err(e) => {
+            let code = if e.use_stderr() {
+                EXIT_BAD_INPUT
+            } else {
+                EXIT_OK
+            };
+            // A failed write of help or an error message leaves nothing more to do.
+            let _ = e.print();
+            return code;
+        }
+    };
+    match execute(cli.command) {
+        Ok((text, code)) => match out.write_all(text.as_bytes()).and_then(|_| out.flush()) {
+            Ok(()) => code,
+            // A closed pipe (`pvhazard ... | head`) is the reader's choice, not an error.
+            Err(e) if e.kind() == std::io::ErrorKind::BrokenPipe => EXIT_OK,
+            Err(e) => {
+                eprintln!("pvhazard: error: cannot write the output: {e}");
+                EXIT_INTERNAL
+            }
+        },
+        Err(Failure::Input(e)) => {
+            eprintln!("pvhazard: error: --{}", e);
+            EXIT_BAD_INPUT
+        }
+        Err(Failure::File(e)) => {
+            eprintln!("pvhazard: error: {e}");
+            EXIT_BAD_INPUT
+        }
+        Err(Failure::Refused(msg)) => {
+            eprintln!("pvhazard: error: {msg}");
+            EXIT_BAD_INPUT
+        }
+        Err(Failure::Internal(msg)) => {
+            eprintln!("pvhazard: {msg}");
+            EXIT_INTERNAL
+        }
+    }
+}
+
+/// The gas model `kind` for `gas`.
+fn gas_model(kind: ModelKind, gas: &'static Gas) -> Result<Box<dyn GasModel>, InputError> {
+    match kind {
+        ModelKind::Ideal => Ok(Box::new(IdealGas::new(gas))),
+        ModelKind::Real => Err(InputError::new(
+            "model",
+            "real",
+            "the real-gas model is not available yet in this version; accepted: ideal",
+        )),
+    }
+}
+
+/// Runs a command: its output and exit code.
+fn execute(command: Command) -> Result<(String, i32), Failure> {
+    let computed = |text: String| (text, EXIT_OK);
+    match command {
+        Command::Energy(a) => calc::energy_command(a).map(computed),
+        Command::Fill(a) => calc::fill_command(a).map(computed),
+        Command::Vent(a) => calc::vent_command(a).map(computed),
+        Command::Gases(a) => gases::gases_command(a).map(computed),
+        Command::Worksheet(a) => records::worksheet_command(a).map(computed),
+        Command::Check(a) => records::check_command(a),
+    }
+}

@@ -1,0 +1,304 @@
+//! The site commands: dated worksheets with their records, and the site check.
+
+use std::io::IsTerminal;
+
+use clap::Args;
+
+use super::{Failure, EXIT_DANGER, EXIT_OK};
+use crate::caution::{Caution, Level};
+use crate::gas::ModelKind;
+use crate::record;
+use crate::report::{render_pdf, to_json, Paper};
+use crate::site::{self, Equipment, EquipmentKind, Site};
+use crate::template;
+use crate::worksheet::{self, Meta};
+use crate::InputError;
+
+#[derive(Debug, Args)]
+pub(super) struct WorksheetArgs {
+    /// The site file (TOML).
+    #[arg(value_name = "SITE.toml")]
+    site: std::path::PathBuf,
+    /// Tag of an item on the site; repeatable.
+    #[arg(
+        long,
+        value_name = "TAG",
+        required_unless_present = "all",
+        conflicts_with = "all"
+    )]
+    tag: Vec<String>,
+    /// Every item on the site.
+    #[arg(long)]
+    all: bool,
+    /// A built-in template's name (pre-maintenance, fill-check, pressure-test) or a template file [default: pre-maintenance for vessels, fill-check for cylinders].
+    #[arg(long, value_name = "NAME|PATH")]
+    template: Option<String>,
+    /// The work order the worksheet is attached to.
+    #[arg(long, value_name = "ID")]
+    work_order: Option<String>,
+    /// The name of the person preparing the worksheet.
+    #[arg(long, value_name = "NAME")]
+    prepared_by: Option<String>,
+    /// The worksheet's date and time, RFC 3339 (e.g. 2026-03-14T09:30:00+01:00) [default: SOURCE_DATE_EPOCH if set, else now, in the site's time zone].
+    #[arg(long, value_name = "RFC3339", value_parser = parse_date)]
+    date: Option<chrono::DateTime<chrono::FixedOffset>>,
+    /// Paper size.
+    #[arg(long, value_enum, default_value = "a4")]
+    paper: Paper,
+    /// Folder for the PDFs and their JSON records (created if missing).
+    #[arg(long, value_name = "DIR", default_value = ".")]
+    out: std::path::PathBuf,
+    /// Replace existing records of the same name.
+    #[arg(long)]
+    force: bool,
+    /// Gas model.
+    #[arg(long, value_enum, default_value = "ideal")]
+    model: ModelKind,
+}
+
+#[derive(Debug, Args)]
+pub(super) struct CheckArgs {
+    /// The site file (TOML).
+    #[arg(value_name = "SITE.toml")]
+    site: std::path::PathBuf,
+    /// Print one JSON object instead of a table.
+    #[arg(long)]
+    json: bool,
+    /// Gas model.
+    #[arg(long, value_enum, default_value = "ideal")]
+    model: ModelKind,
+}
+
+pub(super) fn parse_date(s: &str) -> Result<chrono::DateTime<chrono::FixedOffset>, String> {
+    chrono::DateTime::parse_from_rfc3339(s.trim()).map_err(|e| {
+        format!("'{s}' is not an RFC 3339 date and time ({e}); accepted: e.g. 2026-03-14T09:30:00+01:00 or 2026-03-14T08:30:00Z")
+    })
+}
+
+/// The worksheet date: `--date`, else SOURCE_DATE_EPOCH, else now; in the site's zone
+/// unless `--date` gave its own offset.
+pub(super) fn worksheet_date(
+    given: Option<chrono::DateTime<chrono::FixedOffset>>,
+    zone: chrono::FixedOffset,
+) -> Result<chrono::DateTime<chrono::FixedOffset>, Failure> {
+    if let Some(d) = given {
+        return Ok(d);
+    }
+    if let Ok(epoch) = std::env::var("SOURCE_DATE_EPOCH") {
+        let refused = || {
+            Failure::Refused(format!(
+                "SOURCE_DATE_EPOCH = '{epoch}': not a number of seconds since 1970-01-01 UTC in range; accepted: e.g. 1773477000, or unset it and give --date"
+            ))
+        };
+        let secs: i64 = epoch.trim().parse().map_err(|_| refused())?;
+        let utc = chrono::DateTime::from_timestamp(secs, 0).ok_or_else(refused)?;
+        return Ok(utc.with_timezone(&zone));
+    }
+    Ok(chrono::Utc::now().with_timezone(&zone))
+}
+
+/// The items `--tag` names (in the order given), or every item with `--all`.
+pub(super) fn selected<'a>(
+    site: &'a Site,
+    tags: &[String],
+    all: bool,
+) -> Result<Vec<&'a Equipment>, InputError> {
+    if all {
+        return Ok(site.equipment.iter().collect());
+    }
+    let mut chosen: Vec<&Equipment> = Vec::new();
+    for t in tags {
+        let item = site
+            .equipment
+            .iter()
+            .find(|e| e.tag().eq_ignore_ascii_case(t))
+            .ok_or_else(|| {
+                InputError::new(
+                    "tag",
+                    t.clone(),
+                    format!(
+                        "no item with this tag on the site; accepted: {}",
+                        site.equipment
+                            .iter()
+                            .map(|e| e.tag())
+                            .collect::<Vec<_>>()
+                            .join(", ")
+                    ),
+                )
+            })?;
+        // A tag given twice is one worksheet, not a clash with itself.
+        if !chosen.iter().any(|c| std::ptr::eq(*c, item)) {
+            chosen.push(item);
+        }
+    }
+    Ok(chosen)
+}
+
+pub(super) fn worksheet_command(a: WorksheetArgs) -> Result<String, Failure> {
+    let site = site::load(&a.site)?;
+    let items = selected(&site, &a.tag, a.all)?;
+    let date = worksheet_date(a.date, site.time_zone)?;
+    let meta = Meta {
+        work_order: a.work_order.clone(),
+        prepared_by: a.prepared_by.clone(),
+        date,
+    };
+    let given_template = a.template.as_deref().map(template::resolve).transpose()?;
+    // Every worksheet is computed and rendered before any is written, so a bad item leaves
+    // no partial batch behind.
+    let progress = a.all && std::io::stderr().is_terminal();
+    let mut records = Vec::new();
+    for (i, item) in items.iter().enumerate() {
+        if progress {
+            eprint!("\r[{}/{}] {:<24}", i + 1, items.len(), item.tag());
+        }
+        let template = match &given_template {
+            Some(t) => t.clone(),
+            None => template::resolve(template::default_for(item.kind()))?,
+        };
+        let model = super::gas_model(a.model, item.gas())?;
+        let sheet = worksheet::build(model.as_ref(), &site, item, &template, &meta)?;
+        let pdf =
+            render_pdf(&sheet.document, a.paper).map_err(|e| Failure::Internal(e.to_string()))?;
+        let json = to_json(&sheet.record).map_err(Failure::Internal)? + "\n";
+        let stem = record::stem(
+            &site.name,
+            item.tag(),
+            &template.name,
+            a.work_order.as_deref(),
+            &date.format("%Y-%m-%d").to_string(),
+        );
+        records.push((item.tag().to_string(), sheet.highest, stem, pdf, json));
+    }
+    if progress {
+        eprintln!();
+    }
+    std::fs::create_dir_all(&a.out).map_err(|e| {
+        Failure::Internal(format!("cannot create the folder {}: {e}", a.out.display()))
+    })?;
+    let batches: Vec<record::Files> = records
+        .iter()
+        .map(|(_, _, stem, pdf, json)| record::Files {
+            files: vec![
+                (a.out.join(format!("{stem}.json")), json.as_bytes()),
+                (a.out.join(format!("{stem}.pdf")), pdf.as_slice()),
+            ],
+        })
+        .collect();
+    if !a.force {
+        if let Some(p) = batches.iter().flat_map(|b| b.existing()).next() {
+            return Err(Failure::Refused(
+                record::RecordError::Exists(p.to_path_buf()).to_string(),
+            ));
+        }
+    }
+    let mut text = String::new();
+    for ((tag, highest, _, _, _), batch) in records.iter().zip(&batches) {
+        let written = batch.write(a.force).map_err(|e| match e {
+            record::RecordError::Exists(_) => Failure::Refused(e.to_string()),
+            record::RecordError::Io { .. } => Failure::Internal(e.to_string()),
+        })?;
+        let names: Vec<String> = written.iter().map(|p| p.display().to_string()).collect();
+        text.push_str(&format!(
+            "{tag}: {} (highest caution: {})\n",
+            names.join(", "),
+            highest.word()
+        ));
+    }
+    Ok(text)
+}
+
+pub(super) fn check_command(a: CheckArgs) -> Result<(String, i32), Failure> {
+    #[derive(serde::Serialize)]
+    struct Item {
+        tag: String,
+        kind: EquipmentKind,
+        gas: &'static str,
+        template: String,
+        stored_energy_j: uom::si::f64::Energy,
+        highest_level: Level,
+        cautions: Vec<Caution>,
+    }
+    #[derive(serde::Serialize)]
+    struct Summary {
+        command: &'static str,
+        tool_version: &'static str,
+        site: String,
+        items: Vec<Item>,
+        danger: bool,
+    }
+    let site = site::load(&a.site)?;
+    // The check's results do not depend on the date; a fixed one keeps runs identical.
+    let meta = Meta {
+        work_order: None,
+        prepared_by: None,
+        date: chrono::DateTime::from_timestamp(0, 0)
+            .unwrap_or_default()
+            .with_timezone(&site.time_zone),
+    };
+    let mut items = Vec::new();
+    for item in &site.equipment {
+        let template = template::resolve(template::default_for(item.kind()))?;
+        let model = super::gas_model(a.model, item.gas())?;
+        let sheet = worksheet::build(model.as_ref(), &site, item, &template, &meta)?;
+        items.push(Item {
+            tag: item.tag().to_string(),
+            kind: item.kind(),
+            gas: item.gas().name,
+            template: template.name.clone(),
+            stored_energy_j: sheet.stored_energy,
+            highest_level: sheet.highest,
+            cautions: sheet.record.cautions,
+        });
+    }
+    items.sort_by(|x, y| {
+        y.highest_level
+            .cmp(&x.highest_level)
+            .then(y.stored_energy_j.value.total_cmp(&x.stored_energy_j.value))
+    });
+    let danger = items.iter().any(|i| i.highest_level == Level::Danger);
+    let code = if danger { EXIT_DANGER } else { EXIT_OK };
+    if a.json {
+        let summary = Summary {
+            command: "check",
+            tool_version: crate::report::TOOL_VERSION,
+            site: site.name.clone(),
+            items,
+            danger,
+        };
+        return Ok((to_json(&summary).map_err(Failure::Internal)? + "\n", code));
+    }
+    let display = crate::units::Display {
+        system: site.units,
+        ambient: site.ambient,
+    };
+    let mut text = format!(
+        "{} — {} item(s), ranked by hazard\n\n",
+        site.name,
+        items.len()
+    );
+    text.push_str(&format!(
+        "{:<12} {:<9} {:<15} {:<8} {}\n",
+        "tag", "kind", "gas", "highest", "stored energy (isentropic)"
+    ));
+    for i in &items {
+        text.push_str(&format!(
+            "{:<12} {:<9} {:<15} {:<8} {}\n",
+            i.tag,
+            format!("{:?}", i.kind).to_lowercase(),
+            i.gas,
+            i.highest_level.word(),
+            display.energy(i.stored_energy_j)
+        ));
+    }
+    for i in items.iter().filter(|i| i.highest_level >= Level::Warning) {
+        text.push_str(&format!("\n{}:\n", i.tag));
+        for c in i.cautions.iter().filter(|c| c.level >= Level::Warning) {
+            text.push_str(&format!("  {:<8} {}\n", c.level.word(), c.render(&display)));
+        }
+    }
+    if danger {
+        text.push_str("\nAt least one item raises DANGER (exit code 3).\n");
+    }
+    Ok((text, code))
+}
