@@ -5,7 +5,7 @@
 use criterion::{criterion_group, criterion_main, Criterion};
 use pvhazard::gas::{Gas, GasModel, IdealGas};
 use pvhazard::heat;
-use pvhazard::rules::transient::{self, Exchange, FillRate, HeatTransfer, Wall};
+use pvhazard::rules::transient::{self, Exchange, FillCase, FillRate, HeatTransfer, Wall};
 use pvhazard::site::Material;
 use pvhazard::units::PressureRate;
 use uom::si::f64::{Mass, Pressure, ThermodynamicTemperature, Volume};
@@ -38,23 +38,17 @@ fn benches(c: &mut Criterion) {
         per_second: p(25e5 / 60.0),
     });
     let cylinder = exchange(60.0, heat::CYLINDER_ASPECT);
+    let case = FillCase {
+        volume: Volume::new::<cubic_meter>(0.05),
+        initial: &initial,
+        supply: &supply,
+        to: p(300e5),
+        rate,
+        inlet_diameter: None,
+    };
     c.bench_function(
         "fill 50 L air 20 -> 300 bar(a), 25 bar/min, lumped wall",
-        |b| {
-            b.iter(|| {
-                transient::fill_once(
-                    &air,
-                    Volume::new::<cubic_meter>(0.05),
-                    &initial,
-                    &supply,
-                    p(300e5),
-                    rate,
-                    None,
-                    &cylinder,
-                )
-                .unwrap()
-            })
-        },
+        |b| b.iter(|| transient::fill_once(&air, &case, &cylinder).unwrap()),
     );
 
     let start = air.state_pt(p(11.01325e5), t).unwrap();

@@ -420,28 +420,39 @@ pub struct FillTransient {
     pub wall: Wall,
 }
 
-/// One fill run of `volume` from `initial` (wall at its temperature) to `to` at `rate`, the
-/// gas arriving as `supply`: the time series alone, without the searches of [`fill`].
-#[allow(clippy::too_many_arguments)]
+/// A fill to run: the cylinder's volume and starting state (the wall starts at the gas's
+/// temperature), the supply gas, the stop pressure and the drive.
+#[derive(Debug, Clone, Copy)]
+pub struct FillCase<'a> {
+    /// Internal volume.
+    pub volume: Volume,
+    /// The gas before the fill.
+    pub initial: &'a State,
+    /// The gas arriving.
+    pub supply: &'a State,
+    /// Absolute pressure at which the fill stops.
+    pub to: Pressure,
+    /// How the fill is driven.
+    pub rate: FillRate,
+    /// Inlet bore, for the jet correlation.
+    pub inlet_diameter: Option<Length>,
+}
+
+/// One fill run: the time series alone, without the searches of [`fill`].
 pub fn fill_once(
     model: &dyn GasModel,
-    volume: Volume,
-    initial: &State,
-    supply: &State,
-    to: Pressure,
-    rate: FillRate,
-    inlet_diameter: Option<Length>,
+    case: &FillCase,
     exchange: &Exchange,
 ) -> Result<Run, InputError> {
-    let setup = Setup::new(model, volume, exchange);
+    let setup = Setup::new(model, case.volume, exchange);
     fill_run(
         &setup,
-        initial,
-        initial.temperature.get::<kelvin>(),
-        model.enthalpy(supply).get::<joule_per_kilogram>(),
-        to.get::<pascal>(),
-        rate,
-        inlet_diameter.map_or(0.0, |d| d.get::<meter>()),
+        case.initial,
+        case.initial.temperature.get::<kelvin>(),
+        model.enthalpy(case.supply).get::<joule_per_kilogram>(),
+        case.to.get::<pascal>(),
+        case.rate,
+        case.inlet_diameter.map_or(0.0, |d| d.get::<meter>()),
     )
 }
 
@@ -456,20 +467,22 @@ pub enum MaxRate {
     NoneSafe,
 }
 
-/// The fill of `volume` from `initial` (gas and wall at its temperature) to `to`, the gas
-/// arriving with enthalpy `h_in` at `rate`.
-#[allow(clippy::too_many_arguments)]
+/// The fill of `case` with heat exchanged as `exchange` says: the run, the settled and
+/// fill-to pressures, and (given a rating) the highest safe pressure ramp.
 pub fn fill(
     model: &dyn GasModel,
-    volume: Volume,
-    initial: &State,
-    supply: &State,
-    to: Pressure,
-    rate: FillRate,
-    inlet_diameter: Option<Length>,
+    case: &FillCase,
     rated: Option<ThermodynamicTemperature>,
     exchange: &Exchange,
 ) -> Result<Assessed<FillTransient>, InputError> {
+    let FillCase {
+        volume,
+        initial,
+        supply,
+        to,
+        rate,
+        inlet_diameter,
+    } = *case;
     let setup = Setup::new(model, volume, exchange);
     let h_in = model.enthalpy(supply).get::<joule_per_kilogram>();
     let inlet = inlet_diameter.map_or(0.0, |d| d.get::<meter>());
@@ -561,17 +574,15 @@ pub fn fill_from(
     let supply = model
         .state_pt(input.to, input.supply_temperature)
         .map_err(gas_error("supply-temperature"))?;
-    fill(
-        model,
-        input.volume,
-        &initial,
-        &supply,
-        input.to,
+    let case = FillCase {
+        volume: input.volume,
+        initial: &initial,
+        supply: &supply,
+        to: input.to,
         rate,
         inlet_diameter,
-        input.rated_temperature,
-        exchange,
-    )
+    };
+    fill(model, &case, input.rated_temperature, exchange)
 }
 
 /// The vent a [`VentInput`] describes (its orifice is required), with heat exchanged as
@@ -872,22 +883,17 @@ mod tests {
     /// 50 L of air from 20 to 300 bar(a) at 20 °C, supply at 20 °C.
     fn cylinder_fill(rate: FillRate, ex: &Exchange) -> FillTransient {
         let model = air();
-        let v = Volume::new::<cubic_meter>(0.05);
         let initial = model.state_pt(pa(20e5), k(293.15)).unwrap();
         let supply = model.state_pt(pa(300e5), k(293.15)).unwrap();
-        fill(
-            &model,
-            v,
-            &initial,
-            &supply,
-            pa(300e5),
+        let case = FillCase {
+            volume: Volume::new::<cubic_meter>(0.05),
+            initial: &initial,
+            supply: &supply,
+            to: pa(300e5),
             rate,
-            None,
-            Some(k(338.15)),
-            ex,
-        )
-        .unwrap()
-        .value
+            inlet_diameter: None,
+        };
+        fill(&model, &case, Some(k(338.15)), ex).unwrap().value
     }
 
     #[test]
