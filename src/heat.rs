@@ -108,6 +108,8 @@ pub const OUTSIDE_COEFFICIENT: f64 = 4.5;
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
 #[serde(rename_all = "kebab-case")]
 pub enum InnerBasis {
+    /// No heat transfer asked for.
+    None,
     /// A coefficient the user gave.
     Given,
     /// Jet-driven forced plus natural convection (fill with a known inlet diameter).

@@ -140,6 +140,7 @@ pub enum Material {
     /// Austenitic stainless steel.
     StainlessSteel,
     /// Aluminium alloy.
+    #[value(alias = "aluminum")]
     Aluminium,
     /// Fibre-reinforced composite.
     Composite,
@@ -152,6 +153,7 @@ pub enum Construction {
     /// Seamless steel (carbon steel).
     Steel,
     /// Seamless aluminium alloy.
+    #[value(alias = "aluminum")]
     Aluminium,
     /// Composite-wrapped, with a metal or plastic liner.
     Composite,

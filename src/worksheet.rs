@@ -568,8 +568,7 @@ fn vent_down(
     };
     let warm = transient::vent_from(model, &input, Some(check), &exchange)?;
     out.cautions.extend(warm.cautions.iter().cloned());
-    let (warm_report, depressuring) =
-        VentTransientReport::new(&warm.value, Some(check), exchange.mode);
+    let (warm_report, depressuring) = VentTransientReport::new(&warm.value, Some(check), &exchange);
     out.section(
         "Vent-down with heat from the wall",
         warm_report.result_entries(depressuring.as_ref()),
@@ -743,7 +742,7 @@ fn cylinder_parts(
             &warm.value,
             FillRate::Ramp(rate),
             Some(c.rated_temperature),
-            exchange.mode,
+            &exchange,
         );
         out.section(
             "Fill at the planned rate, with heat to the wall",

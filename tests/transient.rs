@@ -207,3 +207,43 @@ fn bad_transient_inputs_are_refused_with_the_option_named() {
             .stderr(predicates::str::contains(option));
     }
 }
+
+#[test]
+fn without_heat_transfer_no_rate_is_solved_for_and_no_supply_is_blamed() {
+    let v = fill(&["--rate", "25 bar/min", "--heat-transfer", "none"]);
+    assert!(v["transient"]["max_rate"].is_null());
+    assert_eq!(v["transient"]["inner_coefficient_basis"], "none");
+    assert!(!v["cautions"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .any(|c| c["message"].as_str().unwrap().contains("too hot")));
+}
+
+#[test]
+fn wall_options_without_a_wall_run_are_refused() {
+    Command::cargo_bin("pvhazard")
+        .unwrap()
+        .args(FILL)
+        .assert()
+        .code(2)
+        .stderr(predicates::str::contains("--rate"));
+    Command::cargo_bin("pvhazard")
+        .unwrap()
+        .args([
+            "vent",
+            "--gas",
+            "air",
+            "--volume",
+            "1 m3",
+            "--pressure",
+            "10 barg",
+            "--orifice",
+            "10 mm",
+            "--wall-mass",
+            "100 kg",
+        ])
+        .assert()
+        .code(2)
+        .stderr(predicates::str::contains("--heat-transfer"));
+}

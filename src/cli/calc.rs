@@ -117,6 +117,16 @@ pub(super) struct FillArgs {
     inlet_diameter: Option<Length>,
 }
 
+impl WallArgs {
+    /// Whether any wall option was given.
+    fn any(&self) -> bool {
+        self.heat_transfer.is_some()
+            || self.wall_mass.is_some()
+            || self.inner_coefficient.is_some()
+            || self.csv.is_some()
+    }
+}
+
 /// Options of the wall heat-transfer model, shared by fill and vent.
 #[derive(Debug, Args)]
 pub(super) struct WallArgs {
@@ -295,6 +305,14 @@ pub(super) fn energy_command(a: EnergyArgs) -> Result<String, Failure> {
 }
 
 pub(super) fn fill_command(a: FillArgs) -> Result<String, Failure> {
+    if a.rate.is_none() && a.duration.is_none() && (a.wall.any() || a.inlet_diameter.is_some()) {
+        return Err(InputError::new(
+            "rate",
+            "(none)",
+            "the wall options (--heat-transfer, --wall-mass, --inner-coefficient, --inlet-diameter, --csv) act on a fill at a planned rate; accepted: give --rate or --duration",
+        )
+        .into());
+    }
     let model = super::gas_model(a.common.model, a.common.gas)?;
     let pa = ambient(&a.common)?;
     let input = FillInput {
@@ -379,8 +397,7 @@ pub(super) fn fill_command(a: FillArgs) -> Result<String, Failure> {
         };
         check_range("rate", rate_si, "SI units per second", 1e-9, 1e9)?;
         let t = transient::fill_from(model.as_ref(), &input, rate, a.inlet_diameter, &exchange)?;
-        let t_report =
-            FillTransientReport::new(&t.value, rate, input.rated_temperature, exchange.mode);
+        let t_report = FillTransientReport::new(&t.value, rate, input.rated_temperature, &exchange);
         if let Some(path) = &a.wall.csv {
             write_csv(path, &t_report.samples)?;
         }
@@ -485,6 +502,17 @@ pub(super) fn vent_command(a: VentArgs) -> Result<String, Failure> {
     };
     let out = vent::blow_down(model.as_ref(), &input)?;
     let mut report = VentReport::new(model.as_ref(), &input, out);
+    if a.wall.heat_transfer.is_none()
+        && !a.depressuring_check
+        && (a.wall.any() || a.design_pressure.is_some())
+    {
+        return Err(InputError::new(
+            "heat-transfer",
+            "(none)",
+            "the wall options (--wall-mass, --inner-coefficient, --design-pressure, --csv) act on the vent with wall heat transfer; accepted: give --heat-transfer lumped or --depressuring-check",
+        )
+        .into());
+    }
     if a.wall.heat_transfer.is_some() || a.depressuring_check {
         let design = match a.design_pressure {
             Some(r) => absolute("design-pressure", r, pa)?,
@@ -523,7 +551,7 @@ pub(super) fn vent_command(a: VentArgs) -> Result<String, Failure> {
             None
         };
         let t = transient::vent_from(model.as_ref(), &input, check, &exchange)?;
-        let (t_report, dep) = VentTransientReport::new(&t.value, check, exchange.mode);
+        let (t_report, dep) = VentTransientReport::new(&t.value, check, &exchange);
         if let Some(path) = &wall_args.csv {
             write_csv(path, &t_report.samples)?;
         }

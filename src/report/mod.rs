@@ -26,7 +26,8 @@ use crate::rules::blast::DistanceBasis;
 use crate::rules::energy::{Energies, EnergyInput, EnergyResult};
 use crate::rules::fill::{FillInput, FillResult, FillSample};
 use crate::rules::transient::{
-    Depressuring, FillRate, FillTransient, HeatTransfer, MaxRate, Sample, VentTransient, Wall,
+    Depressuring, Exchange, FillRate, FillTransient, HeatTransfer, MaxRate, Sample, VentTransient,
+    Wall,
 };
 use crate::rules::vent::{Process, VentInput, VentResult, VentSample};
 
@@ -174,6 +175,8 @@ pub struct FillReport {
 pub struct FillTransientReport {
     /// `lumped` or `none`.
     pub heat_transfer: HeatTransfer,
+    /// The inner coefficient given instead of the correlations, W/(m²·K).
+    pub inner_coefficient_w_per_m2_k: Option<f64>,
     /// The wall node used.
     pub wall: Wall,
     /// How the inner coefficient was found.
@@ -214,7 +217,7 @@ impl FillTransientReport {
         t: &FillTransient,
         rate: FillRate,
         rated: Option<ThermodynamicTemperature>,
-        mode: HeatTransfer,
+        exchange: &Exchange,
     ) -> Self {
         let (planned_rate_pa_per_s, planned_mass_flow_kg_per_s) = match rate {
             FillRate::Ramp(r) => (Some(r.per_second), None),
@@ -227,7 +230,8 @@ impl FillTransientReport {
             Some(MaxRate::NoneSafe) => (None, Some("none-safe")),
         };
         FillTransientReport {
-            heat_transfer: mode,
+            heat_transfer: exchange.mode,
+            inner_coefficient_w_per_m2_k: exchange.inner_coefficient,
             wall: t.wall,
             inner_coefficient_basis: t.run.basis,
             planned_rate_pa_per_s,
@@ -248,7 +252,7 @@ impl FillTransientReport {
 
     /// The transient's results, with methods.
     pub fn result_entries(&self) -> Vec<Entry> {
-        let method = "lumped gas and wall, first law, adaptive integration";
+        let method = self.heat_transfer.method();
         let mut out = Vec::new();
         if let Some(go) = self.go {
             out.push(result(
@@ -276,13 +280,13 @@ impl FillTransientReport {
         ));
         out.push(result("Fill time", Value::Time(self.fill_time_s), method));
         out.push(result(
-            "Settled pressure at ambient",
+            "Settled pressure after the planned fill",
             Value::Pressure(self.settled_pressure_pa),
             "constant mass, cooled to ambient",
         ));
         if let Some(p) = self.fill_to_pressure_pa {
             out.push(result(
-                "Fill to (settles at target)",
+                "Fill to at the planned rate (settles at target)",
                 Value::Pressure(p),
                 "stop pressure at the planned rate whose mass settles at the target",
             ));
@@ -405,6 +409,8 @@ pub struct VentReport {
 pub struct VentTransientReport {
     /// `lumped` or `none`.
     pub heat_transfer: HeatTransfer,
+    /// The inner coefficient given instead of the correlations, W/(m²·K).
+    pub inner_coefficient_w_per_m2_k: Option<f64>,
     /// The wall node used.
     pub wall: Wall,
     /// How the inner coefficient was found.
@@ -439,10 +445,11 @@ impl VentTransientReport {
     pub fn new(
         t: &VentTransient,
         check: Option<Depressuring>,
-        mode: HeatTransfer,
+        exchange: &Exchange,
     ) -> (Self, Option<DepressuringReport>) {
         let report = VentTransientReport {
-            heat_transfer: mode,
+            heat_transfer: exchange.mode,
+            inner_coefficient_w_per_m2_k: exchange.inner_coefficient,
             wall: t.wall,
             inner_coefficient_basis: t.run.basis,
             time_s: t.run.duration(),
@@ -462,7 +469,7 @@ impl VentTransientReport {
 
     /// The transient's results, with methods.
     pub fn result_entries(&self, dep: Option<&DepressuringReport>) -> Vec<Entry> {
-        let method = "lumped gas and wall, first law, adaptive integration";
+        let method = self.heat_transfer.method();
         let mut out = vec![
             result(
                 "Time to target with wall heat",
@@ -488,7 +495,7 @@ impl VentTransientReport {
                     (false, Some(t)) => format!("NOT met: {} s to the check pressure", crate::units::fmt_sig(t.get::<uom::si::time::second>(), 3)),
                     (_, None) => "NOT met: the check pressure is not reached".to_string(),
                 }),
-                "lower of 50 % of design gauge and 690 kPa(g) within 15 min, in the spirit of API 521",
+                "the check pressure (by default the lower of 50 % of design gauge and 690 kPa(g)) within the time allowed (by default 15 min), in the spirit of API 521",
             ));
         }
         out

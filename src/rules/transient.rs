@@ -40,6 +40,16 @@ pub enum HeatTransfer {
     Lumped,
 }
 
+impl HeatTransfer {
+    /// The method, in words, for the output.
+    pub fn method(self) -> &'static str {
+        match self {
+            HeatTransfer::None => "first law, no heat to the wall, adaptive integration",
+            HeatTransfer::Lumped => "lumped gas and wall, first law, adaptive integration",
+        }
+    }
+}
+
 /// The part of the wall that exchanges heat with the gas.
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
 pub struct Wall {
@@ -220,7 +230,7 @@ impl<'a> Setup<'a> {
         fill_flow: Option<(f64, f64)>,
     ) -> (f64, f64, InnerBasis) {
         if self.exchange.mode == HeatTransfer::None {
-            return (0.0, 0.0, InnerBasis::Given);
+            return (0.0, 0.0, InnerBasis::None);
         }
         let h_out = heat::OUTSIDE_COEFFICIENT;
         if let Some(h) = self.exchange.inner_coefficient {
@@ -493,33 +503,35 @@ pub fn fill(
         .state_rho_t(run.end.density, exchange.ambient_temperature)
         .map_err(|e| model_failure(&e.to_string()))?
         .pressure;
-    let max_rate = rated.map(|rated| {
-        let excess = |rate_pa_s: f64| {
-            let r = FillRate::Ramp(PressureRate {
-                per_second: Pressure::new::<pascal>(rate_pa_s),
+    // Without heat transfer the peak does not depend on the rate: no rate to solve for.
+    let max_rate =
+        rated
+            .filter(|_| exchange.mode == HeatTransfer::Lumped)
+            .map(|rated| {
+                let excess = |rate_pa_s: f64| {
+                    let r = FillRate::Ramp(PressureRate {
+                        per_second: Pressure::new::<pascal>(rate_pa_s),
+                    });
+                    fill_run(&setup, initial, wall_t0, h_in, to_pa, r, inlet)
+                        .map(|run| run.peak_gas().get::<kelvin>() - rated.get::<kelvin>())
+                        .unwrap_or(f64::NAN)
+                };
+                // Between a fill over a day and one over a second: the peak rises with the rate.
+                let span = to_pa - initial.pressure.get::<pascal>();
+                let (slow, fast) = (span / 86_400.0, span);
+                if excess(fast) <= 0.0 {
+                    MaxRate::Unlimited
+                } else if excess(slow) > 0.0 {
+                    MaxRate::NoneSafe
+                } else {
+                    crate::solve::root(|ln_r| excess(ln_r.exp()), slow.ln(), fast.ln(), 1e-7)
+                        .map_or(MaxRate::NoneSafe, |ln_r| {
+                            MaxRate::Ramp(PressureRate {
+                                per_second: Pressure::new::<pascal>(ln_r.exp()),
+                            })
+                        })
+                }
             });
-            fill_run(&setup, initial, wall_t0, h_in, to_pa, r, inlet)
-                .map(|run| run.peak_gas().get::<kelvin>() - rated.get::<kelvin>())
-                .unwrap_or(f64::NAN)
-        };
-        // Between a fill over a day and one over a second: the peak rises with the rate.
-        let span = to_pa - initial.pressure.get::<pascal>();
-        let (slow, fast) = (span / 86_400.0, span);
-        if excess(fast) <= 0.0 {
-            MaxRate::Unlimited
-        } else if excess(slow) > 0.0 {
-            MaxRate::NoneSafe
-        } else {
-            crate::solve::root(|ln_r| excess(ln_r.exp()), slow.ln(), fast.ln(), 1e-7).map_or(
-                MaxRate::NoneSafe,
-                |ln_r| {
-                    MaxRate::Ramp(PressureRate {
-                        per_second: Pressure::new::<pascal>(ln_r.exp()),
-                    })
-                },
-            )
-        }
-    });
     // The stop pressure whose mass, cooled to ambient, settles at the target.
     let target_density = model
         .state_pt(to, exchange.ambient_temperature)
@@ -597,7 +609,7 @@ pub fn vent_from(
         return Err(InputError::new(
             "orifice",
             "(none)",
-            "the vent with wall heat transfer and the depressuring check need the orifice diameter",
+            "the vent with wall heat transfer and the depressuring check need the orifice diameter; accepted: give --orifice (with or without --within)",
         ));
     };
     let start = model
@@ -741,6 +753,7 @@ fn model_notice(basis: InnerBasis, exchange: &Exchange) -> Vec<Caution> {
     }
     let inner = match basis {
         InnerBasis::Given => "a coefficient given by the user",
+        InnerBasis::None => "no heat transfer",
         InnerBasis::JetCorrelation => "the inlet jet and natural convection, Nu = 0.56·Re_d^0.67 + 0.104·Ra^0.352 (Woodfield, Monde & Takano 2008)",
         InnerBasis::FillConstant => "500 W/(m²·K) while filling, as measured in fill experiments (Woodfield, Monde & Takano 2008); give --inlet-diameter for the jet correlation",
         InnerBasis::NaturalConvection => "natural convection in the vessel, Nu = 0.104·Ra^0.352 (Woodfield, Monde & Takano 2008)",
@@ -829,7 +842,7 @@ fn vent_cautions(
                 Value::Pressure(c.target),
                 " within ",
                 Value::Time(c.limit),
-                " through this vent path (the lower of 50 % of the design gauge pressure and 690 kPa(g), in the spirit of API 521). In a fire or emergency the vessel stays pressurised longer than intended; review the vent path with the responsible engineer.",
+                " through this vent path (the depressuring check, in the spirit of API 521). In a fire or emergency the vessel stays pressurised longer than intended; review the vent path with the responsible engineer.",
             ));
         }
     }

@@ -210,6 +210,7 @@ pub fn parse_mass(text: &str) -> Result<Mass, String> {
 
 /// A rate of pressure change, as a fill rate: the pressure gained per second.
 #[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
+#[serde(transparent)]
 pub struct PressureRate {
     /// Pressure change in one second.
     pub per_second: Pressure,
