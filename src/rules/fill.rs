@@ -38,7 +38,7 @@ pub struct FillInput {
 /// A fill-to pressure this far above the target raises a WARNING: planning on it would
 /// overfill a cylinder whose gas stays cooler than the adiabatic bound (common practice,
 /// no source: cylinder standards allow a hot fill only a modest margin).
-const FILL_TO_WARNING_RATIO: f64 = 1.10;
+pub(crate) const FILL_TO_WARNING_RATIO: f64 = 1.10;
 
 /// Points on the fill's temperature–pressure path (besides the start).
 const PATH_POINTS: usize = 40;
