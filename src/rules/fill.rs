@@ -38,7 +38,7 @@ pub struct FillInput {
 /// A fill-to pressure this far above the target raises a WARNING: planning on it would
 /// overfill a cylinder whose gas stays cooler than the adiabatic bound (common practice,
 /// no source: cylinder standards allow a hot fill only a modest margin).
-pub(crate) const FILL_TO_WARNING_RATIO: f64 = 1.10;
+const FILL_TO_WARNING_RATIO: f64 = 1.10;
 
 /// Points on the fill's temperature–pressure path (besides the start).
 const PATH_POINTS: usize = 40;
@@ -233,6 +233,24 @@ fn fill_to_pressure(
         .map(|ln_p| Pressure::new::<pascal>(ln_p.exp()))
 }
 
+/// The WARNING for a fill-to pressure more than [`FILL_TO_WARNING_RATIO`] above `target`:
+/// `lead` opens the sentence, `why` says what makes it so high.
+pub(crate) fn fill_to_warning(
+    fill_to: Pressure,
+    target: Pressure,
+    lead: &str,
+    why: &str,
+) -> Option<Caution> {
+    (fill_to > target * FILL_TO_WARNING_RATIO).then(|| {
+        caution!(
+            Level::Warning,
+            lead,
+            Value::Pressure(fill_to),
+            format!(") is far above the target{why}. Do not fill to it; top up after the cylinder cools, and never exceed the pressure the cylinder's marking or standard permits at the fill temperature."),
+        )
+    })
+}
+
 fn fill_cautions(input: &FillInput, r: &FillResult) -> Vec<Caution> {
     let mut out = Vec::new();
     let end = Value::Temperature(r.final_temperature);
@@ -276,16 +294,14 @@ fn fill_cautions(input: &FillInput, r: &FillResult) -> Vec<Caution> {
         " at constant mass.",
     ));
     let shortfall = 1.0 - r.settled_pressure.get::<pascal>() / input.to.get::<pascal>();
-    if let Some(fill_to) = r.fill_to_pressure {
-        if fill_to > input.to * FILL_TO_WARNING_RATIO {
-            out.push(caution!(
-                Level::Warning,
-                "The fill-to pressure (",
-                Value::Pressure(fill_to),
-                ") is far above the target: it assumes the gas reaches the adiabatic temperature, which a real fill does not. Do not fill to it; top up after the cylinder cools, and never exceed the pressure the cylinder's marking or standard permits at the fill temperature.",
-            ));
-        }
-    }
+    out.extend(r.fill_to_pressure.and_then(|p| {
+        fill_to_warning(
+            p,
+            input.to,
+            "The fill-to pressure (",
+            ": it assumes the gas reaches the adiabatic temperature, which a real fill does not",
+        )
+    }));
     match r.fill_to_pressure {
         Some(fill_to) if shortfall > 0.01 => out.push(caution!(
             Level::Notice,

@@ -782,16 +782,14 @@ fn fill_cautions(
     exchange: &Exchange,
 ) -> Vec<Caution> {
     let mut out = model_notice(r.run.basis, exchange);
-    if let Some(fill_to) = r.fill_to_pressure {
-        if fill_to > r.run.end.pressure * super::fill::FILL_TO_WARNING_RATIO {
-            out.push(crate::caution!(
-                Level::Warning,
-                "The fill-to pressure at the planned rate (",
-                Value::Pressure(fill_to),
-                ") is far above the target. Do not fill to it: top up after the cylinder cools, and never exceed the pressure the cylinder's marking or standard permits at the fill temperature.",
-            ));
-        }
-    }
+    out.extend(r.fill_to_pressure.and_then(|p| {
+        super::fill::fill_to_warning(
+            p,
+            r.run.end.pressure,
+            "The fill-to pressure at the planned rate (",
+            "",
+        )
+    }));
     let peak = r.run.peak_gas();
     if let Some(rated) = rated {
         if peak > rated {
