@@ -680,6 +680,7 @@ fn cylinder_parts(
         to: c.service_pressure,
         initial_temperature: site.ambient_temperature,
         supply_temperature: c.supply_temperature,
+        supply_pressure: None,
         ambient_temperature: site.ambient_temperature,
         rated_temperature: Some(c.rated_temperature),
     };

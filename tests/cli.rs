@@ -454,11 +454,15 @@ fn filling_carbon_dioxide_into_its_liquid_range_is_refused() {
 }
 
 #[test]
-fn the_real_gas_model_is_refused_as_not_available_yet() {
-    refused(
-        &as_strs(&with(ENERGY, &["--model", "real"])),
-        &["--model", "not available"],
+fn the_real_gas_model_is_the_default_and_named_in_the_output() {
+    let v = json(ENERGY);
+    assert_eq!(v["model"], "real");
+    let out = text(ENERGY);
+    assert!(
+        out.contains("reference multiparameter equation of state"),
+        "{out}"
     );
+    assert!(!out.contains("Ideal gas used at"), "{out}");
 }
 
 #[test]
@@ -718,6 +722,8 @@ fn air_at_one_megapascal_gauge_stores_the_reference_energies() {
         "1.0 MPa(g)",
         "--ambient-pressure",
         "101 kPa(a)",
+        "--model",
+        "ideal",
     ]);
     // source: reference notes, stored-energy check, computed from the closed forms.
     assert_close(
@@ -766,6 +772,8 @@ fn a_fast_air_fill_from_50_to_300_bar_reaches_the_reference_temperature() {
         "293.15 K",
         "--ambient-temperature",
         "293.15 K",
+        "--model",
+        "ideal",
     ]);
     // source: reference notes, fast-fill check, closed form T_f = p_f/(p_i/T_i + Δp/(γ·T0)).
     assert_close(

@@ -111,6 +111,7 @@ proptest! {
             to: Pressure::new::<pascal>(from * span),
             initial_temperature: ThermodynamicTemperature::new::<kelvin>(supply - colder),
             supply_temperature: ThermodynamicTemperature::new::<kelvin>(supply),
+            supply_pressure: None,
             ambient_temperature: ThermodynamicTemperature::new::<kelvin>(293.15),
             rated_temperature: None,
         };

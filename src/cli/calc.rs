@@ -35,8 +35,8 @@ pub(super) struct Common {
     /// Site elevation (m or ft): sets the ambient pressure from the standard atmosphere instead.
     #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_length)]
     elevation: Option<Length>,
-    /// Gas model.
-    #[arg(long, value_enum, default_value = "ideal")]
+    /// Gas model: the reference equation of state of the gas, or the ideal gas for comparison.
+    #[arg(long, value_enum, default_value = "real")]
     model: ModelKind,
     /// Units for the text output (the other system is shown alongside).
     #[arg(long, value_enum, default_value = "si")]
@@ -92,6 +92,9 @@ pub(super) struct FillArgs {
     /// Supply gas temperature [default: the ambient temperature].
     #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_temperature)]
     supply_temperature: Option<ThermodynamicTemperature>,
+    /// Supply pressure, gauge or absolute: where the incoming gas's enthalpy is taken (real gas) [default: the --to pressure].
+    #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_pressure)]
+    supply_pressure: Option<PressureReading>,
     /// Gas temperature before the fill [default: the ambient temperature].
     #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_temperature)]
     initial_temperature: Option<ThermodynamicTemperature>,
@@ -281,7 +284,7 @@ where
 }
 
 pub(super) fn energy_command(a: EnergyArgs) -> Result<String, Failure> {
-    let model = super::gas_model(a.common.model, a.common.gas)?;
+    let model = super::gas_model(a.common.model, a.common.gas);
     let pa = ambient(&a.common)?;
     let mut overpressures: Vec<Pressure> = energy::DEFAULT_OVERPRESSURES_PA
         .iter()
@@ -313,7 +316,7 @@ pub(super) fn fill_command(a: FillArgs) -> Result<String, Failure> {
         )
         .into());
     }
-    let model = super::gas_model(a.common.model, a.common.gas)?;
+    let model = super::gas_model(a.common.model, a.common.gas);
     let pa = ambient(&a.common)?;
     let input = FillInput {
         volume: a.volume,
@@ -321,6 +324,10 @@ pub(super) fn fill_command(a: FillArgs) -> Result<String, Failure> {
         to: absolute("to", a.to, pa)?,
         initial_temperature: a.initial_temperature.unwrap_or(a.ambient_temperature),
         supply_temperature: a.supply_temperature.unwrap_or(a.ambient_temperature),
+        supply_pressure: a
+            .supply_pressure
+            .map(|p| absolute("supply-pressure", p, pa))
+            .transpose()?,
         ambient_temperature: a.ambient_temperature,
         rated_temperature: a.rated_temperature,
     };
@@ -482,7 +489,7 @@ pub(super) fn write_csv(
 }
 
 pub(super) fn vent_command(a: VentArgs) -> Result<String, Failure> {
-    let model = super::gas_model(a.common.model, a.common.gas)?;
+    let model = super::gas_model(a.common.model, a.common.gas);
     let pa = ambient(&a.common)?;
     let down_to = match a.down_to {
         Some(r) => absolute("down-to", r, pa)?,

@@ -11,7 +11,7 @@ use std::io::Write;
 
 use clap::{Parser, Subcommand};
 
-use crate::gas::{Gas, GasModel, IdealGas, ModelKind};
+use crate::gas::{Gas, GasModel, IdealGas, ModelKind, RealGas};
 use crate::source::FileError;
 use crate::InputError;
 use calc::{EnergyArgs, FillArgs, VentArgs};
@@ -124,14 +124,10 @@ pub fn run(args: impl IntoIterator<Item = std::ffi::OsString>, out: &mut dyn Wri
 }
 
 /// The gas model `kind` for `gas`.
-fn gas_model(kind: ModelKind, gas: &'static Gas) -> Result<Box<dyn GasModel>, InputError> {
+fn gas_model(kind: ModelKind, gas: &'static Gas) -> Box<dyn GasModel> {
     match kind {
-        ModelKind::Ideal => Ok(Box::new(IdealGas::new(gas))),
-        ModelKind::Real => Err(InputError::new(
-            "model",
-            "real",
-            "the real-gas model is not available yet in this version; accepted: ideal",
-        )),
+        ModelKind::Ideal => Box::new(IdealGas::new(gas)),
+        ModelKind::Real => Box::new(RealGas::new(gas)),
     }
 }
 

@@ -51,8 +51,8 @@ pub(super) struct WorksheetArgs {
     /// Replace existing records of the same name.
     #[arg(long)]
     force: bool,
-    /// Gas model.
-    #[arg(long, value_enum, default_value = "ideal")]
+    /// Gas model: the reference equation of state of the gas, or the ideal gas for comparison.
+    #[arg(long, value_enum, default_value = "real")]
     model: ModelKind,
 }
 
@@ -64,8 +64,8 @@ pub(super) struct CheckArgs {
     /// Print one JSON object instead of a table.
     #[arg(long)]
     json: bool,
-    /// Gas model.
-    #[arg(long, value_enum, default_value = "ideal")]
+    /// Gas model: the reference equation of state of the gas, or the ideal gas for comparison.
+    #[arg(long, value_enum, default_value = "real")]
     model: ModelKind,
 }
 
@@ -156,7 +156,7 @@ pub(super) fn worksheet_command(a: WorksheetArgs) -> Result<String, Failure> {
             Some(t) => t.clone(),
             None => template::resolve(template::default_for(item.kind()))?,
         };
-        let model = super::gas_model(a.model, item.gas())?;
+        let model = super::gas_model(a.model, item.gas());
         let sheet = worksheet::build(model.as_ref(), &site, item, &template, &meta)?;
         let pdf =
             render_pdf(&sheet.document, a.paper).map_err(|e| Failure::Internal(e.to_string()))?;
@@ -239,7 +239,7 @@ pub(super) fn check_command(a: CheckArgs) -> Result<(String, i32), Failure> {
     let mut items = Vec::new();
     for item in &site.equipment {
         let template = template::resolve(template::default_for(item.kind()))?;
-        let model = super::gas_model(a.model, item.gas())?;
+        let model = super::gas_model(a.model, item.gas());
         let sheet = worksheet::build(model.as_ref(), &site, item, &template, &meta)?;
         items.push(Item {
             tag: item.tag().to_string(),

@@ -79,6 +79,7 @@ impl IdealGas {
             pressure: Pressure::new::<pascal>(p),
             temperature: ThermodynamicTemperature::new::<kelvin>(t),
             density: MassDensity::new::<kilogram_per_cubic_meter>(rho),
+            quality: None,
         })
     }
 

@@ -1,5 +1,6 @@
-//! Gas models: one trait, [`GasModel`], with the ideal gas behind it now and a real-gas model
-//! to come. The rules see only the trait, so they never ask which model they have.
+//! Gas models: one trait, [`GasModel`], with the ideal gas and the real gas (reference
+//! equations of state) behind it. The rules see only the trait, so they never ask which model
+//! they have.
 //!
 //! A model turns a pair of state variables into a [`State`] and gives the caloric properties
 //! (u, h, s, a) at a state. Everything a rule needs — expansion work, fill temperatures,
@@ -7,9 +8,11 @@
 
 mod catalogue;
 mod ideal;
+pub mod real;
 
 pub use catalogue::{GASES, MOLAR_GAS_CONSTANT};
 pub use ideal::IdealGas;
+pub use real::RealGas;
 
 use serde::Serialize;
 use uom::si::f64::{
@@ -218,7 +221,7 @@ impl Gas {
 pub enum ModelKind {
     /// Ideal gas with constant heat capacities.
     Ideal,
-    /// Reference multiparameter equations of state (not available yet).
+    /// Reference multiparameter Helmholtz-energy equations of state.
     Real,
 }
 
@@ -239,8 +242,10 @@ pub struct State {
     pub pressure: Pressure,
     /// Temperature.
     pub temperature: ThermodynamicTemperature,
-    /// Mass density.
+    /// Mass density (of the mixture, when two-phase).
     pub density: MassDensity,
+    /// Vapour mass fraction when liquid and vapour are both present; `None` in one phase.
+    pub quality: Option<f64>,
 }
 
 /// Steady isentropic flow from a stagnation state through a nozzle to a back pressure.
@@ -277,6 +282,15 @@ pub enum GasError {
         /// The lowest temperature accepted, K.
         min_k: f64,
     },
+    /// An expansion that would end in solid (below the triple point), which the real-gas
+    /// model, covering fluid states only, cannot follow.
+    #[error("{what} of {gas} would end below its triple point, where it freezes{}; the real-gas model covers gas and liquid states only. Use --model ideal for an estimate, with its cautions", if *gas == "carbon-dioxide" { " (dry ice)" } else { "" })]
+    Freezes {
+        /// The gas.
+        gas: &'static str,
+        /// The process, e.g. "the expansion to 1.013 bar(a)".
+        what: String,
+    },
     /// A state variable outside what the model accepts.
     #[error("{what} = {value} is outside the model's range; accepted: {accepted}")]
     OutOfRange {
@@ -304,6 +318,18 @@ pub trait GasModel {
 
     /// One line naming the model and its constants, for the output's NOTICE.
     fn describe(&self) -> String;
+
+    /// Refuses a state the gas methods do not cover: below the triple point, or above the
+    /// saturation pressure (a liquefied gas).
+    fn check_gas_phase(&self, p: Pressure, t: ThermodynamicTemperature) -> Result<(), GasError> {
+        self.gas().check_gas_phase(p, t)
+    }
+
+    /// The temperature at which the gas condenses at pressure `p`, or `None` at or above
+    /// the critical pressure (or below the triple point).
+    fn saturation_temperature(&self, p: Pressure) -> Option<ThermodynamicTemperature> {
+        self.gas().saturation_temperature(p)
+    }
 
     /// The state at pressure and temperature (the gas-like root).
     fn state_pt(&self, p: Pressure, t: ThermodynamicTemperature) -> Result<State, GasError>;

@@ -16,7 +16,7 @@ use super::{
 };
 use crate::caution;
 use crate::caution::{Assessed, Caution, Level};
-use crate::gas::{GasModel, State};
+use crate::gas::{GasError, GasModel, State};
 use crate::units::{fmt_sig, Value};
 use crate::InputError;
 
@@ -238,9 +238,17 @@ pub fn expansion_energies(
     let dead = model
         .state_pt(ambient, state.temperature)
         .map_err(gas_error("ambient-pressure"))?;
-    let brode_end = model
-        .state_rho_p(state.density, ambient)
-        .map_err(gas_error("pressure"))?;
+    // Brode's energy is the heat given up cooling the gas at its density to ambient
+    // pressure. Where that would freeze it (carbon dioxide), the closed form with the
+    // ideal gas's γ stands in: the convention Brode's energy comes from.
+    let brode = match model.state_rho_p(state.density, ambient) {
+        Ok(end) => mass * (u1 - model.internal_energy(&end)),
+        Err(GasError::Freezes { .. }) => {
+            let gamma = crate::gas::IdealGas::new(model.gas()).gamma();
+            (state.pressure - ambient) * volume / (gamma - 1.0)
+        }
+        Err(e) => return Err(gas_error("pressure")(e)),
+    };
     let t1 = state.temperature.get::<kelvin>();
     let entropy_drop = AvailableEnergy::new::<joule_per_kilogram>(
         t1 * (s1 - model.entropy(&dead))
@@ -250,7 +258,7 @@ pub fn expansion_energies(
     let energies = Energies {
         isothermal: mass * (model.helmholtz_energy(state) - model.helmholtz_energy(&dead)),
         isentropic: mass * (u1 - model.internal_energy(&isentropic_end)),
-        brode: mass * (u1 - model.internal_energy(&brode_end)),
+        brode,
         availability: mass * (u1 - model.internal_energy(&dead) + volume_work - entropy_drop),
     };
     Ok((energies, isentropic_end))

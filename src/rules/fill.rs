@@ -8,7 +8,8 @@ use uom::si::{
 };
 
 use super::{
-    check_positive, check_temperature, gas_cautions, gas_error, user_state, MAX_VOLUME_M3,
+    check_positive, check_temperature, gas_cautions, gas_error, user_state, MAX_PRESSURE_PA,
+    MAX_VOLUME_M3,
 };
 use crate::caution;
 use crate::caution::{Assessed, Caution, Level};
@@ -29,6 +30,9 @@ pub struct FillInput {
     pub initial_temperature: ThermodynamicTemperature,
     /// Temperature of the gas arriving from the supply.
     pub supply_temperature: ThermodynamicTemperature,
+    /// Absolute pressure of the supply (the source of its enthalpy); `None`: the fill's
+    /// end pressure.
+    pub supply_pressure: Option<Pressure>,
     /// Temperature the filled cylinder cools to.
     pub ambient_temperature: ThermodynamicTemperature,
     /// The cylinder's rated maximum gas temperature, if given.
@@ -118,13 +122,22 @@ pub fn adiabatic_fill(
         input.ambient_temperature,
     )?;
     let mut cautions = gas_cautions(model, &target);
-    // The supply is at the fill's end pressure: for an ideal gas h does not depend on it.
+    // The supply gas's enthalpy at its own pressure (by default the fill's end pressure);
+    // for an ideal gas h does not depend on it, for a real gas it does (Joule–Thomson).
+    let supply_pressure = input.supply_pressure.unwrap_or(input.to);
+    if let Some(p) = input.supply_pressure {
+        check_positive(
+            "supply-pressure",
+            p.get::<pascal>(),
+            "Pa(a)",
+            MAX_PRESSURE_PA,
+        )?;
+    }
     model
-        .gas()
-        .check_gas_phase(input.to, input.supply_temperature)
+        .check_gas_phase(supply_pressure, input.supply_temperature)
         .map_err(gas_error("supply-temperature"))?;
     let supply = model
-        .state_pt(input.to, input.supply_temperature)
+        .state_pt(supply_pressure, input.supply_temperature)
         .map_err(gas_error("supply-temperature"))?;
 
     let end = fill_end_state(model, &initial, &supply, input.volume, input.to)?;
@@ -185,8 +198,20 @@ fn fill_end_state(
                 (m_f * (u_f - h_in) - m_i * (u_i - h_in)) / m_f
             })
     };
-    let t_lo = initial.temperature.min(supply.temperature).get::<kelvin>() * 0.5;
-    let t_hi = initial.temperature.max(supply.temperature).get::<kelvin>() * 4.0;
+    // A real supply throttled into a nearly empty cylinder can arrive colder than it left
+    // (Joule–Thomson: carbon dioxide from 50 bar), so the bracket starts well below both
+    // temperatures and comes up out of any liquid or frozen states.
+    let t_cold = initial.temperature.min(supply.temperature).get::<kelvin>();
+    let mut t_lo = t_cold * 0.5;
+    while !balance(t_lo).is_finite() && t_lo < t_cold {
+        t_lo *= 1.05;
+    }
+    // Even a fill from vacuum ends below about γ·T0 (1.67·T0 for a monatomic ideal gas);
+    // the top of the bracket comes down if the model's range ends lower (methane: 625 K).
+    let mut t_hi = initial.temperature.max(supply.temperature).get::<kelvin>() * 2.5;
+    while !balance(t_hi).is_finite() && t_hi > 1.2 * t_lo {
+        t_hi *= 0.95;
+    }
     let t = crate::solve::root(balance, t_lo, t_hi, 1e-9).map_err(|_| {
         InputError::new(
             "to",
@@ -340,6 +365,7 @@ mod tests {
             to: Pressure::new::<pascal>(to_bar * 1e5),
             initial_temperature: t,
             supply_temperature: t,
+            supply_pressure: None,
             ambient_temperature: t,
             rated_temperature: None,
         }

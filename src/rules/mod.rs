@@ -53,6 +53,7 @@ fn gas_error(field: &'static str) -> impl Fn(GasError) -> InputError {
                 ..
             } => format!("{:.6} bar(a) at {:.2} K", pressure_pa / 1e5, temperature_k),
             GasError::BelowTriplePoint { temperature_k, .. } => format!("{temperature_k:.2} K"),
+            GasError::Freezes { what, .. } => what.clone(),
             GasError::OutOfRange { value, .. } => value.clone(),
         };
         InputError::new(field, value, e.to_string())
@@ -76,7 +77,7 @@ fn user_state(
     }
     check_positive(pressure_field, p.get::<pascal>(), "Pa(a)", MAX_PRESSURE_PA)?;
     check_temperature(temperature_field, t)?;
-    model.gas().check_gas_phase(p, t).map_err(|e| match e {
+    model.check_gas_phase(p, t).map_err(|e| match e {
         GasError::BelowTriplePoint { .. } => gas_error(temperature_field)(e),
         _ => gas_error(pressure_field)(e),
     })?;
@@ -96,10 +97,23 @@ fn gas_cautions(model: &dyn GasModel, state: &State) -> Vec<Caution> {
 }
 
 /// A CAUTION when an expansion's end state (`what`, at `end`) lies where the gas would no
-/// longer be a gas: below its condensation temperature, or below its triple point.
+/// longer be all gas: partly condensed (a two-phase state the model computed, or a gas state
+/// below the condensation temperature the ideal model cannot see), or below its triple point.
 fn end_phase_caution(model: &dyn GasModel, what: &str, end: &State) -> Option<Caution> {
     let gas = model.gas();
     let t = end.temperature.get::<kelvin>();
+    if let Some(x) = end.quality {
+        return Some(caution!(
+            Level::Caution,
+            format!("{what} ends at "),
+            Value::Temperature(end.temperature),
+            format!(
+                " with liquid and vapour together: about {:.0} % of the {} by mass condenses (the real-gas model includes this in the result). Expect liquid and frost in the vent path and on the metal.",
+                (1.0 - x) * 100.0,
+                gas.name
+            ),
+        ));
+    }
     if t < gas.min_temperature_k {
         return Some(caution!(
             Level::Caution,
@@ -108,13 +122,13 @@ fn end_phase_caution(model: &dyn GasModel, what: &str, end: &State) -> Option<Ca
             ", below ",
             Value::Temperature(ThermodynamicTemperature::new::<kelvin>(gas.min_temperature_k)),
             format!(
-                ", the lowest temperature these methods accept for {}: the gas would partly condense or freeze{}, which they do not model. Treat the result as an estimate and expect ice or liquid in the vent path.",
+                ", {}'s triple point: the gas would partly freeze{}, which these methods do not model. Treat the result as an estimate and expect solid or liquid in the vent path.",
                 gas.name,
                 if gas.name == "carbon-dioxide" { " (dry-ice snow, which can block a vent)" } else { "" }
             ),
         ));
     }
-    let tsat = gas.saturation_temperature(end.pressure)?;
+    let tsat = model.saturation_temperature(end.pressure)?;
     (end.temperature < tsat).then(|| {
         caution!(
             Level::Caution,
@@ -122,7 +136,7 @@ fn end_phase_caution(model: &dyn GasModel, what: &str, end: &State) -> Option<Ca
             Value::Temperature(end.temperature),
             format!(", below {}'s condensation temperature there (", gas.name),
             Value::Temperature(tsat),
-            "): part of the gas would condense, which these gas methods do not model. Treat the result as an estimate.",
+            "): part of the gas would condense, which the ideal-gas model does not include. Treat the result as an estimate.",
         )
     })
 }

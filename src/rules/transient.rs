@@ -584,7 +584,10 @@ pub fn fill_from(
         .state_pt(input.from, input.initial_temperature)
         .map_err(gas_error("from"))?;
     let supply = model
-        .state_pt(input.to, input.supply_temperature)
+        .state_pt(
+            input.supply_pressure.unwrap_or(input.to),
+            input.supply_temperature,
+        )
         .map_err(gas_error("supply-temperature"))?;
     let case = FillCase {
         volume: input.volume,
@@ -928,6 +931,7 @@ mod tests {
                 to: pa(300e5),
                 initial_temperature: k(293.15),
                 supply_temperature: k(293.15),
+                supply_pressure: None,
                 ambient_temperature: k(293.15),
                 rated_temperature: None,
             },

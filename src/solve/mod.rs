@@ -137,12 +137,15 @@ fn kronrod(f: &impl Fn(f64) -> f64, a: f64, b: f64) -> (f64, f64) {
 }
 
 /// ∫ f from `a` to `b` by adaptive Gauss–Kronrod (7/15) bisection to relative tolerance
-/// `rel_tol` of the whole integral.
+/// `rel_tol` of the whole integral; NaN as soon as the integrand is not finite.
 pub fn integrate(f: impl Fn(f64) -> f64, a: f64, b: f64, rel_tol: f64) -> f64 {
     let mut intervals = vec![(a, b, kronrod(&f, a, b))];
     for _ in 0..2000 {
         let total: f64 = intervals.iter().map(|iv| iv.2 .0).sum();
         let error: f64 = intervals.iter().map(|iv| iv.2 .1).sum();
+        if !(total.is_finite() && error.is_finite()) {
+            return f64::NAN;
+        }
         if error <= rel_tol * total.abs() || error == 0.0 {
             break;
         }
@@ -158,6 +161,65 @@ pub fn integrate(f: impl Fn(f64) -> f64, a: f64, b: f64, rel_tol: f64) -> f64 {
         intervals.push((mid, hi, kronrod(&f, mid, hi)));
     }
     intervals.iter().map(|iv| iv.2 .0).sum()
+}
+
+/// A root of `f` in `[lo, hi]` by Newton's method kept inside a shrinking bracket
+/// (bisection whenever a step would leave it), to relative tolerance `rtol` in x.
+///
+/// `f` returns the value and the derivative; the ends must bracket a sign change. Quadratic
+/// where Newton works, never worse than bisection where it does not.
+pub fn newton_bracketed(
+    f: impl Fn(f64) -> (f64, f64),
+    mut lo: f64,
+    mut hi: f64,
+    x0: f64,
+    rtol: f64,
+) -> Result<f64, NoRoot> {
+    let no_root = NoRoot { lo, hi };
+    let (flo, fhi) = (f(lo).0, f(hi).0);
+    if !(flo.is_finite() && fhi.is_finite()) || flo * fhi > 0.0 {
+        return Err(no_root);
+    }
+    if flo == 0.0 {
+        return Ok(lo);
+    }
+    if fhi == 0.0 {
+        return Ok(hi);
+    }
+    let rising = flo < 0.0;
+    let mut x = if x0 > lo && x0 < hi {
+        x0
+    } else {
+        0.5 * (lo + hi)
+    };
+    for _ in 0..200 {
+        let (fx, dfx) = f(x);
+        if !fx.is_finite() {
+            return Err(no_root);
+        }
+        if fx == 0.0 {
+            return Ok(x);
+        }
+        if (fx < 0.0) == rising {
+            lo = x;
+        } else {
+            hi = x;
+        }
+        let newton = x - fx / dfx;
+        if newton.is_finite() && (newton - x).abs() <= rtol * x.abs() {
+            return Ok(newton);
+        }
+        let next = if newton > lo && newton < hi && newton.is_finite() {
+            newton
+        } else {
+            0.5 * (lo + hi)
+        };
+        if hi - lo <= rtol * x.abs() {
+            return Ok(next);
+        }
+        x = next;
+    }
+    Err(no_root)
 }
 
 #[cfg(test)]

@@ -1,0 +1,327 @@
+//! Equilibrium states from pairs of variables: the stable phase or the two-phase mixture.
+//!
+//! A Helmholtz equation is explicit in (ρ, T); every other pair is solved for. At a fixed
+//! density the equilibrium u, s and p all rise with temperature, in one phase and across the
+//! two-phase region alike, so each (ρ, ·) pair has one root in T, which Newton's method finds
+//! inside a bracket. Pairs at a fixed pressure go through the saturation state first.
+
+use super::helmholtz::Equation;
+use super::props::Props;
+use super::saturation::Saturation;
+
+/// An equilibrium state: one phase, or liquid and vapour together.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Equilibrium {
+    /// Mass density (of the mixture, when two-phase), kg/m³.
+    pub rho: f64,
+    /// Temperature, K.
+    pub t: f64,
+    /// Pressure, Pa.
+    pub p: f64,
+    /// Specific internal energy, J/kg.
+    pub u: f64,
+    /// Specific enthalpy, J/kg.
+    pub h: f64,
+    /// Specific entropy, J/(kg·K).
+    pub s: f64,
+    /// Vapour mass fraction when two-phase; `None` in one phase.
+    pub quality: Option<f64>,
+    /// The single-phase properties, when in one phase.
+    pub single: Option<Props>,
+}
+
+impl Equilibrium {
+    fn single(p: Props) -> Equilibrium {
+        Equilibrium {
+            rho: p.rho,
+            t: p.t,
+            p: p.p,
+            u: p.u,
+            h: p.h,
+            s: p.s,
+            quality: None,
+            single: Some(p),
+        }
+    }
+
+    fn mixture(sat: &Saturation, x: f64) -> Equilibrium {
+        let (l, v) = (&sat.liquid, &sat.vapour);
+        let mix = |a: f64, b: f64| a + x * (b - a);
+        Equilibrium {
+            rho: 1.0 / mix(1.0 / l.rho, 1.0 / v.rho),
+            t: sat.t,
+            p: sat.p,
+            u: mix(l.u, v.u),
+            h: mix(l.h, v.h),
+            s: mix(l.s, v.s),
+            quality: Some(x),
+            single: None,
+        }
+    }
+}
+
+/// Why a state could not be found.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum FlashError {
+    /// The state would lie below the triple-point temperature.
+    BelowTriplePoint,
+    /// Outside the temperature or pressure range of the equation.
+    OutOfRange,
+    /// The solver did not converge (a bug or a state at the edge of the equation).
+    NoConvergence,
+}
+
+/// Relative tolerance of every solve: well below the 1e-6 the reference tables demand.
+const RTOL: f64 = 1e-12;
+
+impl Equation {
+    /// The highest pressure accepted: the equation's stated limit, give or take rounding.
+    fn p_limit(&self) -> f64 {
+        self.fluid.p_max * (1.0 + 1e-9)
+    }
+
+    /// Lowest and highest temperatures accepted.
+    fn t_range(&self) -> (f64, f64) {
+        (self.fluid.t_triple, self.fluid.t_max)
+    }
+
+    /// Which phase is stable at (p, T), with the saturation state when T is subcritical.
+    fn saturation_below_critical(&self, t: f64) -> Option<Saturation> {
+        (t < self.fluid.t_critical)
+            .then(|| self.saturation_t(t))
+            .flatten()
+    }
+
+    /// The stable state at pressure `p` and temperature `t` (gas, liquid or supercritical;
+    /// at exactly the saturation pressure, the vapour).
+    pub fn at_pt(&self, p: f64, t: f64) -> Result<Props, FlashError> {
+        let (t_lo, t_hi) = self.t_range();
+        if t < t_lo {
+            return Err(FlashError::BelowTriplePoint);
+        }
+        if !(t <= t_hi && p > 0.0 && p <= self.p_limit()) {
+            return Err(FlashError::OutOfRange);
+        }
+        let guess = p / (self.r_specific() * t);
+        let rho = match self.saturation_below_critical(t) {
+            Some(sat) if p <= sat.p => {
+                self.density_between(p, t, 1e-12 * guess, sat.vapour.rho, guess)
+            }
+            Some(sat) => {
+                let hi = self.density_above(p, t, sat.liquid.rho)?;
+                self.density_between(p, t, sat.liquid.rho, hi, sat.liquid.rho)
+            }
+            None => {
+                let hi = self.density_above(p, t, guess)?;
+                self.density_between(p, t, 1e-12 * guess, hi, guess)
+            }
+        }?;
+        Ok(self.props(rho, t))
+    }
+
+    /// A density at which the pressure exceeds `p`, searching upward from `from`.
+    fn density_above(&self, p: f64, t: f64, from: f64) -> Result<f64, FlashError> {
+        let mut rho = from;
+        for _ in 0..200 {
+            let (pr, dp) = self.pressure(rho, t);
+            if pr > p && dp > 0.0 {
+                return Ok(rho);
+            }
+            rho *= 1.25;
+        }
+        Err(FlashError::NoConvergence)
+    }
+
+    /// The density in [lo, hi] at which the pressure is `p`, on a branch where p rises with
+    /// ρ: Newton's method kept inside the bracket. An end whose pressure is already past `p`
+    /// by rounding (a saturated phase at its own saturation pressure) is the answer.
+    fn density_between(
+        &self,
+        p: f64,
+        t: f64,
+        mut lo: f64,
+        mut hi: f64,
+        guess: f64,
+    ) -> Result<f64, FlashError> {
+        let mut rho = guess.clamp(lo, hi);
+        for _ in 0..100 {
+            let (pr, dp) = self.pressure(rho, t);
+            if !pr.is_finite() {
+                return Err(FlashError::NoConvergence);
+            }
+            if pr < p {
+                lo = rho;
+            } else {
+                hi = rho;
+            }
+            let newton = rho - (pr - p) / dp;
+            if dp > 0.0 && (newton - rho).abs() <= RTOL * rho {
+                return Ok(newton);
+            }
+            let next = if dp > 0.0 && newton > lo && newton < hi {
+                newton
+            } else {
+                0.5 * (lo + hi)
+            };
+            if hi - lo <= RTOL * rho {
+                return Ok(next);
+            }
+            rho = next;
+        }
+        Err(FlashError::NoConvergence)
+    }
+
+    /// The equilibrium state at density `rho` and temperature `t`.
+    pub fn at_rho_t(&self, rho: f64, t: f64) -> Result<Equilibrium, FlashError> {
+        let (t_lo, t_hi) = self.t_range();
+        if t < t_lo * (1.0 - 1e-12) {
+            return Err(FlashError::BelowTriplePoint);
+        }
+        if !(t <= t_hi && rho > 0.0) {
+            return Err(FlashError::OutOfRange);
+        }
+        match self.saturation_below_critical(t) {
+            Some(sat) if sat.splits(rho) => {
+                Ok(Equilibrium::mixture(&sat, sat.quality_at_density(rho)))
+            }
+            _ => Ok(Equilibrium::single(self.props(rho, t))),
+        }
+    }
+
+    /// The equilibrium state at density `rho` where `value` (one of u, s, p, rising with T)
+    /// equals `target`; `slope` is its T-derivative in one phase, `guess` a temperature to
+    /// start from.
+    pub fn at_rho(
+        &self,
+        rho: f64,
+        target: f64,
+        guess: f64,
+        value: impl Fn(&Equilibrium) -> f64,
+        slope: impl Fn(&Props) -> f64,
+    ) -> Result<Equilibrium, FlashError> {
+        let (t_lo, t_hi) = self.t_range();
+        if !(rho > 0.0 && rho.is_finite() && target.is_finite()) {
+            return Err(FlashError::OutOfRange);
+        }
+        // One phase first: Newton on the single-phase surface, which is all there is above
+        // the critical temperature and outside the two-phase dome. From a good guess plain
+        // Newton converges in a few steps; the bracketed form backs it up.
+        let f = |t: f64| {
+            let p = self.props(rho, t);
+            (value(&Equilibrium::single(p)) - target, slope(&p), p)
+        };
+        let single = newton_from(guess, t_lo, t_hi, &f).or_else(|| {
+            let t = crate::solve::newton_bracketed(
+                |t| {
+                    let (v, d, _) = f(t);
+                    (v, d)
+                },
+                t_lo,
+                t_hi,
+                guess,
+                RTOL,
+            )
+            .ok()?;
+            Some(self.props(rho, t))
+        });
+        if let Some(p) = single {
+            let inside = self
+                .saturation_below_critical(p.t)
+                .is_some_and(|sat| sat.splits(rho));
+            if !inside {
+                return Ok(Equilibrium::single(p));
+            }
+        }
+        // Inside the dome (or beyond the ends): the equilibrium value along T.
+        let f = |t: f64| {
+            self.at_rho_t(rho, t)
+                .map_or(f64::NAN, |e| value(&e) - target)
+        };
+        if f(t_lo) > 0.0 {
+            return Err(FlashError::BelowTriplePoint);
+        }
+        if f(t_hi) < 0.0 {
+            return Err(FlashError::OutOfRange);
+        }
+        let t = crate::solve::root(f, t_lo, t_hi, RTOL * self.fluid.t_critical)
+            .map_err(|_| FlashError::NoConvergence)?;
+        self.at_rho_t(rho, t)
+    }
+
+    /// The equilibrium state at pressure `p` where `value` (s or h, rising with T at fixed
+    /// p) equals `target`; `slope` is its T-derivative at fixed p in one phase.
+    pub fn at_p(
+        &self,
+        p: f64,
+        target: f64,
+        value: impl Fn(&Equilibrium) -> f64,
+        slope: impl Fn(&Props) -> f64,
+    ) -> Result<Equilibrium, FlashError> {
+        let (t_lo, t_hi) = self.t_range();
+        if !(p > 0.0 && p <= self.p_limit()) {
+            return Err(FlashError::OutOfRange);
+        }
+        let (lo, hi) = match self.saturation_p(p) {
+            Some(sat) => {
+                let (l, v) = (
+                    value(&Equilibrium::single(sat.liquid)),
+                    value(&Equilibrium::single(sat.vapour)),
+                );
+                if target >= l && target <= v {
+                    let x = if v > l { (target - l) / (v - l) } else { 1.0 };
+                    return Ok(Equilibrium::mixture(&sat, x));
+                }
+                if target > v {
+                    (sat.t, t_hi)
+                } else {
+                    (t_lo, sat.t)
+                }
+            }
+            None => (t_lo, t_hi),
+        };
+        let f = |t: f64| -> (f64, f64) {
+            match self.at_pt(p, t) {
+                Ok(pr) => (value(&Equilibrium::single(pr)) - target, slope(&pr)),
+                Err(_) => (f64::NAN, f64::NAN),
+            }
+        };
+        let at_lo = f(lo).0;
+        if at_lo > 0.0 {
+            return Err(FlashError::BelowTriplePoint);
+        }
+        if f(hi).0 < 0.0 {
+            return Err(FlashError::OutOfRange);
+        }
+        let t = crate::solve::newton_bracketed(f, lo, hi, 0.5 * (lo + hi), RTOL)
+            .map_err(|_| FlashError::NoConvergence)?;
+        Ok(Equilibrium::single(self.at_pt(p, t)?))
+    }
+}
+
+/// Plain Newton's method from `guess` on a function returning its value, slope and the
+/// properties where it was evaluated; `None` if it leaves [lo, hi] or does not settle.
+/// Converged when the next step would be below the tolerance, so the properties returned
+/// are those at the last temperature evaluated.
+fn newton_from(
+    guess: f64,
+    lo: f64,
+    hi: f64,
+    f: &impl Fn(f64) -> (f64, f64, Props),
+) -> Option<Props> {
+    let mut t = guess.clamp(lo, hi);
+    for _ in 0..12 {
+        let (v, d, p) = f(t);
+        let step = v / d;
+        if !(step.is_finite() && d > 0.0) {
+            return None;
+        }
+        if step.abs() <= RTOL * t {
+            return Some(p);
+        }
+        t -= step;
+        if !(t >= lo && t <= hi) {
+            return None;
+        }
+    }
+    None
+}

@@ -1,0 +1,491 @@
+//! Reference multiparameter Helmholtz-energy equations of state: the coefficients of each gas
+//! and the reduced Helmholtz energy α(δ, τ) = α⁰ + αʳ with its derivatives.
+//!
+//! The coefficients live in `data/equations_of_state.json`, written by
+//! `tools/eos_coefficients.py` and embedded at build time; each gas's paper is cited there.
+//! Derivatives are exact: closed forms for the power, exponential and Gaussian terms, and
+//! second-order dual numbers for the non-analytic terms of carbon dioxide, whose closed forms
+//! run to pages.
+
+use std::sync::OnceLock;
+
+use serde::Deserialize;
+
+/// The embedded coefficient file.
+const COEFFICIENTS: &str = include_str!("../../../data/equations_of_state.json");
+
+/// A reduced Helmholtz energy and its derivatives in δ and τ up to the second order.
+#[derive(Debug, Clone, Copy, Default, PartialEq)]
+pub struct Derivatives {
+    /// The value.
+    pub a: f64,
+    /// ∂/∂δ.
+    pub d: f64,
+    /// ∂²/∂δ².
+    pub dd: f64,
+    /// ∂/∂τ.
+    pub t: f64,
+    /// ∂²/∂τ².
+    pub tt: f64,
+    /// ∂²/∂δ∂τ.
+    pub dt: f64,
+}
+
+/// One gas's equation of state, as the file gives it (molar basis, SI).
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct Fluid {
+    /// pvhazard's name of the gas.
+    pub gas: String,
+    /// The paper(s) the equation is published in.
+    pub reference: String,
+    /// Air: a mixture treated as one fluid; its phase boundary is then only approximate.
+    pub pseudo_pure: bool,
+    /// Molar mass used by the equation, kg/mol.
+    pub molar_mass: f64,
+    /// The equation's own molar gas constant, J/(mol·K).
+    pub gas_constant: f64,
+    /// Reducing temperature T_r of τ = T_r/T, K.
+    pub t_reducing: f64,
+    /// Reducing molar density ρ_r of δ = ρ/ρ_r, mol/m³.
+    pub rho_reducing: f64,
+    /// Critical temperature, K.
+    pub t_critical: f64,
+    /// Critical pressure, Pa.
+    pub p_critical: f64,
+    /// Critical molar density, mol/m³.
+    pub rho_critical: f64,
+    /// Triple-point temperature (helium: the lambda point), K.
+    pub t_triple: f64,
+    /// Highest temperature the equation is stated for, K.
+    pub t_max: f64,
+    /// Highest pressure the equation is stated for, Pa.
+    pub p_max: f64,
+    ideal: Ideal,
+    residual: Residual,
+    /// Ancillary saturation curves: starting guesses for the phase-equilibrium solver.
+    pub ancillary: Ancillaries,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct Ideal {
+    lead: [f64; 2],
+    log_tau: f64,
+    power: Columns,
+    planck_einstein: Columns,
+    planck_generalized: Columns,
+}
+
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct Residual {
+    power: Columns,
+    gaussian: Columns,
+    non_analytic: Columns,
+}
+
+/// Coefficient columns of one kind of term, by the names the file uses.
+#[derive(Debug, Deserialize)]
+#[serde(transparent)]
+struct Columns(std::collections::BTreeMap<String, Vec<f64>>);
+
+impl Columns {
+    /// The rows of the named columns; panics on a malformed file, which the tests rule out.
+    fn rows<const N: usize>(&self, names: [&str; N]) -> Vec<[f64; N]> {
+        let cols = names.map(|n| {
+            self.0
+                .get(n)
+                .unwrap_or_else(|| panic!("coefficient column {n} missing"))
+        });
+        let len = cols[0].len();
+        assert!(
+            cols.iter().all(|c| c.len() == len),
+            "ragged coefficient columns"
+        );
+        (0..len).map(|i| cols.map(|c| c[i])).collect()
+    }
+}
+
+/// The three ancillary curves of a gas.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct Ancillaries {
+    /// Saturation (vapour) pressure.
+    pub p_sat: Ancillary,
+    /// Saturated-liquid molar density.
+    pub rho_liquid: Ancillary,
+    /// Saturated-vapour molar density.
+    pub rho_vapour: Ancillary,
+}
+
+/// x/x_r = exp((T_r/T)·Σ n·θ^t) or 1 + Σ n·θ^t, θ = 1 − T/T_r.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct Ancillary {
+    kind: AncillaryKind,
+    n: Vec<f64>,
+    t: Vec<f64>,
+    t_r: f64,
+    reducing: f64,
+    tau_r: bool,
+    t_min: f64,
+    t_max: f64,
+}
+
+#[derive(Debug, Clone, Copy, Deserialize)]
+#[serde(rename_all = "lowercase")]
+enum AncillaryKind {
+    Exponential,
+    Linear,
+}
+
+impl Ancillary {
+    /// The curve's value at `t` (clamped to the range it was fitted over).
+    pub fn at(&self, t: f64) -> f64 {
+        let t = t.clamp(self.t_min, self.t_max.min(self.t_r));
+        let theta = 1.0 - t / self.t_r;
+        let sum: f64 = self
+            .n
+            .iter()
+            .zip(&self.t)
+            .map(|(n, e)| n * theta.powf(*e))
+            .sum();
+        match self.kind {
+            AncillaryKind::Exponential => {
+                let f = if self.tau_r { self.t_r / t } else { 1.0 };
+                self.reducing * (f * sum).exp()
+            }
+            AncillaryKind::Linear => self.reducing * (1.0 + sum),
+        }
+    }
+}
+
+/// An equation of state ready to evaluate: the file's columns turned into term rows.
+#[derive(Debug)]
+pub struct Equation {
+    /// The constants and ancillaries from the file.
+    pub fluid: Fluid,
+    power: Vec<PowerTerm>,
+    gaussian: Vec<[f64; 7]>,
+    non_analytic: Vec<[f64; 8]>,
+    ideal_power: Vec<[f64; 2]>,
+    planck: Vec<[f64; 2]>,
+    planck_generalized: Vec<[f64; 4]>,
+    /// Saturation pressure at the triple point, Pa (from the equation itself).
+    pub p_triple: f64,
+    /// The highest temperature the two-phase solver accepts, K.
+    pub t_sat_max: f64,
+    /// Saturation pressure there, Pa.
+    pub p_sat_max: f64,
+}
+
+/// Every equation in the file, parsed once.
+pub fn equations() -> &'static [Equation] {
+    static ALL: OnceLock<Vec<Equation>> = OnceLock::new();
+    ALL.get_or_init(|| {
+        #[derive(Deserialize)]
+        struct File {
+            fluids: Vec<Fluid>,
+        }
+        let file: File =
+            serde_json::from_str(COEFFICIENTS).expect("data/equations_of_state.json is valid");
+        file.fluids
+            .into_iter()
+            .map(|f| {
+                let mut eq = Equation::new(f);
+                eq.t_sat_max = eq.highest_saturation_temperature();
+                let psat = |t: f64| eq.saturation_t(t).map_or(f64::NAN, |s| s.p);
+                (eq.p_triple, eq.p_sat_max) = (psat(eq.fluid.t_triple), psat(eq.t_sat_max));
+                eq
+            })
+            .collect()
+    })
+}
+
+/// The equation of state of the gas called `name`, if there is one.
+pub fn equation(name: &str) -> Option<&'static Equation> {
+    equations().iter().find(|e| e.fluid.gas == name)
+}
+
+impl Equation {
+    fn new(fluid: Fluid) -> Equation {
+        let r = &fluid.residual;
+        let i = &fluid.ideal;
+        Equation {
+            power: r
+                .power
+                .rows(["n", "d", "t", "l"])
+                .into_iter()
+                .map(PowerTerm::new)
+                .collect(),
+            gaussian: r
+                .gaussian
+                .rows(["n", "d", "t", "eta", "epsilon", "beta", "gamma"]),
+            non_analytic: r
+                .non_analytic
+                .rows(["n", "a", "b", "beta", "A", "B", "C", "D"]),
+            ideal_power: i.power.rows(["n", "t"]),
+            planck: i.planck_einstein.rows(["n", "t"]),
+            planck_generalized: i.planck_generalized.rows(["n", "t", "c", "d"]),
+            fluid,
+            p_triple: f64::NAN,
+            t_sat_max: f64::NAN,
+            p_sat_max: f64::NAN,
+        }
+    }
+
+    /// The ideal-gas part α⁰(δ, τ) and its derivatives.
+    pub fn ideal(&self, delta: f64, tau: f64) -> Derivatives {
+        let i = &self.fluid.ideal;
+        let [a1, a2] = i.lead;
+        let c = i.log_tau;
+        let mut out = Derivatives {
+            a: delta.ln() + a1 + a2 * tau + c * tau.ln(),
+            d: 1.0 / delta,
+            dd: -1.0 / (delta * delta),
+            t: a2 + c / tau,
+            tt: -c / (tau * tau),
+            dt: 0.0,
+        };
+        for &[n, t] in &self.ideal_power {
+            let v = n * tau.powf(t);
+            out.a += v;
+            out.t += v * t / tau;
+            out.tt += v * t * (t - 1.0) / (tau * tau);
+        }
+        for &[n, t] in &self.planck {
+            // n·ln(1 − e^(−tτ))
+            let e = (t * tau).exp();
+            out.a += n * (-(-t * tau).exp()).ln_1p();
+            out.t += n * t / (e - 1.0);
+            out.tt -= n * t * t * e / ((e - 1.0) * (e - 1.0));
+        }
+        for &[n, t, c, d] in &self.planck_generalized {
+            // n·ln(c + d·e^(tτ))
+            let e = d * (t * tau).exp();
+            let s = c + e;
+            out.a += n * s.ln();
+            out.t += n * t * e / s;
+            out.tt += n * t * t * c * e / (s * s);
+        }
+        out
+    }
+
+    /// The residual part αʳ(δ, τ) and its derivatives.
+    pub fn residual(&self, delta: f64, tau: f64) -> Derivatives {
+        let (ld, lt) = (delta.ln(), tau.ln());
+        let (id, it) = (1.0 / delta, 1.0 / tau);
+        let mut o = Derivatives::default();
+        // δ^l for every l the power terms use, by multiplication.
+        let mut delta_l = [1.0; MAX_L + 1];
+        for k in 1..=MAX_L {
+            delta_l[k] = delta_l[k - 1] * delta;
+        }
+        // Sums before the common factors 1/δ, 1/τ are applied once at the end.
+        let (mut sd, mut sdd, mut st, mut stt, mut sdt) = (0.0, 0.0, 0.0, 0.0, 0.0);
+        for p in &self.power {
+            let dl = if p.l == 0 { 0.0 } else { delta_l[p.l] };
+            let v = p.n * (p.d * ld + p.t * lt - dl).exp();
+            let big_d = p.d - p.lf * dl;
+            o.a += v;
+            sd += v * big_d;
+            sdd += v * (big_d * (big_d - 1.0) - p.l2 * dl);
+            st += v * p.t;
+            stt += v * p.t_t1;
+            sdt += v * big_d * p.t;
+        }
+        o.d = sd * id;
+        o.dd = sdd * id * id;
+        o.t = st * it;
+        o.tt = stt * it * it;
+        o.dt = sdt * id * it;
+        for &[n, d, t, eta, eps, beta, gamma] in &self.gaussian {
+            let (x, y) = (delta - eps, tau - gamma);
+            let v = n * (d * ld + t * lt - eta * x * x - beta * y * y).exp();
+            let fd = d * id - 2.0 * eta * x;
+            let ft = t * it - 2.0 * beta * y;
+            o.a += v;
+            o.d += v * fd;
+            o.dd += v * (fd * fd - d * id * id - 2.0 * eta);
+            o.t += v * ft;
+            o.tt += v * (ft * ft - t * it * it - 2.0 * beta);
+            o.dt += v * fd * ft;
+        }
+        if !self.non_analytic.is_empty() {
+            let x = Dual::var(non_analytic_delta(delta), 0);
+            let y = Dual::var(tau, 1);
+            for &[n, a, b, beta, big_a, big_b, big_c, big_d] in &self.non_analytic {
+                let dm1 = x - 1.0;
+                let sq = dm1 * dm1;
+                let theta = (1.0 - y) + sq.powf(0.5 / beta) * big_a;
+                let cap_delta = theta * theta + sq.powf(a) * big_b;
+                let tm1 = y - 1.0;
+                let psi = (sq * (-big_c) + tm1 * tm1 * (-big_d)).exp();
+                let term = cap_delta.powf(b) * x * psi * n;
+                o.a += term.v;
+                o.d += term.d;
+                o.dd += term.dd;
+                o.t += term.t;
+                o.tt += term.tt;
+                o.dt += term.dt;
+            }
+        }
+        o
+    }
+}
+
+/// The largest exponent l of the power terms' exp(−δ^l) the file may use.
+const MAX_L: usize = 8;
+
+/// A power term n·δ^d·τ^t·exp(−δ^l) with the constants its derivatives need.
+#[derive(Debug)]
+struct PowerTerm {
+    n: f64,
+    d: f64,
+    t: f64,
+    /// t·(t − 1).
+    t_t1: f64,
+    l: usize,
+    lf: f64,
+    /// l².
+    l2: f64,
+}
+
+impl PowerTerm {
+    fn new([n, d, t, l]: [f64; 4]) -> PowerTerm {
+        assert!(
+            l >= 0.0 && l <= MAX_L as f64 && l.fract() == 0.0,
+            "exponent l = {l} of a power term is not a whole number up to {MAX_L}"
+        );
+        PowerTerm {
+            n,
+            d,
+            t,
+            t_t1: t * (t - 1.0),
+            l: l as usize,
+            lf: l,
+            l2: l * l,
+        }
+    }
+}
+
+/// The non-analytic terms have a removable singularity in their second δ-derivative at
+/// exactly δ = 1; evaluate a hair away from it there.
+fn non_analytic_delta(delta: f64) -> f64 {
+    if (delta - 1.0).abs() < 1e-9 {
+        1.0 + 1e-9
+    } else {
+        delta
+    }
+}
+
+/// A second-order dual number in two variables (δ, τ): a value with its first and second
+/// partial derivatives, carried exactly through arithmetic.
+#[derive(Debug, Clone, Copy)]
+struct Dual {
+    v: f64,
+    d: f64,
+    t: f64,
+    dd: f64,
+    dt: f64,
+    tt: f64,
+}
+
+impl Dual {
+    /// δ (`which` = 0) or τ (`which` = 1) at `v`.
+    fn var(v: f64, which: usize) -> Dual {
+        Dual {
+            v,
+            d: f64::from(u8::from(which == 0)),
+            t: f64::from(u8::from(which == 1)),
+            dd: 0.0,
+            dt: 0.0,
+            tt: 0.0,
+        }
+    }
+
+    /// f(self) given f, f′ and f″ at the value.
+    fn chain(self, f: f64, f1: f64, f2: f64) -> Dual {
+        Dual {
+            v: f,
+            d: f1 * self.d,
+            t: f1 * self.t,
+            dd: f2 * self.d * self.d + f1 * self.dd,
+            dt: f2 * self.d * self.t + f1 * self.dt,
+            tt: f2 * self.t * self.t + f1 * self.tt,
+        }
+    }
+
+    fn exp(self) -> Dual {
+        let e = self.v.exp();
+        self.chain(e, e, e)
+    }
+
+    fn powf(self, k: f64) -> Dual {
+        let p = self.v.powf(k - 2.0);
+        self.chain(p * self.v * self.v, k * p * self.v, k * (k - 1.0) * p)
+    }
+}
+
+impl std::ops::Add for Dual {
+    type Output = Dual;
+    fn add(self, o: Dual) -> Dual {
+        Dual {
+            v: self.v + o.v,
+            d: self.d + o.d,
+            t: self.t + o.t,
+            dd: self.dd + o.dd,
+            dt: self.dt + o.dt,
+            tt: self.tt + o.tt,
+        }
+    }
+}
+
+impl std::ops::Mul for Dual {
+    type Output = Dual;
+    fn mul(self, o: Dual) -> Dual {
+        Dual {
+            v: self.v * o.v,
+            d: self.d * o.v + self.v * o.d,
+            t: self.t * o.v + self.v * o.t,
+            dd: self.dd * o.v + 2.0 * self.d * o.d + self.v * o.dd,
+            dt: self.dt * o.v + self.d * o.t + self.t * o.d + self.v * o.dt,
+            tt: self.tt * o.v + 2.0 * self.t * o.t + self.v * o.tt,
+        }
+    }
+}
+
+impl std::ops::Mul<f64> for Dual {
+    type Output = Dual;
+    fn mul(self, k: f64) -> Dual {
+        Dual {
+            v: self.v * k,
+            d: self.d * k,
+            t: self.t * k,
+            dd: self.dd * k,
+            dt: self.dt * k,
+            tt: self.tt * k,
+        }
+    }
+}
+
+impl std::ops::Sub<f64> for Dual {
+    type Output = Dual;
+    fn sub(self, k: f64) -> Dual {
+        Dual {
+            v: self.v - k,
+            ..self
+        }
+    }
+}
+
+impl std::ops::Sub<Dual> for f64 {
+    type Output = Dual;
+    fn sub(self, x: Dual) -> Dual {
+        Dual {
+            v: self - x.v,
+            ..x * -1.0
+        }
+    }
+}

@@ -1,0 +1,427 @@
+//! The real-gas model: each gas's reference multiparameter Helmholtz-energy equation of
+//! state, evaluated by the project itself ([`helmholtz`]), with the two-phase region handled
+//! by the Maxwell criterion ([`saturation`]) and states from any pair of variables
+//! ([`flash`]).
+
+mod flash;
+pub mod helmholtz;
+mod props;
+mod saturation;
+
+pub use flash::{Equilibrium, FlashError};
+pub use helmholtz::{equation, equations, Derivatives, Equation};
+pub use props::Props;
+pub use saturation::Saturation;
+
+use uom::si::f64::{
+    AvailableEnergy, MassDensity, MassFlux, Pressure, SpecificHeatCapacity,
+    ThermodynamicTemperature,
+};
+use uom::si::{
+    available_energy::joule_per_kilogram, mass_density::kilogram_per_cubic_meter,
+    mass_flux::kilogram_per_square_meter_second, pressure::pascal,
+    specific_heat_capacity::joule_per_kilogram_kelvin, thermodynamic_temperature::kelvin,
+};
+
+use super::{Gas, GasError, GasModel, ModelKind, NozzleFlow, State};
+use crate::caution::{Caution, Level};
+
+/// A gas described by its reference equation of state.
+#[derive(Debug, Clone, Copy)]
+pub struct RealGas {
+    gas: &'static Gas,
+    eq: &'static Equation,
+}
+
+impl RealGas {
+    /// The real-gas model of `gas` (every gas in the catalogue has an equation).
+    pub fn new(gas: &'static Gas) -> RealGas {
+        let eq =
+            equation(gas.name).unwrap_or_else(|| panic!("no equation of state for {}", gas.name));
+        RealGas { gas, eq }
+    }
+
+    /// The equation of state behind the model.
+    pub fn equation(&self) -> &'static Equation {
+        self.eq
+    }
+
+    fn error(&self, e: FlashError, what: &'static str, value: String) -> GasError {
+        let f = &self.eq.fluid;
+        match e {
+            FlashError::BelowTriplePoint => GasError::Freezes {
+                gas: self.gas.name,
+                what: value,
+            },
+            FlashError::OutOfRange => GasError::OutOfRange {
+                what,
+                value,
+                accepted: format!(
+                    "states within the range of {}'s equation of state: {:.2} K to {:.0} K and up to {} bar(a)",
+                    self.gas.name,
+                    f.t_triple,
+                    f.t_max,
+                    crate::units::fmt_sig(f.p_max / 1e5, 4)
+                ),
+            },
+            FlashError::NoConvergence => GasError::OutOfRange {
+                what,
+                value,
+                accepted: "a state the equation-of-state solver can reach (it did not converge here; please report this case)".to_string(),
+            },
+        }
+    }
+
+    fn state(&self, e: Equilibrium) -> State {
+        State {
+            pressure: Pressure::new::<pascal>(e.p),
+            temperature: ThermodynamicTemperature::new::<kelvin>(e.t),
+            density: MassDensity::new::<kilogram_per_cubic_meter>(e.rho),
+            quality: e.quality,
+        }
+    }
+
+    /// The equilibrium state behind a `State` this model made.
+    fn equilibrium(&self, st: &State) -> Equilibrium {
+        let (rho, t) = (
+            st.density.get::<kilogram_per_cubic_meter>(),
+            st.temperature.get::<kelvin>(),
+        );
+        self.eq.at_rho_t(rho, t).unwrap_or(Equilibrium {
+            rho,
+            t,
+            p: f64::NAN,
+            u: f64::NAN,
+            h: f64::NAN,
+            s: f64::NAN,
+            quality: None,
+            single: None,
+        })
+    }
+
+    /// Homogeneous equilibrium flow, for an isentrope that meets the two-phase region: the
+    /// flux ρ·√(2(h0 − h)) is maximised along the equilibrium isentrope over the throat
+    /// pressure (golden-section search on ln p); the flow is choked when the maximum lies
+    /// above the back pressure.
+    fn equilibrium_nozzle(&self, e0: &Equilibrium, pb: f64) -> NozzleFlow {
+        let flux = |ln_p: f64| {
+            self.eq
+                .at_p(ln_p.exp(), e0.s, |e| e.s, |p| p.cp / p.t)
+                .map_or(0.0, |e| e.rho * (2.0 * (e0.h - e.h)).max(0.0).sqrt())
+        };
+        let (mut a, mut b) = (pb.ln(), e0.p.ln());
+        let r = 0.5 * (5f64.sqrt() - 1.0);
+        let (mut c, mut d) = (b - r * (b - a), a + r * (b - a));
+        let (mut fc, mut fd) = (flux(c), flux(d));
+        for _ in 0..40 {
+            if fc > fd {
+                (b, d, fd) = (d, c, fc);
+                c = b - r * (b - a);
+                fc = flux(c);
+            } else {
+                (a, c, fc) = (c, d, fd);
+                d = a + r * (b - a);
+                fd = flux(d);
+            }
+        }
+        let at_back = flux(pb.ln());
+        let (best, ln_p) = if fc > fd { (fc, c) } else { (fd, d) };
+        if at_back >= best || ln_p - pb.ln() < 1e-6 {
+            NozzleFlow {
+                mass_flux: mass_flux(at_back),
+                choked: false,
+            }
+        } else {
+            NozzleFlow {
+                mass_flux: mass_flux(best),
+                choked: true,
+            }
+        }
+    }
+
+    /// The state on the isentrope `s` at density `rho`.
+    fn on_isentrope(&self, rho: f64, s: f64, guess: f64) -> Result<Equilibrium, FlashError> {
+        self.eq.at_rho(rho, s, guess, |e| e.s, |p| p.cv / p.t)
+    }
+}
+
+fn mass_flux(g: f64) -> MassFlux {
+    MassFlux::new::<kilogram_per_square_meter_second>(g)
+}
+
+impl GasModel for RealGas {
+    fn gas(&self) -> &'static Gas {
+        self.gas
+    }
+
+    fn kind(&self) -> ModelKind {
+        ModelKind::Real
+    }
+
+    fn describe(&self) -> String {
+        format!(
+            "real gas, the reference multiparameter equation of state ({}), R = {} J/(mol·K) as the equation gives it",
+            self.gas.eos, self.eq.fluid.gas_constant
+        )
+    }
+
+    fn check_gas_phase(&self, p: Pressure, t: ThermodynamicTemperature) -> Result<(), GasError> {
+        let tk = t.get::<kelvin>();
+        let f = &self.eq.fluid;
+        if tk < f.t_triple {
+            return Err(GasError::BelowTriplePoint {
+                gas: self.gas.name,
+                temperature_k: tk,
+                min_k: f.t_triple,
+            });
+        }
+        if tk < f.t_critical {
+            if let Some(sat) = self.eq.saturation_t(tk) {
+                if p.get::<pascal>() > sat.p {
+                    return Err(GasError::Liquefied {
+                        gas: self.gas.name,
+                        pressure_pa: p.get::<pascal>(),
+                        temperature_k: tk,
+                        saturation_pa: sat.p,
+                    });
+                }
+            }
+        }
+        Ok(())
+    }
+
+    fn saturation_temperature(&self, p: Pressure) -> Option<ThermodynamicTemperature> {
+        self.eq
+            .saturation_p(p.get::<pascal>())
+            .map(|s| ThermodynamicTemperature::new::<kelvin>(s.t))
+    }
+
+    fn state_pt(&self, p: Pressure, t: ThermodynamicTemperature) -> Result<State, GasError> {
+        self.check_gas_phase(p, t)?;
+        let (pp, tk) = (p.get::<pascal>(), t.get::<kelvin>());
+        let value = || format!("{} bar(a) at {tk:.2} K", crate::units::fmt_sig(pp / 1e5, 6));
+        let props = self
+            .eq
+            .at_pt(pp, tk)
+            .map_err(|e| self.error(e, "state", value()))?;
+        Ok(State {
+            pressure: p,
+            temperature: t,
+            density: MassDensity::new::<kilogram_per_cubic_meter>(props.rho),
+            quality: None,
+        })
+    }
+
+    fn state_rho_t(
+        &self,
+        rho: MassDensity,
+        t: ThermodynamicTemperature,
+    ) -> Result<State, GasError> {
+        let (r, tk) = (rho.get::<kilogram_per_cubic_meter>(), t.get::<kelvin>());
+        self.eq.at_rho_t(r, tk).map(|e| self.state(e)).map_err(|e| {
+            self.error(
+                e,
+                "state",
+                format!("{} kg/m3 at {tk:.2} K", crate::units::fmt_sig(r, 4)),
+            )
+        })
+    }
+
+    fn state_rho_s(&self, rho: MassDensity, s: SpecificHeatCapacity) -> Result<State, GasError> {
+        let (r, sv) = (
+            rho.get::<kilogram_per_cubic_meter>(),
+            s.get::<joule_per_kilogram_kelvin>(),
+        );
+        self.on_isentrope(r, sv, self.eq.fluid.t_critical.max(250.0))
+            .map(|e| self.state(e))
+            .map_err(|e| {
+                self.error(
+                    e,
+                    "state",
+                    format!(
+                        "the isentropic change to {} kg/m3",
+                        crate::units::fmt_sig(r, 4)
+                    ),
+                )
+            })
+    }
+
+    fn state_p_s(&self, p: Pressure, s: SpecificHeatCapacity) -> Result<State, GasError> {
+        let (pp, sv) = (p.get::<pascal>(), s.get::<joule_per_kilogram_kelvin>());
+        self.eq
+            .at_p(pp, sv, |e| e.s, |p| p.cp / p.t)
+            .map(|e| self.state(e))
+            .map_err(|e| {
+                self.error(
+                    e,
+                    "state",
+                    format!(
+                        "the isentropic expansion to {} bar(a)",
+                        crate::units::fmt_sig(pp / 1e5, 4)
+                    ),
+                )
+            })
+    }
+
+    fn state_rho_p(&self, rho: MassDensity, p: Pressure) -> Result<State, GasError> {
+        let (r, pp) = (rho.get::<kilogram_per_cubic_meter>(), p.get::<pascal>());
+        let guess = pp / (r * self.eq.r_specific());
+        self.eq
+            .at_rho(r, pp, guess, |e| e.p, |p| p.dp_dt)
+            .map(|e| self.state(e))
+            .map_err(|e| {
+                self.error(
+                    e,
+                    "state",
+                    format!(
+                        "cooling at {} kg/m3 to {} bar(a)",
+                        crate::units::fmt_sig(r, 4),
+                        crate::units::fmt_sig(pp / 1e5, 4)
+                    ),
+                )
+            })
+    }
+
+    fn state_rho_u(&self, rho: MassDensity, u: AvailableEnergy) -> Result<State, GasError> {
+        let (r, uv) = (
+            rho.get::<kilogram_per_cubic_meter>(),
+            u.get::<joule_per_kilogram>(),
+        );
+        self.eq
+            .at_rho(
+                r,
+                uv,
+                self.eq.fluid.t_critical.max(250.0),
+                |e| e.u,
+                |p| p.cv,
+            )
+            .map(|e| self.state(e))
+            .map_err(|e| {
+                self.error(
+                    e,
+                    "state",
+                    format!(
+                        "the gas at {} kg/m3 and u = {} kJ/kg",
+                        crate::units::fmt_sig(r, 4),
+                        crate::units::fmt_sig(uv / 1e3, 5)
+                    ),
+                )
+            })
+    }
+
+    fn internal_energy(&self, st: &State) -> AvailableEnergy {
+        AvailableEnergy::new::<joule_per_kilogram>(self.equilibrium(st).u)
+    }
+
+    fn entropy(&self, st: &State) -> SpecificHeatCapacity {
+        SpecificHeatCapacity::new::<joule_per_kilogram_kelvin>(self.equilibrium(st).s)
+    }
+
+    fn enthalpy(&self, st: &State) -> AvailableEnergy {
+        AvailableEnergy::new::<joule_per_kilogram>(self.equilibrium(st).h)
+    }
+
+    fn nozzle(&self, stagnation: &State, back: Pressure) -> NozzleFlow {
+        // Steady isentropic flow: h0 = h + c²/2 along the stagnation isentrope. The flux
+        // ρ·c peaks where c equals the speed of sound (the choked throat); below that back
+        // pressure the flow no longer depends on it.
+        let zero = NozzleFlow {
+            mass_flux: mass_flux(0.0),
+            choked: false,
+        };
+        let e0 = self.equilibrium(stagnation);
+        let pb = back.get::<pascal>();
+        if pb.is_nan() || e0.p.is_nan() || pb >= e0.p {
+            return zero;
+        }
+        let Some(p0) = e0.single else {
+            return self.equilibrium_nozzle(&e0, pb);
+        };
+        let kappa = (p0.rho * p0.w2 / p0.p).clamp(1.0 + 1e-6, 20.0);
+        let flux = |e: &Equilibrium| e.rho * (2.0 * (e0.h - e.h)).max(0.0).sqrt();
+        // The sonic throat: F(ρ) = 2(h0 − h) − w² = 0 by the secant method.
+        // Each state starts from the last one's temperature, scaled along the isentrope.
+        let last = std::cell::Cell::new((e0.rho, e0.t));
+        let sonic = |rho: f64| -> Option<(f64, Equilibrium)> {
+            let (r, t) = last.get();
+            let e = self
+                .on_isentrope(rho, e0.s, t * (rho / r).powf(kappa - 1.0))
+                .ok()?;
+            last.set((e.rho, e.t));
+            let w2 = e.single?.w2;
+            Some((2.0 * (e0.h - e.h) - w2, e))
+        };
+        let start = p0.rho * (2.0 / (kappa + 1.0)).powf(1.0 / (kappa - 1.0));
+        let secant = || -> Option<Equilibrium> {
+            let (mut a, mut b) = (start, start * 1.01);
+            let (mut fa, _) = sonic(a)?;
+            let (mut fb, mut eb) = sonic(b)?;
+            for _ in 0..30 {
+                // The flux is flat at its maximum: 1e-9 in ρ is 1e-15 or better in flux.
+                if fb == 0.0 || ((b - a) / b).abs() < 1e-9 {
+                    return Some(eb);
+                }
+                let c = b - fb * (b - a) / (fb - fa);
+                if !(c > 0.0 && c < p0.rho) {
+                    return None;
+                }
+                (a, fa) = (b, fb);
+                (b, (fb, eb)) = (c, sonic(c)?);
+            }
+            None
+        };
+        // Where the secant method strays, step down from the stagnation density (F < 0)
+        // to the first density with F > 0 and solve between by Brent's method. If the
+        // isentrope reaches the two-phase region first, there is no single-phase throat.
+        let bracketed = || -> Option<Equilibrium> {
+            let mut hi = p0.rho;
+            for _ in 0..200 {
+                let lo = hi * 0.97;
+                let (f, _) = sonic(lo)?;
+                if f > 0.0 {
+                    let g = |rho: f64| sonic(rho).map_or(f64::NAN, |(f, _)| f);
+                    let rho = crate::solve::root(g, lo, hi, 1e-13 * p0.rho).ok()?;
+                    return sonic(rho).map(|(_, e)| e);
+                }
+                hi = lo;
+            }
+            None
+        };
+        let throat = secant().or_else(bracketed);
+        match throat {
+            Some(t) if t.p > pb => NozzleFlow {
+                mass_flux: mass_flux(flux(&t)),
+                choked: true,
+            },
+            // Subcritical: the throat is at the back pressure.
+            Some(_) => match self.eq.at_p(pb, e0.s, |e| e.s, |p| p.cp / p.t) {
+                Ok(e) => NozzleFlow {
+                    mass_flux: mass_flux(flux(&e)),
+                    choked: false,
+                },
+                Err(_) => zero,
+            },
+            None => self.equilibrium_nozzle(&e0, pb),
+        }
+    }
+
+    fn limitations(&self, st: &State) -> Vec<Caution> {
+        let f = &self.eq.fluid;
+        let tr = st.temperature.get::<kelvin>() / f.t_critical;
+        let pr = st.pressure.get::<pascal>() / f.p_critical;
+        let mut out = Vec::new();
+        if (tr - 1.0).abs() < 0.05 && (pr - 1.0).abs() < 0.3 {
+            out.push(Caution::new(
+                Level::Caution,
+                format!("{} is near its critical point here: its properties change steeply, so small errors in the pressure or temperature given make large differences in the results.", self.gas.name),
+            ));
+        }
+        if f.pseudo_pure && st.quality.is_some() {
+            out.push(Caution::new(
+                Level::Notice,
+                "Air is modelled as one pseudo-pure fluid: where it condenses, its bubble and dew lines (a few kelvin apart) are replaced by a single saturation line.",
+            ));
+        }
+        out
+    }
+}

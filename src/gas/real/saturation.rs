@@ -1,0 +1,150 @@
+//! Vapour–liquid equilibrium of a pure fluid from its Helmholtz equation: equal pressure and
+//! equal Gibbs energy in both phases (the Maxwell criterion).
+
+use super::helmholtz::Equation;
+use super::props::Props;
+
+/// Liquid and vapour in equilibrium at one temperature.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Saturation {
+    /// Saturation temperature, K.
+    pub t: f64,
+    /// Saturation pressure, Pa.
+    pub p: f64,
+    /// The saturated liquid.
+    pub liquid: Props,
+    /// The saturated vapour.
+    pub vapour: Props,
+}
+
+impl Saturation {
+    /// Vapour mass fraction of a mixture of the two at mass density `rho`.
+    pub fn quality_at_density(&self, rho: f64) -> f64 {
+        let (vl, vv) = (1.0 / self.liquid.rho, 1.0 / self.vapour.rho);
+        (1.0 / rho - vl) / (vv - vl)
+    }
+
+    /// Whether a mass density lies strictly between the two saturated densities.
+    pub fn splits(&self, rho: f64) -> bool {
+        rho > self.vapour.rho && rho < self.liquid.rho
+    }
+}
+
+impl Equation {
+    /// Saturation at temperature `t`, or `None` outside [triple point, `t_sat_max`]: the
+    /// solver is trusted up to the highest temperature at which it converges, found once per
+    /// gas (within 0.1 % of the critical temperature for the pure gases; about 1 % for air,
+    /// whose pseudo-pure equation has no sharp critical point). Closer to the critical
+    /// point the two phases are all but the same, and states there are taken as one phase.
+    pub fn saturation_t(&self, t: f64) -> Option<Saturation> {
+        (t <= self.t_sat_max).then(|| self.maxwell(t)).flatten()
+    }
+
+    /// The highest temperature, below the critical one, at which the saturation solver
+    /// converges (bisection on convergence).
+    pub(super) fn highest_saturation_temperature(&self) -> f64 {
+        let tc = self.fluid.t_critical;
+        let (mut lo, mut hi) = (0.9 * tc, tc * (1.0 - 1e-3));
+        if self.maxwell(hi).is_some() {
+            return hi;
+        }
+        for _ in 0..30 {
+            let mid = 0.5 * (lo + hi);
+            if self.maxwell(mid).is_some() {
+                lo = mid;
+            } else {
+                hi = mid;
+            }
+        }
+        lo
+    }
+
+    /// Newton's method on the reduced densities after Akasaka (2008, J. Thermal Sci. Tech.
+    /// 3, 442–451), started from the ancillary curves.
+    fn maxwell(&self, t: f64) -> Option<Saturation> {
+        let f = &self.fluid;
+        if !(t >= f.t_triple && t < f.t_critical) {
+            return None;
+        }
+        let tau = f.t_reducing / t;
+        let (mut dl, mut dv) = (
+            f.ancillary.rho_liquid.at(t) / f.rho_reducing,
+            f.ancillary.rho_vapour.at(t) / f.rho_reducing,
+        );
+        let jk = |delta: f64| {
+            let r = self.residual(delta, tau);
+            let j = delta * (1.0 + delta * r.d);
+            let k = delta * r.d + r.a + delta.ln();
+            let jd = 1.0 + 2.0 * delta * r.d + delta * delta * r.dd;
+            let kd = 2.0 * r.d + delta * r.dd + 1.0 / delta;
+            (j, k, jd, kd)
+        };
+        for _ in 0..100 {
+            let (jl, kl, jdl, kdl) = jk(dl);
+            let (jv, kv, jdv, kdv) = jk(dv);
+            let det = jdv * kdl - jdl * kdv;
+            let step_l = ((kv - kl) * jdv - (jv - jl) * kdv) / det;
+            let step_v = ((kv - kl) * jdl - (jv - jl) * kdl) / det;
+            if !(step_l.is_finite() && step_v.is_finite()) {
+                return None;
+            }
+            // Damp a step that would leave the physical region.
+            let mut g = 1.0;
+            while (dl + g * step_l <= 0.0 || dv + g * step_v <= 0.0) && g > 1e-6 {
+                g *= 0.5;
+            }
+            dl += g * step_l;
+            dv += g * step_v;
+            if (step_l / dl).abs() < 1e-13 && (step_v / dv).abs() < 1e-13 {
+                break;
+            }
+        }
+        if dl.is_nan() || dv.is_nan() || dl <= dv * (1.0 + 1e-6) {
+            return None;
+        }
+        let m = f.molar_mass * f.rho_reducing;
+        let liquid = self.props(dl * m, t);
+        let vapour = self.props(dv * m, t);
+        // The liquid's pressure is stiff in its density: judge it on the liquid's scale ρRT.
+        let rt = self.r_specific() * t;
+        let consistent = (liquid.p - vapour.p).abs() <= 1e-9 * liquid.rho * rt
+            && (liquid.g() - vapour.g()).abs() <= 1e-9 * rt;
+        consistent.then_some(Saturation {
+            t,
+            p: vapour.p,
+            liquid,
+            vapour,
+        })
+    }
+
+    /// Saturation at pressure `p`, or `None` outside [triple-point pressure, critical
+    /// pressure).
+    ///
+    /// Newton's method in 1/T on ln p with the Clausius–Clapeyron slope, started from the
+    /// ancillary vapour-pressure curve.
+    pub fn saturation_p(&self, p: f64) -> Option<Saturation> {
+        let f = &self.fluid;
+        let (lo, hi) = (f.t_triple, self.t_sat_max);
+        if !(p >= self.p_triple && p < self.p_sat_max) {
+            return None;
+        }
+        let ln_p = p.ln();
+        let guess = crate::solve::root(|t| f.ancillary.p_sat.at(t).ln() - ln_p, lo, hi, 1e-9 * hi)
+            .unwrap_or(0.5 * (lo + hi));
+        let mut t = guess;
+        for _ in 0..50 {
+            let sat = self.saturation_t(t)?;
+            let dv = 1.0 / sat.vapour.rho - 1.0 / sat.liquid.rho;
+            let dp_dt = (sat.vapour.h - sat.liquid.h) / (t * dv);
+            // ln p against 1/T is nearly straight: step in x = 1/T.
+            let slope = -t * t * dp_dt / sat.p;
+            let x = 1.0 / t - (sat.p.ln() - ln_p) / slope;
+            let next = (1.0 / x).clamp(lo, hi);
+            if ((next - t) / t).abs() < 1e-13 || (sat.p / p - 1.0).abs() < 1e-14 {
+                return self.saturation_t(next);
+            }
+            t = next;
+        }
+        None
+    }
+}
