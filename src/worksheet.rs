@@ -448,15 +448,26 @@ fn vessel_parts(
     };
     let assessed = energy::stored_energy(model, &energy_input)?;
     out.cautions.extend(assessed.cautions.iter().cloned());
-    let report = EnergyReport::new(model, &energy_input, assessed);
+    let mut report = EnergyReport::new(model, &energy_input, assessed);
+    if let Some(ideal) = crate::gas::ideal_twin(model) {
+        if let Ok(out) = energy::stored_energy(&ideal, &energy_input) {
+            report.compare_with(&EnergyReport::new(&ideal, &energy_input, out));
+        }
+    }
     out.stored_energy = report.energy_j.isentropic;
     out.result("energy", &report);
     for calc in &t.calculations {
         match calc {
-            Calculation::StoredEnergy => out.section(
-                format!("Stored energy at the {basis}"),
-                report.stored_entries(),
-            ),
+            Calculation::StoredEnergy => {
+                out.section(
+                    format!("Stored energy at the {basis}"),
+                    report.stored_entries(),
+                );
+                out.section(
+                    "Stored energy on the ideal gas, for comparison",
+                    report.comparison_entries(),
+                );
+            }
             Calculation::Distances => out.section(
                 "Exclusion zone and blast standoffs",
                 report.distance_entries(),
@@ -535,10 +546,19 @@ fn vent_down(
     };
     let assessed = vent::blow_down(model, &input)?;
     out.cautions.extend(assessed.cautions.iter().cloned());
-    let report = VentReport::new(model, &input, assessed);
+    let mut report = VentReport::new(model, &input, assessed);
+    if let Some(ideal) = crate::gas::ideal_twin(model) {
+        if let Ok(o) = vent::blow_down(&ideal, &input) {
+            report.compare_with(&VentReport::new(&ideal, &input, o));
+        }
+    }
     out.section(
         format!("Vent-down through the {}", drain.description),
         report.result_entries(),
+    );
+    out.section(
+        "Vent-down on the ideal gas, for comparison",
+        report.comparison_entries(),
     );
     // The same vent with heat from the wall: what the gas and the metal actually reach,
     // and the depressuring check against the MAWP.
@@ -614,7 +634,6 @@ fn vent_down(
             .map(|s| (s.time.get::<second>(), s.pressure.get::<pascal>()))
             .collect(),
     );
-    let mut report = report;
     report.transient = Some(warm_report);
     report.depressuring = depressuring;
     if temperature.points.len() > 1 {
@@ -686,7 +705,12 @@ fn cylinder_parts(
     };
     let assessed = fill::adiabatic_fill(model, &input)?;
     out.cautions.extend(assessed.cautions.iter().cloned());
-    let report = FillReport::new(model, &input, site.ambient, assessed);
+    let mut report = FillReport::new(model, &input, site.ambient, assessed);
+    if let Some(ideal) = crate::gas::ideal_twin(model) {
+        if let Ok(o) = fill::adiabatic_fill(&ideal, &input) {
+            report.compare_with(&FillReport::new(&ideal, &input, site.ambient, o));
+        }
+    }
     let mut entries = report.result_entries();
     let go = report.final_temperature_k <= c.rated_temperature;
     entries.insert(
@@ -711,6 +735,10 @@ fn cylinder_parts(
         });
     }
     out.section("Fast fill (adiabatic bound)", entries);
+    out.section(
+        "Fast fill on the ideal gas, for comparison",
+        report.comparison_entries(),
+    );
     let mut plot_series = vec![Series {
         label: "Gas, adiabatic bound".to_string(),
         right_axis: false,
@@ -720,7 +748,6 @@ fn cylinder_parts(
             .map(|s| (s.pressure.get::<pascal>(), s.temperature.get::<kelvin>()))
             .collect(),
     }];
-    let mut report = report;
     if let Some(rate) = c.fill_rate {
         let wall = Wall {
             mass: Mass::new::<kilogram>(c.construction.estimated_wall_mass(

@@ -1255,8 +1255,7 @@ def readme(got, counts, checks, fluids_, gaps):
         for key in eos_keys(fl.cp_name):
             lines.append(f"- `{fl.name}` — `{key}`: {bibtex(key)}")
     lines += ["",
-              "Helium-4: CoolProp's entry is marked unpublished (coefficients from REFPROP 10, with",
-              "permission). Oxygen: CoolProp cites the Schmidt & Wagner (1985) form with Stewart,",
+              "Helium-4: CoolProp's bibliography marks the equation unpublished. Oxygen: CoolProp cites the Schmidt & Wagner (1985) form with Stewart,",
               "Jacobsen & Wagner (1991), whose title states the range triple point to 300 K at pressures",
               "to 80 MPa; CoolProp states 54.361–2000 K, and the grid above goes to 400 K: those oxygen",
               "rows above 300 K are the equation extrapolated as CoolProp evaluates it. The hottest",

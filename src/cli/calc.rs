@@ -10,7 +10,7 @@ use uom::si::pressure::pascal;
 use super::Failure;
 use crate::atmosphere;
 use crate::caution::ordered;
-use crate::gas::{Gas, ModelKind};
+use crate::gas::{ideal_twin, Gas, ModelKind};
 use crate::heat;
 use crate::record;
 use crate::report::{render_text, to_json, EnergyReport, FillReport, VentReport, Worksheet};
@@ -303,7 +303,12 @@ pub(super) fn energy_command(a: EnergyArgs) -> Result<String, Failure> {
         clearance: a.clearance,
     };
     let out = energy::stored_energy(model.as_ref(), &input)?;
-    let report = EnergyReport::new(model.as_ref(), &input, out);
+    let mut report = EnergyReport::new(model.as_ref(), &input, out);
+    if let Some(ideal) = ideal_twin(model.as_ref()) {
+        if let Ok(out) = energy::stored_energy(&ideal, &input) {
+            report.compare_with(&EnergyReport::new(&ideal, &input, out));
+        }
+    }
     render(&report, a.common.json, a.common.units)
 }
 
@@ -360,6 +365,11 @@ pub(super) fn fill_command(a: FillArgs) -> Result<String, Failure> {
         }
     })?;
     let mut report = FillReport::new(model.as_ref(), &input, pa, out);
+    if let Some(ideal) = ideal_twin(model.as_ref()) {
+        if let Ok(out) = fill::adiabatic_fill(&ideal, &input) {
+            report.compare_with(&FillReport::new(&ideal, &input, pa, out));
+        }
+    }
     let rate = match (a.rate, a.duration) {
         (Some(units::RateReading::Pressure(r)), _) => Some(FillRate::Ramp(r)),
         (Some(units::RateReading::Mass(m)), _) => Some(FillRate::MassFlow(m)),
@@ -509,6 +519,11 @@ pub(super) fn vent_command(a: VentArgs) -> Result<String, Failure> {
     };
     let out = vent::blow_down(model.as_ref(), &input)?;
     let mut report = VentReport::new(model.as_ref(), &input, out);
+    if let Some(ideal) = ideal_twin(model.as_ref()) {
+        if let Ok(out) = vent::blow_down(&ideal, &input) {
+            report.compare_with(&VentReport::new(&ideal, &input, out));
+        }
+    }
     if a.wall.heat_transfer.is_none()
         && !a.depressuring_check
         && (a.wall.any() || a.design_pressure.is_some())

@@ -215,6 +215,12 @@ impl Gas {
     }
 }
 
+/// The ideal gas of a real-gas model's gas, whose results are shown beside the real ones;
+/// `None` for a model that is already ideal.
+pub fn ideal_twin(model: &dyn GasModel) -> Option<IdealGas> {
+    (model.kind() == ModelKind::Real).then(|| IdealGas::new(model.gas()))
+}
+
 /// Which model computed a result; printed and written to JSON with every result.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, clap::ValueEnum)]
 #[serde(rename_all = "lowercase")]

@@ -65,6 +65,8 @@ pub struct EnergyReport {
     pub hydrotest_energy_j: Energy,
     /// Pressure to vent to before the energy is at or below `--energy-limit`, Pa(a).
     pub vent_down_target_pa: Option<Pressure>,
+    /// The ideal gas's results for the same inputs, when the real-gas model was used.
+    pub ideal_gas_comparison: Option<EnergyComparison>,
     /// Cautions, highest first, the deferral last.
     pub cautions: Vec<Caution>,
 }
@@ -134,6 +136,7 @@ impl EnergyReport {
                 .collect(),
             hydrotest_energy_j: r.hydrotest_energy,
             vent_down_target_pa: r.vent_down_target,
+            ideal_gas_comparison: None,
             cautions: ordered(out.cautions),
         }
     }
@@ -166,6 +169,8 @@ pub struct FillReport {
     pub path: Vec<FillSample>,
     /// The fill with heat exchanged with the wall, when a rate or duration was given.
     pub transient: Option<FillTransientReport>,
+    /// The ideal gas's results for the same inputs, when the real-gas model was used.
+    pub ideal_gas_comparison: Option<FillComparison>,
     /// Cautions, highest first, the deferral last.
     pub cautions: Vec<Caution>,
 }
@@ -325,6 +330,8 @@ pub struct FillInputs {
     pub initial_temperature_k: ThermodynamicTemperature,
     /// Supply gas temperature, K.
     pub supply_temperature_k: ThermodynamicTemperature,
+    /// Supply pressure, absolute, Pa (where the supply's enthalpy is taken).
+    pub supply_pressure_pa: Pressure,
     /// Ambient temperature, K.
     pub ambient_temperature_k: ThermodynamicTemperature,
     /// Rated maximum gas temperature, K.
@@ -353,6 +360,7 @@ impl FillReport {
                 to_pa: input.to,
                 initial_temperature_k: input.initial_temperature,
                 supply_temperature_k: input.supply_temperature,
+                supply_pressure_pa: input.supply_pressure.unwrap_or(input.to),
                 ambient_temperature_k: input.ambient_temperature,
                 rated_temperature_k: input.rated_temperature,
                 ambient_pressure_pa: ambient,
@@ -364,6 +372,7 @@ impl FillReport {
             fill_to_pressure_pa: r.fill_to_pressure,
             path: r.path,
             transient: None,
+            ideal_gas_comparison: None,
             cautions: ordered(out.cautions),
         }
     }
@@ -400,6 +409,8 @@ pub struct VentReport {
     pub transient: Option<VentTransientReport>,
     /// The depressuring check, when asked for.
     pub depressuring: Option<DepressuringReport>,
+    /// The ideal gas's results for the same inputs, when the real-gas model was used.
+    pub ideal_gas_comparison: Option<VentComparison>,
     /// Cautions, highest first, the deferral last.
     pub cautions: Vec<Caution>,
 }
@@ -557,8 +568,256 @@ impl VentReport {
             history: r.history,
             transient: None,
             depressuring: None,
+            ideal_gas_comparison: None,
             cautions: ordered(out.cautions),
         }
+    }
+}
+
+/// The ideal gas's stored-energy results for the same inputs.
+#[derive(Debug, Clone, Serialize)]
+pub struct EnergyComparison {
+    /// Gas mass, kg.
+    pub gas_mass_kg: Mass,
+    /// Expansion energies, J.
+    pub energy_j: Energies,
+    /// Gas temperature at the end of the isentropic expansion, K.
+    pub isentropic_end_temperature_k: ThermodynamicTemperature,
+    /// TNT mass equivalent, kg.
+    pub tnt_equivalent_kg: Mass,
+    /// Pneumatic-test exclusion distance, m.
+    pub exclusion_distance_m: Length,
+}
+
+/// The ideal gas's fill results for the same inputs.
+#[derive(Debug, Clone, Serialize)]
+pub struct FillComparison {
+    /// Gas temperature at the end of the adiabatic fill, K.
+    pub final_temperature_k: ThermodynamicTemperature,
+    /// Mass added, kg.
+    pub mass_added_kg: Mass,
+    /// Pressure after cooling to ambient, Pa(a).
+    pub settled_pressure_pa: Pressure,
+    /// Stop pressure that settles at the target, Pa(a).
+    pub fill_to_pressure_pa: Option<Pressure>,
+}
+
+/// The ideal gas's vent results for the same inputs.
+#[derive(Debug, Clone, Serialize)]
+pub struct VentComparison {
+    /// Time to the target pressure, s.
+    pub time_s: Option<Time>,
+    /// Gas temperature at the target pressure, K.
+    pub final_temperature_k: ThermodynamicTemperature,
+    /// Mass vented, kg.
+    pub mass_vented_kg: Mass,
+    /// Mass flow at the start, kg/s.
+    pub initial_mass_flow_kg_per_s: Option<MassRate>,
+}
+
+/// A comparison line: the ideal value, labelled with how far the real gas's value lies
+/// from it.
+fn compared(label: &str, real: f64, ideal: f64, value: Value) -> Entry {
+    let how = if ideal != 0.0 && real.is_finite() && ideal.is_finite() {
+        let d = (real - ideal) / ideal.abs() * 100.0;
+        if d.abs() < 0.05 {
+            "real gas within 0.1 %".to_string()
+        } else {
+            format!(
+                "real gas {} % {}",
+                crate::units::fmt_sig(d.abs(), 3),
+                if d > 0.0 { "higher" } else { "lower" }
+            )
+        }
+    } else {
+        "no difference to state".to_string()
+    };
+    entry(format!("{label} ({how})"), value)
+}
+
+/// A temperature compared as a difference in kelvin, which percentages of an absolute
+/// temperature would understate.
+fn compared_temperature(
+    label: &str,
+    real: ThermodynamicTemperature,
+    ideal: ThermodynamicTemperature,
+) -> Entry {
+    use uom::si::thermodynamic_temperature::kelvin;
+    let d = real.get::<kelvin>() - ideal.get::<kelvin>();
+    let how = if d.abs() < 0.05 {
+        "real gas within 0.1 K".to_string()
+    } else {
+        format!(
+            "real gas {} K {}",
+            crate::units::fmt_sig(d.abs(), 3),
+            if d > 0.0 { "warmer" } else { "colder" }
+        )
+    };
+    entry(format!("{label} ({how})"), Value::Temperature(ideal))
+}
+
+impl EnergyReport {
+    /// Keeps the ideal gas's results from `ideal` (the same inputs on the ideal model).
+    pub fn compare_with(&mut self, ideal: &EnergyReport) {
+        self.ideal_gas_comparison = Some(EnergyComparison {
+            gas_mass_kg: ideal.gas_mass_kg,
+            energy_j: ideal.energy_j,
+            isentropic_end_temperature_k: ideal.isentropic_end_temperature_k,
+            tnt_equivalent_kg: ideal.tnt_equivalent_kg,
+            exclusion_distance_m: ideal.exclusion_distance_m,
+        });
+    }
+
+    /// The ideal gas's values beside the real gas's, for the worksheet.
+    pub fn comparison_entries(&self) -> Vec<Entry> {
+        use uom::si::{energy::joule, length::meter, mass::kilogram};
+        let Some(c) = &self.ideal_gas_comparison else {
+            return Vec::new();
+        };
+        let e = |label: &str, real: Energy, ideal: Energy| {
+            compared(
+                label,
+                real.get::<joule>(),
+                ideal.get::<joule>(),
+                Value::Energy(ideal),
+            )
+        };
+        vec![
+            compared(
+                "Gas mass",
+                self.gas_mass_kg.get::<kilogram>(),
+                c.gas_mass_kg.get::<kilogram>(),
+                Value::Mass(c.gas_mass_kg),
+            ),
+            e(
+                "Isentropic energy",
+                self.energy_j.isentropic,
+                c.energy_j.isentropic,
+            ),
+            e(
+                "Isothermal energy",
+                self.energy_j.isothermal,
+                c.energy_j.isothermal,
+            ),
+            e("Brode energy", self.energy_j.brode, c.energy_j.brode),
+            compared_temperature(
+                "Isentropic end temperature",
+                self.isentropic_end_temperature_k,
+                c.isentropic_end_temperature_k,
+            ),
+            compared(
+                "TNT equivalent",
+                self.tnt_equivalent_kg.get::<kilogram>(),
+                c.tnt_equivalent_kg.get::<kilogram>(),
+                Value::Mass(c.tnt_equivalent_kg),
+            ),
+            compared(
+                "Exclusion distance",
+                self.exclusion_distance_m.get::<meter>(),
+                c.exclusion_distance_m.get::<meter>(),
+                Value::Distance(c.exclusion_distance_m),
+            ),
+        ]
+    }
+}
+
+impl FillReport {
+    /// Keeps the ideal gas's results from `ideal` (the same inputs on the ideal model).
+    pub fn compare_with(&mut self, ideal: &FillReport) {
+        self.ideal_gas_comparison = Some(FillComparison {
+            final_temperature_k: ideal.final_temperature_k,
+            mass_added_kg: ideal.mass_added_kg,
+            settled_pressure_pa: ideal.settled_pressure_pa,
+            fill_to_pressure_pa: ideal.fill_to_pressure_pa,
+        });
+    }
+
+    /// The ideal gas's values beside the real gas's, for the worksheet.
+    pub fn comparison_entries(&self) -> Vec<Entry> {
+        use uom::si::{mass::kilogram, pressure::pascal};
+        let Some(c) = &self.ideal_gas_comparison else {
+            return Vec::new();
+        };
+        let mut out = vec![
+            compared_temperature(
+                "Final gas temperature (adiabatic)",
+                self.final_temperature_k,
+                c.final_temperature_k,
+            ),
+            compared(
+                "Mass added",
+                self.mass_added_kg.get::<kilogram>(),
+                c.mass_added_kg.get::<kilogram>(),
+                Value::Mass(c.mass_added_kg),
+            ),
+            compared(
+                "Settled pressure",
+                self.settled_pressure_pa.get::<pascal>(),
+                c.settled_pressure_pa.get::<pascal>(),
+                Value::Pressure(c.settled_pressure_pa),
+            ),
+        ];
+        if let (Some(r), Some(i)) = (self.fill_to_pressure_pa, c.fill_to_pressure_pa) {
+            out.push(compared(
+                "Fill to",
+                r.get::<pascal>(),
+                i.get::<pascal>(),
+                Value::Pressure(i),
+            ));
+        }
+        out
+    }
+}
+
+impl VentReport {
+    /// Keeps the ideal gas's results from `ideal` (the same inputs on the ideal model).
+    pub fn compare_with(&mut self, ideal: &VentReport) {
+        self.ideal_gas_comparison = Some(VentComparison {
+            time_s: ideal.time_s,
+            final_temperature_k: ideal.final_temperature_k,
+            mass_vented_kg: ideal.mass_vented_kg,
+            initial_mass_flow_kg_per_s: ideal.initial_mass_flow_kg_per_s,
+        });
+    }
+
+    /// The ideal gas's values beside the real gas's, for the worksheet.
+    pub fn comparison_entries(&self) -> Vec<Entry> {
+        use uom::si::{mass::kilogram, mass_rate::kilogram_per_second, time::second};
+        let Some(c) = &self.ideal_gas_comparison else {
+            return Vec::new();
+        };
+        let mut out = Vec::new();
+        if let (Some(r), Some(i)) = (self.time_s, c.time_s) {
+            out.push(compared(
+                "Time to the target",
+                r.get::<second>(),
+                i.get::<second>(),
+                Value::Time(i),
+            ));
+        }
+        out.push(compared_temperature(
+            "Gas temperature at the target",
+            self.final_temperature_k,
+            c.final_temperature_k,
+        ));
+        out.push(compared(
+            "Mass vented",
+            self.mass_vented_kg.get::<kilogram>(),
+            c.mass_vented_kg.get::<kilogram>(),
+            Value::Mass(c.mass_vented_kg),
+        ));
+        if let (Some(r), Some(i)) = (
+            self.initial_mass_flow_kg_per_s,
+            c.initial_mass_flow_kg_per_s,
+        ) {
+            out.push(compared(
+                "Initial mass flow",
+                r.get::<kilogram_per_second>(),
+                i.get::<kilogram_per_second>(),
+                Value::MassFlow(i),
+            ));
+        }
+        out
     }
 }
 
@@ -602,6 +861,8 @@ pub struct Worksheet {
     pub inputs: Vec<Entry>,
     /// Results with their methods.
     pub results: Vec<Entry>,
+    /// The ideal gas's values beside the real gas's, when the real-gas model was used.
+    pub comparison: Vec<Entry>,
 }
 
 impl EnergyReport {
@@ -704,6 +965,7 @@ impl From<&EnergyReport> for Worksheet {
             cautions: r.cautions.clone(),
             inputs,
             results,
+            comparison: r.comparison_entries(),
         }
     }
 }
@@ -779,6 +1041,7 @@ impl From<&FillReport> for Worksheet {
             cautions: r.cautions.clone(),
             inputs,
             results,
+            comparison: r.comparison_entries(),
         }
     }
 }
@@ -859,6 +1122,7 @@ impl From<&VentReport> for Worksheet {
             cautions: r.cautions.clone(),
             inputs,
             results,
+            comparison: r.comparison_entries(),
         }
     }
 }

@@ -18,6 +18,14 @@ pub fn render_text(sheet: &Worksheet, system: UnitSystem) -> String {
     }
     section(&mut out, "Inputs", &sheet.inputs, &display);
     section(&mut out, "Results", &sheet.results, &display);
+    if !sheet.comparison.is_empty() {
+        section(
+            &mut out,
+            "Ideal gas, for comparison (same inputs)",
+            &sheet.comparison,
+            &display,
+        );
+    }
     out
 }
 
