@@ -1,9 +1,9 @@
 //! Speed of the transient models: a full 300-bar cylinder fill and a full receiver
-//! vent-down, each one complete run of the adaptive integrator with wall heat transfer.
-//! Run with `cargo bench`.
+//! vent-down, each one complete run of the adaptive integrator with wall heat transfer, on
+//! the real-gas and the ideal-gas model. Run with `cargo bench --bench transient`.
 
 use criterion::{criterion_group, criterion_main, Criterion};
-use pvhazard::gas::{Gas, GasModel, IdealGas};
+use pvhazard::gas::{Gas, GasModel, IdealGas, RealGas};
 use pvhazard::heat;
 use pvhazard::rules::transient::{self, Exchange, FillCase, FillRate, HeatTransfer, Wall};
 use pvhazard::site::Material;
@@ -27,8 +27,8 @@ fn exchange(wall_kg: f64, aspect: f64) -> Exchange {
     }
 }
 
-fn benches(c: &mut Criterion) {
-    let air = IdealGas::new(Gas::find("air").unwrap());
+fn runs(c: &mut Criterion, air: &dyn GasModel) {
+    let name = air.kind().name();
     let t = ThermodynamicTemperature::new::<kelvin>(293.15);
     let p = Pressure::new::<pascal>;
 
@@ -47,28 +47,37 @@ fn benches(c: &mut Criterion) {
         inlet_diameter: None,
     };
     c.bench_function(
-        "fill 50 L air 20 -> 300 bar(a), 25 bar/min, lumped wall",
-        |b| b.iter(|| transient::fill_once(&air, &case, &cylinder).unwrap()),
+        &format!("fill 50 L air 20 -> 300 bar(a), 25 bar/min, lumped wall, {name} gas"),
+        |b| b.iter(|| transient::fill_once(air, &case, &cylinder).unwrap()),
     );
 
     let start = air.state_pt(p(11.01325e5), t).unwrap();
     let receiver = exchange(540.0, heat::VESSEL_ASPECT);
     let area = 0.61 * std::f64::consts::PI / 4.0 * 0.012f64.powi(2);
-    c.bench_function("vent 2 m3 air 10 barg through 12 mm, lumped wall", |b| {
-        b.iter(|| {
-            transient::vent(
-                &air,
-                Volume::new::<cubic_meter>(2.0),
-                &start,
-                area,
-                p(101_325.0),
-                p(1.01 * 101_325.0),
-                (None, None),
-                &receiver,
-            )
-            .unwrap()
-        })
-    });
+    c.bench_function(
+        &format!("vent 2 m3 air 10 barg through 12 mm, lumped wall, {name} gas"),
+        |b| {
+            b.iter(|| {
+                transient::vent(
+                    air,
+                    Volume::new::<cubic_meter>(2.0),
+                    &start,
+                    area,
+                    p(101_325.0),
+                    p(1.01 * 101_325.0),
+                    (None, None),
+                    &receiver,
+                )
+                .unwrap()
+            })
+        },
+    );
+}
+
+fn benches(c: &mut Criterion) {
+    let air = Gas::find("air").unwrap();
+    runs(c, &RealGas::new(air));
+    runs(c, &IdealGas::new(air));
 }
 
 criterion_group!(transient_benches, benches);

@@ -365,6 +365,7 @@ pub(super) fn fill_command(a: FillArgs) -> Result<String, Failure> {
         }
     })?;
     let mut report = FillReport::new(model.as_ref(), &input, pa, out);
+    report.inputs.inlet_diameter_m = a.inlet_diameter;
     if let Some(ideal) = ideal_twin(model.as_ref()) {
         if let Ok(out) = fill::adiabatic_fill(&ideal, &input) {
             report.compare_with(&FillReport::new(&ideal, &input, pa, out));
@@ -536,10 +537,12 @@ pub(super) fn vent_command(a: VentArgs) -> Result<String, Failure> {
         .into());
     }
     if a.wall.heat_transfer.is_some() || a.depressuring_check {
-        let design = match a.design_pressure {
-            Some(r) => absolute("design-pressure", r, pa)?,
-            None => input.pressure,
-        };
+        let given = a
+            .design_pressure
+            .map(|r| absolute("design-pressure", r, pa))
+            .transpose()?;
+        report.inputs.design_pressure_pa = given;
+        let design = given.unwrap_or(input.pressure);
         let design_gauge = (design - pa).get::<pascal>().max(0.0);
         let wall = Wall {
             mass: a.wall.wall_mass.unwrap_or_else(|| {

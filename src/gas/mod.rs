@@ -215,6 +215,51 @@ impl Gas {
     }
 }
 
+/// (∂p/∂ρ)_u and (∂p/∂u)_ρ by central differences of the model's (ρ, u) states.
+fn pressure_partials_by_differences<M: GasModel + ?Sized>(
+    model: &M,
+    state: &State,
+) -> Option<(f64, f64)> {
+    use uom::si::{available_energy::joule_per_kilogram, mass_density::kilogram_per_cubic_meter};
+    let rho = state.density.get::<kilogram_per_cubic_meter>();
+    let u = model.internal_energy(state).get::<joule_per_kilogram>();
+    let p = |rho: f64, u: f64| {
+        model
+            .state_rho_u(
+                MassDensity::new::<kilogram_per_cubic_meter>(rho),
+                AvailableEnergy::new::<joule_per_kilogram>(u),
+            )
+            .ok()
+            .map(|s| s.pressure.get::<pascal>())
+    };
+    let (e_rho, e_u) = (rho * 1e-6, u.abs().max(1.0) * 1e-6);
+    Some((
+        (p(rho + e_rho, u)? - p(rho - e_rho, u)?) / (2.0 * e_rho),
+        (p(rho, u + e_u)? - p(rho, u - e_u)?) / (2.0 * e_u),
+    ))
+}
+
+/// cp by a small isobaric step of the model's enthalpy.
+fn heat_capacity_by_differences<M: GasModel + ?Sized>(
+    model: &M,
+    state: &State,
+) -> Option<SpecificHeatCapacity> {
+    use uom::si::{
+        available_energy::joule_per_kilogram, specific_heat_capacity::joule_per_kilogram_kelvin,
+    };
+    let t = state.temperature.get::<kelvin>();
+    let up = model
+        .state_pt(
+            state.pressure,
+            ThermodynamicTemperature::new::<kelvin>(t * 1.0005),
+        )
+        .ok()?;
+    let dh = (model.enthalpy(&up) - model.enthalpy(state)).get::<joule_per_kilogram>();
+    Some(SpecificHeatCapacity::new::<joule_per_kilogram_kelvin>(
+        dh / (t * 0.0005),
+    ))
+}
+
 /// The ideal gas of a real-gas model's gas, whose results are shown beside the real ones;
 /// `None` for a model that is already ideal.
 pub fn ideal_twin(model: &dyn GasModel) -> Option<IdealGas> {
@@ -356,6 +401,32 @@ pub trait GasModel {
     /// The state at density and specific internal energy (a closed vessel's gas, from its
     /// mass and energy balances).
     fn state_rho_u(&self, rho: MassDensity, u: AvailableEnergy) -> Result<State, GasError>;
+
+    /// The state at density and specific internal energy, starting the search from the
+    /// temperature `near` (a time-marching caller knows the last step's); the same state as
+    /// [`GasModel::state_rho_u`], found faster.
+    fn state_rho_u_near(
+        &self,
+        rho: MassDensity,
+        u: AvailableEnergy,
+        near: ThermodynamicTemperature,
+    ) -> Result<State, GasError> {
+        let _ = near;
+        self.state_rho_u(rho, u)
+    }
+
+    /// (∂p/∂ρ) at constant u (Pa·m³/kg) and (∂p/∂u) at constant ρ (Pa·kg/J) at `state`: how
+    /// a closed vessel's pressure answers mass and energy added. By central differences
+    /// unless a model knows them exactly.
+    fn pressure_partials(&self, state: &State) -> Option<(f64, f64)> {
+        pressure_partials_by_differences(self, state)
+    }
+
+    /// Isobaric specific heat capacity at `state`, for the heat-transfer correlations. By
+    /// a small isobaric step of the enthalpy unless a model knows it exactly.
+    fn isobaric_heat_capacity(&self, state: &State) -> Option<SpecificHeatCapacity> {
+        heat_capacity_by_differences(self, state)
+    }
 
     /// Specific internal energy u.
     fn internal_energy(&self, state: &State) -> AvailableEnergy;

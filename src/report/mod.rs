@@ -206,7 +206,8 @@ pub struct FillTransientReport {
     /// is safe (see `max_rate`).
     pub max_rate_pa_per_s: Option<Pressure>,
     /// `ramp` (a finite maximum), `unlimited` (even the adiabatic bound is within the
-    /// rating), `none-safe` (even a day-long fill exceeds it), or null without a rating.
+    /// rating), `inlet-limited` (even the fastest fill the inlet passes, `max_rate_pa_per_s`,
+    /// is within it), `none-safe` (even a day-long fill exceeds it), or null without a rating.
     pub max_rate: Option<&'static str>,
     /// Whether the planned fill keeps the gas within the rating (null without a rating).
     pub go: Option<bool>,
@@ -233,6 +234,7 @@ impl FillTransientReport {
             Some(MaxRate::Ramp(r)) => (Some(r.per_second), Some("ramp")),
             Some(MaxRate::Unlimited) => (None, Some("unlimited")),
             Some(MaxRate::NoneSafe) => (None, Some("none-safe")),
+            Some(MaxRate::InletLimited(r)) => (Some(r.per_second), Some("inlet-limited")),
         };
         FillTransientReport {
             heat_transfer: exchange.mode,
@@ -301,6 +303,14 @@ impl FillTransientReport {
             (Some("unlimited"), _) => Some(Value::Text(
                 "no limit: even the adiabatic bound stays within the rating".to_string(),
             )),
+            (Some("inlet-limited"), Some(r)) => {
+                out.push(result(
+                    "Highest fill rate within the rating",
+                    Value::PressureRate(r),
+                    "the inlet's fastest fill (choked from the supply): the rating is not reached even there",
+                ));
+                None
+            }
             (Some(_), _) => Some(Value::Text(
                 "none: even a day-long fill exceeds the rating".to_string(),
             )),
@@ -332,6 +342,8 @@ pub struct FillInputs {
     pub supply_temperature_k: ThermodynamicTemperature,
     /// Supply pressure, absolute, Pa (where the supply's enthalpy is taken).
     pub supply_pressure_pa: Pressure,
+    /// Inlet bore for the jet correlation, m, when given.
+    pub inlet_diameter_m: Option<Length>,
     /// Ambient temperature, K.
     pub ambient_temperature_k: ThermodynamicTemperature,
     /// Rated maximum gas temperature, K.
@@ -361,6 +373,7 @@ impl FillReport {
                 initial_temperature_k: input.initial_temperature,
                 supply_temperature_k: input.supply_temperature,
                 supply_pressure_pa: input.supply_pressure.unwrap_or(input.to),
+                inlet_diameter_m: None,
                 ambient_temperature_k: input.ambient_temperature,
                 rated_temperature_k: input.rated_temperature,
                 ambient_pressure_pa: ambient,
@@ -536,6 +549,9 @@ pub struct VentInputs {
     pub min_metal_temperature_k: Option<ThermodynamicTemperature>,
     /// Time allowed, s.
     pub within_s: Option<Time>,
+    /// Design (MAWP) pressure for the wall estimate and the depressuring check, absolute,
+    /// Pa, when given.
+    pub design_pressure_pa: Option<Pressure>,
 }
 
 impl VentReport {
@@ -558,6 +574,7 @@ impl VentReport {
                 process: input.process,
                 min_metal_temperature_k: input.min_metal_temperature,
                 within_s: input.within,
+                design_pressure_pa: None,
             },
             time_s: r.time,
             choked_time_s: r.choked_time,

@@ -74,6 +74,10 @@ pub enum FlashError {
 /// Relative tolerance of every solve: well below the 1e-6 the reference tables demand.
 const RTOL: f64 = 1e-12;
 
+/// A Newton step in temperature this small (relative) ends the plain Newton iteration; the
+/// temperature returned is then that close to the root, below the quadrature's 1e-10.
+const NEWTON_SETTLED: f64 = 1e-11;
+
 impl Equation {
     /// The highest pressure accepted: the equation's stated limit, give or take rounding.
     fn p_limit(&self) -> f64 {
@@ -315,7 +319,8 @@ fn newton_from(
         if !(step.is_finite() && d > 0.0) {
             return None;
         }
-        if step.abs() <= RTOL * t {
+        // The properties returned are those at `t`, within one (tiny) step of the root.
+        if step.abs() <= NEWTON_SETTLED * t {
             return Some(p);
         }
         t -= step;

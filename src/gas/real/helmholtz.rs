@@ -240,8 +240,9 @@ impl Equation {
         let i = &self.fluid.ideal;
         let [a1, a2] = i.lead;
         let c = i.log_tau;
+        let ln_tau = tau.ln();
         let mut out = Derivatives {
-            a: delta.ln() + a1 + a2 * tau + c * tau.ln(),
+            a: delta.ln() + a1 + a2 * tau + c * ln_tau,
             d: 1.0 / delta,
             dd: -1.0 / (delta * delta),
             t: a2 + c / tau,
@@ -249,7 +250,7 @@ impl Equation {
             dt: 0.0,
         };
         for &[n, t] in &self.ideal_power {
-            let v = n * tau.powf(t);
+            let v = n * (t * ln_tau).exp();
             out.a += v;
             out.t += v * t / tau;
             out.tt += v * t * (t - 1.0) / (tau * tau);
