@@ -196,7 +196,7 @@ impl GasModel for IdealGas {
                 Level::Warning,
                 "Ideal gas used at ",
                 crate::units::Value::Pressure(st.pressure),
-                ", above about 100 bar: real-gas effects there reach tens of percent (nitrogen at 200 bar: isentropic energy about 25 % high; hydrogen at 700 bar: mass about 47 % high). Treat these results as estimates until the real-gas model is available.",
+                ", above about 100 bar: real-gas effects there reach tens of percent (nitrogen at 200 bar: isentropic energy about 25 % high; hydrogen at 700 bar: mass about 47 % high). Treat these results as estimates: the default real-gas model (--model real) covers these pressures.",
             ));
         } else if let Some(z) = self.gas.virial_compressibility(st.pressure, st.temperature) {
             if (z - 1.0).abs() > COMPRESSIBILITY_TOLERANCE {

@@ -108,9 +108,14 @@ fn end_phase_caution(model: &dyn GasModel, what: &str, end: &State) -> Option<Ca
             format!("{what} ends at "),
             Value::Temperature(end.temperature),
             format!(
-                " with liquid and vapour together: about {:.0} % of the {} by mass condenses (the real-gas model includes this in the result). Expect liquid and frost in the vent path and on the metal.",
+                " with liquid and vapour together: about {:.0} % of the {} by mass condenses (the real-gas model includes this in the result){}. Expect liquid and frost in the vent path and on the metal.",
                 (1.0 - x) * 100.0,
-                gas.name
+                gas.name,
+                if gas.name == "air" {
+                    "; air is modelled as one pseudo-pure fluid, so its bubble and dew lines, a few kelvin apart, are one saturation line here"
+                } else {
+                    ""
+                }
             ),
         ));
     }

@@ -210,10 +210,10 @@ pub fn blow_down(
                         .get::<kilogram_per_square_meter_second>()
                 })
         };
-        input.volume.get::<cubic_meter>() * crate::solve::integrate(inverse_flux, a, b, 1e-10)
+        input.volume.get::<cubic_meter>() * crate::solve::integrate(inverse_flux, a, b, 1e-9)
     };
     // Densities from the start to the end, evenly in ln ρ, with the choke point among them
-    // so the choked time is a partial sum; each segment is integrated to 1e-10.
+    // so the choked time is a partial sum; each segment is integrated to 1e-9.
     let (rho0, rho_end) = (
         start.density.get::<kilogram_per_cubic_meter>(),
         end.density.get::<kilogram_per_cubic_meter>(),
@@ -334,7 +334,7 @@ impl Path<'_> {
         if !choked(hi.exp()) {
             return self.start.density;
         }
-        for _ in 0..100 {
+        for _ in 0..48 {
             let mid = 0.5 * (lo + hi);
             if choked(mid.exp()) {
                 hi = mid;

@@ -265,6 +265,7 @@ impl Equation {
         if !(p > 0.0 && p <= self.p_limit()) {
             return Err(FlashError::OutOfRange);
         }
+        let mut vapour_bound = None;
         let (lo, hi) = match self.saturation_p(p) {
             Some(sat) => {
                 let (l, v) = (
@@ -276,6 +277,9 @@ impl Equation {
                     return Ok(Equilibrium::mixture(&sat, x));
                 }
                 if target > v {
+                    // Above Tsat(p) the gas root lies below the saturated vapour's density
+                    // there, on a branch where p rises with ρ: no phase test needed.
+                    vapour_bound = Some(sat.vapour.rho);
                     (sat.t, t_hi)
                 } else {
                     (t_lo, sat.t)
@@ -283,8 +287,18 @@ impl Equation {
             }
             None => (t_lo, t_hi),
         };
+        let state = |t: f64| -> Result<Props, FlashError> {
+            match vapour_bound {
+                Some(top) => {
+                    let guess = (p / (self.r_specific() * t)).min(top);
+                    let rho = self.density_between(p, t, 1e-12 * guess, top, guess)?;
+                    Ok(self.props(rho, t))
+                }
+                None => self.at_pt(p, t),
+            }
+        };
         let f = |t: f64| -> (f64, f64) {
-            match self.at_pt(p, t) {
+            match state(t) {
                 Ok(pr) => (value(&Equilibrium::single(pr)) - target, slope(&pr)),
                 Err(_) => (f64::NAN, f64::NAN),
             }
@@ -298,7 +312,7 @@ impl Equation {
         }
         let t = crate::solve::newton_bracketed(f, lo, hi, 0.5 * (lo + hi), RTOL)
             .map_err(|_| FlashError::NoConvergence)?;
-        Ok(Equilibrium::single(self.at_pt(p, t)?))
+        Ok(Equilibrium::single(state(t)?))
     }
 }
 

@@ -130,7 +130,7 @@ impl RealGas {
         let r = 0.5 * (5f64.sqrt() - 1.0);
         let (mut c, mut d) = (b - r * (b - a), a + r * (b - a));
         let (mut fc, mut fd) = (flux(c), flux(d));
-        for _ in 0..40 {
+        for _ in 0..28 {
             if fc > fd {
                 (b, d, fd) = (d, c, fc);
                 c = b - r * (b - a);
@@ -494,12 +494,6 @@ impl GasModel for RealGas {
             out.push(Caution::new(
                 Level::Caution,
                 format!("{} is near its critical point here: its properties change steeply, so small errors in the pressure or temperature given make large differences in the results.", self.gas.name),
-            ));
-        }
-        if f.pseudo_pure && st.quality.is_some() {
-            out.push(Caution::new(
-                Level::Notice,
-                "Air is modelled as one pseudo-pure fluid: where it condenses, its bubble and dew lines (a few kelvin apart) are replaced by a single saturation line.",
             ));
         }
         out

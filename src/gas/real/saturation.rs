@@ -62,15 +62,23 @@ impl Equation {
     /// Newton's method on the reduced densities after Akasaka (2008, J. Thermal Sci. Tech.
     /// 3, 442–451), started from the ancillary curves.
     fn maxwell(&self, t: f64) -> Option<Saturation> {
+        self.maxwell_from(t, None)
+    }
+
+    /// The Maxwell solution at `t`, started from the reduced densities `start` (a nearby
+    /// temperature's solution) or else from the ancillary curves.
+    fn maxwell_from(&self, t: f64, start: Option<(f64, f64)>) -> Option<Saturation> {
         let f = &self.fluid;
         if !(t >= f.t_triple && t < f.t_critical) {
             return None;
         }
         let tau = f.t_reducing / t;
-        let (mut dl, mut dv) = (
-            f.ancillary.rho_liquid.at(t) / f.rho_reducing,
-            f.ancillary.rho_vapour.at(t) / f.rho_reducing,
-        );
+        let (mut dl, mut dv) = start.unwrap_or_else(|| {
+            (
+                f.ancillary.rho_liquid.at(t) / f.rho_reducing,
+                f.ancillary.rho_vapour.at(t) / f.rho_reducing,
+            )
+        });
         let jk = |delta: f64| {
             let r = self.residual(delta, tau);
             let j = delta * (1.0 + delta * r.d);
@@ -125,24 +133,37 @@ impl Equation {
     pub fn saturation_p(&self, p: f64) -> Option<Saturation> {
         let f = &self.fluid;
         let (lo, hi) = (f.t_triple, self.t_sat_max);
-        if !(p >= self.p_triple && p < self.p_sat_max) {
+        // The ends themselves, give or take rounding, belong to the range.
+        if !(p >= self.p_triple * (1.0 - 1e-12) && p <= self.p_sat_max * (1.0 + 1e-12)) {
             return None;
         }
         let ln_p = p.ln();
-        let guess = crate::solve::root(|t| f.ancillary.p_sat.at(t).ln() - ln_p, lo, hi, 1e-9 * hi)
-            .unwrap_or(0.5 * (lo + hi));
+        let anc = |t: f64| f.ancillary.p_sat.at(t).ln() - ln_p;
+        let guess = crate::solve::root(anc, lo, hi, 1e-9 * hi).unwrap_or(if anc(lo) > 0.0 {
+            lo
+        } else {
+            hi
+        });
         let mut t = guess;
+        let mut start = None;
+        let reducing = f.molar_mass * f.rho_reducing;
         for _ in 0..50 {
-            let sat = self.saturation_t(t)?;
+            let sat = self.maxwell_from(t, start)?;
+            if (sat.p / p - 1.0).abs() < 1e-13 {
+                return Some(sat);
+            }
             let dv = 1.0 / sat.vapour.rho - 1.0 / sat.liquid.rho;
             let dp_dt = (sat.vapour.h - sat.liquid.h) / (t * dv);
             // ln p against 1/T is nearly straight: step in x = 1/T.
             let slope = -t * t * dp_dt / sat.p;
             let x = 1.0 / t - (sat.p.ln() - ln_p) / slope;
             let next = (1.0 / x).clamp(lo, hi);
-            if ((next - t) / t).abs() < 1e-13 || (sat.p / p - 1.0).abs() < 1e-14 {
-                return self.saturation_t(next);
+            if ((next - t) / t).abs() < 1e-14 {
+                return Some(sat);
             }
+            // A small step starts from this solution; a large one from the ancillaries.
+            start = (((next - t) / t).abs() < 0.02)
+                .then(|| (sat.liquid.rho / reducing, sat.vapour.rho / reducing));
             t = next;
         }
         None
