@@ -27,9 +27,15 @@ STATES = [
 ]
 
 
+def criterion_dir(name):
+    """Criterion's folder for a benchmark: unsafe characters made '_', cut to 64."""
+    return "".join("_" if c in '?"/\\*<>:|^' else c for c in name)[:64]
+
+
 def criterion_ns(name):
     """Criterion's median estimate for a benchmark, ns."""
-    path = os.path.join(ROOT, "target", "criterion", name, "new", "estimates.json")
+    path = os.path.join(ROOT, "target", "criterion", criterion_dir(name), "new",
+                        "estimates.json")
     with open(path, encoding="utf-8") as f:
         return json.load(f)["median"]["point_estimate"]
 

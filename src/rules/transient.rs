@@ -168,6 +168,8 @@ struct Setup<'a> {
     rtol: f64,
     /// The gas temperature last found, where the next state search starts.
     last_temperature: std::cell::Cell<ThermodynamicTemperature>,
+    /// The last state found, by its mass and internal energy.
+    last_state: std::cell::Cell<Option<((f64, f64), State)>>,
 }
 
 /// The integration's relative tolerance per step: results change by less than 1e-6 when it
@@ -189,12 +191,19 @@ impl<'a> Setup<'a> {
             exchange,
             rtol: RTOL,
             last_temperature: std::cell::Cell::new(exchange.ambient_temperature),
+            last_state: std::cell::Cell::new(None),
         }
     }
 
     /// The gas state from its mass and internal energy, the search started from the last
     /// state found (the integrator asks for neighbouring states in turn).
     fn gas(&self, m: f64, u_total: f64) -> Option<State> {
+        // The step's end state is asked for again by the stopping test: answer from memory.
+        if let Some((key, st)) = self.last_state.get() {
+            if key == (m, u_total) {
+                return Some(st);
+            }
+        }
         let st = self
             .model
             .state_rho_u_near(
@@ -204,6 +213,7 @@ impl<'a> Setup<'a> {
             )
             .ok()?;
         self.last_temperature.set(st.temperature);
+        self.last_state.set(Some(((m, u_total), st)));
         Some(st)
     }
 
@@ -299,7 +309,7 @@ fn options(duration: f64, rtol: f64) -> Options {
     Options {
         rtol,
         atol: rtol,
-        max_step: duration / 15.0,
+        max_step: duration / 10.0,
         max_steps: 200_000,
     }
 }

@@ -66,7 +66,7 @@ pub struct VentInput {
 }
 
 /// Number of segments the vent history is sampled in (plus the choke point).
-const HISTORY_SEGMENTS: usize = 48;
+const HISTORY_SEGMENTS: usize = 32;
 
 /// One moment of the vent-down.
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
@@ -210,10 +210,10 @@ pub fn blow_down(
                         .get::<kilogram_per_square_meter_second>()
                 })
         };
-        input.volume.get::<cubic_meter>() * crate::solve::integrate(inverse_flux, a, b, 1e-9)
+        input.volume.get::<cubic_meter>() * crate::solve::integrate(inverse_flux, a, b, 1e-8)
     };
     // Densities from the start to the end, evenly in ln ρ, with the choke point among them
-    // so the choked time is a partial sum; each segment is integrated to 1e-9.
+    // so the choked time is a partial sum; each segment is integrated to 1e-8.
     let (rho0, rho_end) = (
         start.density.get::<kilogram_per_cubic_meter>(),
         end.density.get::<kilogram_per_cubic_meter>(),

@@ -107,6 +107,9 @@ impl Equation {
             return Err(FlashError::OutOfRange);
         }
         let guess = p / (self.r_specific() * t);
+        if let Some(rho) = self.clearly_gas(p, t, guess) {
+            return Ok(self.props(rho, t));
+        }
         let rho = match self.saturation_below_critical(t) {
             Some(sat) if p <= sat.p => {
                 self.density_between(p, t, 1e-12 * guess, sat.vapour.rho, guess)
@@ -115,12 +118,28 @@ impl Equation {
                 let hi = self.density_above(p, t, sat.liquid.rho)?;
                 self.density_between(p, t, sat.liquid.rho, hi, sat.liquid.rho)
             }
-            None => {
-                let hi = self.density_above(p, t, guess)?;
-                self.density_between(p, t, 1e-12 * guess, hi, guess)
-            }
+            // One root above the critical temperature: no upper bracket needed.
+            None => self.density_between(p, t, 1e-12 * guess, f64::INFINITY, guess),
         }?;
         Ok(self.props(rho, t))
+    }
+
+    /// The gas root at (p, T) without solving for saturation, where the ancillary curves
+    /// leave no doubt: below the critical temperature, at a pressure under 90 % of the
+    /// ancillary vapour pressure (good to a fraction of a percent), the root lies below the
+    /// saturated vapour's density on a branch where p rises with ρ. `None` means: take the
+    /// general path.
+    fn clearly_gas(&self, p: f64, t: f64, guess: f64) -> Option<f64> {
+        let anc = &self.fluid.ancillary;
+        if t >= self.t_sat_max || p >= 0.9 * anc.p_sat.at(t) {
+            return None;
+        }
+        let top = anc.rho_vapour.at(t) * self.fluid.molar_mass;
+        // A root found strictly below the top is the gas root; one pressed against the top
+        // means the ancillary was not clear after all.
+        self.density_between(p, t, 1e-12 * guess, top, guess.min(top))
+            .ok()
+            .filter(|rho| *rho < top * (1.0 - 1e-9))
     }
 
     /// A density at which the pressure exceeds `p`, searching upward from `from`.
@@ -137,7 +156,7 @@ impl Equation {
     }
 
     /// The density in [lo, hi] at which the pressure is `p`, on a branch where p rises with
-    /// ρ: Newton's method kept inside the bracket. An end whose pressure is already past `p`
+    /// ρ: Newton's method kept inside the bracket (an infinite `hi` doubles instead). An end whose pressure is already past `p`
     /// by rounding (a saturated phase at its own saturation pressure) is the answer.
     fn density_between(
         &self,
@@ -164,8 +183,10 @@ impl Equation {
             }
             let next = if dp > 0.0 && newton > lo && newton < hi {
                 newton
-            } else {
+            } else if hi.is_finite() {
                 0.5 * (lo + hi)
+            } else {
+                2.0 * rho
             };
             if hi - lo <= RTOL * rho {
                 return Ok(next);
