@@ -4,7 +4,7 @@
 //! ([`flash`]).
 
 mod flash;
-pub mod helmholtz;
+mod helmholtz;
 mod props;
 mod saturation;
 
