@@ -324,15 +324,17 @@ impl Equation {
                 Err(_) => (f64::NAN, f64::NAN),
             }
         };
-        let at_lo = f(lo).0;
-        if at_lo > 0.0 {
-            return Err(FlashError::BelowTriplePoint);
-        }
-        if f(hi).0 < 0.0 {
-            return Err(FlashError::OutOfRange);
-        }
-        let t = crate::solve::newton_bracketed(f, lo, hi, 0.5 * (lo + hi), RTOL)
-            .map_err(|_| FlashError::NoConvergence)?;
+        // Where no root is bracketed, the ends say why: the target lies below the lowest
+        // temperature (the gas would freeze) or above the highest.
+        let t = crate::solve::newton_bracketed(f, lo, hi, 0.5 * (lo + hi), RTOL).map_err(|_| {
+            if f(lo).0 > 0.0 {
+                FlashError::BelowTriplePoint
+            } else if f(hi).0 < 0.0 {
+                FlashError::OutOfRange
+            } else {
+                FlashError::NoConvergence
+            }
+        })?;
         Ok(Equilibrium::single(state(t)?))
     }
 }

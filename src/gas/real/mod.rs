@@ -124,7 +124,7 @@ impl RealGas {
         let flux = |ln_p: f64| {
             self.eq
                 .at_p(ln_p.exp(), e0.s, |e| e.s, |p| p.cp / p.t)
-                .map_or(0.0, |e| e.rho * (2.0 * (e0.h - e.h)).max(0.0).sqrt())
+                .map_or(0.0, |e| throat_flux(e0, &e))
         };
         let (mut a, mut b) = (pb.ln(), e0.p.ln());
         let r = 0.5 * (5f64.sqrt() - 1.0);
@@ -156,10 +156,38 @@ impl RealGas {
         }
     }
 
+    /// The state at density and internal energy, the temperature search started at `guess`.
+    fn rho_u(&self, rho: MassDensity, u: AvailableEnergy, guess: f64) -> Result<State, GasError> {
+        let (r, uv) = (
+            rho.get::<kilogram_per_cubic_meter>(),
+            u.get::<joule_per_kilogram>(),
+        );
+        self.eq
+            .at_rho(r, uv, guess, |e| e.u, |p| p.cv)
+            .map(|e| self.state(e))
+            .map_err(|e| {
+                self.error(
+                    e,
+                    "state",
+                    format!(
+                        "the gas at {} kg/m3 and u = {} kJ/kg",
+                        crate::units::fmt_sig(r, 4),
+                        crate::units::fmt_sig(uv / 1e3, 5)
+                    ),
+                )
+            })
+    }
+
     /// The state on the isentrope `s` at density `rho`.
     fn on_isentrope(&self, rho: f64, s: f64, guess: f64) -> Result<Equilibrium, FlashError> {
         self.eq.at_rho(rho, s, guess, |e| e.s, |p| p.cv / p.t)
     }
+}
+
+/// Mass flux ρ·c at a throat state `e` on the isentrope from the stagnation state `e0`,
+/// with the velocity c = √(2·(h0 − h)) from the energy balance.
+fn throat_flux(e0: &Equilibrium, e: &Equilibrium) -> f64 {
+    e.rho * (2.0 * (e0.h - e.h)).max(0.0).sqrt()
 }
 
 fn mass_flux(g: f64) -> MassFlux {
@@ -300,30 +328,7 @@ impl GasModel for RealGas {
     }
 
     fn state_rho_u(&self, rho: MassDensity, u: AvailableEnergy) -> Result<State, GasError> {
-        let (r, uv) = (
-            rho.get::<kilogram_per_cubic_meter>(),
-            u.get::<joule_per_kilogram>(),
-        );
-        self.eq
-            .at_rho(
-                r,
-                uv,
-                self.eq.fluid.t_critical.max(250.0),
-                |e| e.u,
-                |p| p.cv,
-            )
-            .map(|e| self.state(e))
-            .map_err(|e| {
-                self.error(
-                    e,
-                    "state",
-                    format!(
-                        "the gas at {} kg/m3 and u = {} kJ/kg",
-                        crate::units::fmt_sig(r, 4),
-                        crate::units::fmt_sig(uv / 1e3, 5)
-                    ),
-                )
-            })
+        self.rho_u(rho, u, self.eq.fluid.t_critical.max(250.0))
     }
 
     fn state_rho_u_near(
@@ -332,13 +337,7 @@ impl GasModel for RealGas {
         u: AvailableEnergy,
         near: ThermodynamicTemperature,
     ) -> Result<State, GasError> {
-        let (r, uv) = (
-            rho.get::<kilogram_per_cubic_meter>(),
-            u.get::<joule_per_kilogram>(),
-        );
-        self.eq
-            .at_rho(r, uv, near.get::<kelvin>(), |e| e.u, |p| p.cv)
-            .map(|e| self.state(e))
+        self.rho_u(rho, u, near.get::<kelvin>())
             .or_else(|_| self.state_rho_u(rho, u))
     }
 
@@ -388,7 +387,7 @@ impl GasModel for RealGas {
             return self.equilibrium_nozzle(&e0, pb);
         };
         let kappa = (p0.rho * p0.w2 / p0.p).clamp(1.0 + 1e-6, 20.0);
-        let flux = |e: &Equilibrium| e.rho * (2.0 * (e0.h - e.h)).max(0.0).sqrt();
+        let flux = |e: &Equilibrium| throat_flux(&e0, e);
         // The sonic throat: F(ρ) = 2(h0 − h) − w² = 0 by the secant method.
         // Each state starts from the last one's temperature, scaled along the isentrope by
         // its Grüneisen exponent (∂ln T/∂ln ρ)_s = (∂p/∂T)_ρ/(ρ·cv).
