@@ -38,17 +38,8 @@ import CoolProp.CoolProp as CP
 PINNED = "8.0.0"
 OUT = os.path.join(os.path.dirname(__file__), "..", "data", "equations_of_state.json")
 
-# pvhazard's names -> CoolProp's.
-GASES = [
-    ("air", "Air"),
-    ("nitrogen", "Nitrogen"),
-    ("oxygen", "Oxygen"),
-    ("argon", "Argon"),
-    ("helium", "Helium"),
-    ("hydrogen", "Hydrogen"),
-    ("methane", "Methane"),
-    ("carbon-dioxide", "CarbonDioxide"),
-]
+# pvhazard's gas names -> CoolProp's fluid names, shared by the scripts.
+from gases import GASES  # noqa: E402
 
 
 def bibtex():

@@ -50,17 +50,8 @@ from scipy import integrate, optimize
 # The versions these tables were made with; tools/requirements.txt pins the same.
 PINNED = {"CoolProp": "8.0.0", "fluids": "1.3.1", "scipy": "1.17.1", "numpy": "2.4.6"}
 
-# pvhazard's gas names -> CoolProp's fluid names.
-GASES = [
-    ("air", "Air"),
-    ("nitrogen", "Nitrogen"),
-    ("oxygen", "Oxygen"),
-    ("argon", "Argon"),
-    ("helium", "Helium"),
-    ("hydrogen", "Hydrogen"),
-    ("methane", "Methane"),
-    ("carbon-dioxide", "CarbonDioxide"),
-]
+# pvhazard's gas names -> CoolProp's fluid names, shared by the scripts.
+from gases import GASES  # noqa: E402
 
 P_ATM = 101325.0
 BAR = 1e5

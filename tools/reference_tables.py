@@ -42,17 +42,8 @@ DATA_DIR = os.path.join(REPO_ROOT, "tests", "data")
 
 R_UNIVERSAL = 8.314462618  # J/(mol K)
 
-# Our gas names -> CoolProp fluid names.
-GASES = [
-    ("air", "Air"),
-    ("nitrogen", "Nitrogen"),
-    ("oxygen", "Oxygen"),
-    ("argon", "Argon"),
-    ("helium", "Helium"),
-    ("hydrogen", "Hydrogen"),
-    ("methane", "Methane"),
-    ("carbon-dioxide", "CarbonDioxide"),
-]
+# pvhazard's gas names -> CoolProp's fluid names, shared by the scripts.
+from gases import GASES  # noqa: E402
 COOLPROP_NAME = dict(GASES)
 
 SATURATION_GASES = ["nitrogen", "oxygen", "argon", "air", "methane", "carbon-dioxide"]
