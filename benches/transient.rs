@@ -1,4 +1,4 @@
-//! Speed of the transient models: a full 300-bar cylinder fill and a full receiver
+//! Speed of the transient models: full 300-bar cylinder fills (steel, composite) and a full receiver
 //! vent-down, each one complete run of the adaptive integrator with wall heat transfer, on
 //! the real-gas and the ideal-gas model. Run with `cargo bench --bench transient`.
 
@@ -6,7 +6,7 @@ use criterion::{criterion_group, criterion_main, Criterion};
 use pvhazard::gas::{Gas, GasModel, IdealGas, RealGas};
 use pvhazard::heat;
 use pvhazard::rules::transient::{self, Exchange, FillCase, FillRate, HeatTransfer, Wall};
-use pvhazard::site::Material;
+use pvhazard::site::{Construction, Liner, Material};
 use pvhazard::units::PressureRate;
 use uom::si::f64::{Mass, Pressure, ThermodynamicTemperature, Volume};
 use uom::si::{
@@ -20,6 +20,7 @@ fn exchange(wall_kg: f64, aspect: f64) -> Exchange {
             mass: Mass::new::<kilogram>(wall_kg),
             material: Material::CarbonSteel,
             estimated: false,
+            wrap: None,
         },
         inner_coefficient: None,
         ambient_temperature: ThermodynamicTemperature::new::<kelvin>(293.15),
@@ -49,6 +50,28 @@ fn runs(c: &mut Criterion, air: &dyn GasModel) {
     c.bench_function(
         &format!("fill 50 L air 20 -> 300 bar(a), 25 bar/min, lumped wall, {name} gas"),
         |b| b.iter(|| transient::fill_once(air, &case, &cylinder).unwrap()),
+    );
+
+    // A composite cylinder: an aluminium liner and a sliced carbon-fibre wrap.
+    let composite = Exchange {
+        wall: Wall::cylinder(
+            (Construction::Composite, Some(Liner::Aluminium)),
+            Volume::new::<cubic_meter>(0.0068),
+            p(300e5),
+            (None, None),
+        ),
+        ..exchange(1.0, heat::CYLINDER_ASPECT)
+    };
+    let small = FillCase {
+        volume: Volume::new::<cubic_meter>(0.0068),
+        rate: FillRate::Ramp(PressureRate {
+            per_second: p(100e5 / 60.0),
+        }),
+        ..case
+    };
+    c.bench_function(
+        &format!("fill 6.8 L composite air 20 -> 300 bar(a), 100 bar/min, {name} gas"),
+        |b| b.iter(|| transient::fill_once(air, &small, &composite).unwrap()),
     );
 
     let start = air.state_pt(p(11.01325e5), t).unwrap();

@@ -3,7 +3,7 @@
 
 use serde::Serialize;
 
-use crate::site::{Construction, Material};
+use crate::site::{Construction, Liner, Material};
 
 /// Standard gravity, m/s².
 const G: f64 = 9.806_65;
@@ -13,14 +13,56 @@ impl Material {
     ///
     /// source: Incropera & DeWitt, Fundamentals of Heat and Mass Transfer, table A.1 at
     /// 300 K: plain carbon steel 434, AISI 304 477, aluminium alloy 2024-T6 875; carbon-fibre
-    /// epoxy composite about 1000 (from memory, manufacturers' data sheets 800–1200).
+    /// epoxy composite about 1000 (from memory, manufacturers' data sheets 800–1200); a
+    /// plastic liner 1800, the low end of high-density polyethylene's 1800–2300 (from
+    /// memory).
     pub fn specific_heat(self) -> f64 {
         match self {
             Material::CarbonSteel => 434.0,
             Material::StainlessSteel => 477.0,
             Material::Aluminium => 875.0,
             Material::Composite => 1000.0,
+            Material::Plastic => 1800.0,
         }
+    }
+
+    /// Density, kg/m³: with the mass it gives the wall's thickness.
+    ///
+    /// source: Incropera & DeWitt, table A.1 (7854, 7900, 2770); carbon-fibre epoxy about
+    /// 1550 (from memory, laminates 1500–1600); high-density polyethylene 950 (from memory).
+    pub fn density(self) -> f64 {
+        match self {
+            Material::CarbonSteel => 7854.0,
+            Material::StainlessSteel => 7900.0,
+            Material::Aluminium => 2770.0,
+            Material::Composite => 1550.0,
+            Material::Plastic => 950.0,
+        }
+    }
+
+    /// Thermal conductivity through the wall, W/(m·K): the resistance of half the wall
+    /// lies between a node and each of its faces.
+    ///
+    /// source: Incropera & DeWitt, table A.1 at 300 K (60.5, 14.9, 177); carbon-fibre epoxy
+    /// across the fibres 0.5, the low end of published laminates' 0.5–0.8 (from memory), so
+    /// that a wrap takes up heat no faster than a real one (conservative for a fill); a
+    /// plastic liner 0.35, between polyamide's 0.25 and high-density polyethylene's
+    /// 0.4–0.5 (from memory).
+    pub fn conductivity(self) -> f64 {
+        match self {
+            Material::CarbonSteel => 60.5,
+            Material::StainlessSteel => 14.9,
+            Material::Aluminium => 177.0,
+            Material::Composite => 0.5,
+            Material::Plastic => 0.35,
+        }
+    }
+
+    /// Whether heat crosses the material so slowly that a layer of it is cut into slices
+    /// through its thickness (the composites and plastics, below 1 W/(m·K)); a metal wall
+    /// is one temperature through its thickness.
+    pub fn insulating(self) -> bool {
+        self.conductivity() < 1.0
     }
 
     /// Estimated shell mass of a vessel, kg, from its volume (m³) and design pressure (Pa
@@ -35,7 +77,9 @@ impl Material {
             Material::CarbonSteel => (7850.0, 138.0e6),
             Material::StainlessSteel => (8000.0, 138.0e6),
             Material::Aluminium => (2700.0, 60.0e6),
-            Material::Composite => return 2.0 * design_gauge_pa.max(0.0) * volume_m3 * 1.0e-5,
+            Material::Composite | Material::Plastic => {
+                return 2.0 * design_gauge_pa.max(0.0) * volume_m3 * 1.0e-5
+            }
         };
         let membrane = 2.0 * design_gauge_pa.max(0.0) * volume_m3 * density / stress;
         let (_, area) = geometry(volume_m3, VESSEL_ASPECT);
@@ -49,37 +93,54 @@ impl Material {
             Material::StainlessSteel => "stainless-steel",
             Material::Aluminium => "aluminium",
             Material::Composite => "composite",
+            Material::Plastic => "plastic",
         }
     }
 }
 
 impl Construction {
-    /// The material of the part of the wall that takes up heat from the gas.
-    ///
-    /// A composite cylinder's carbon-fibre shell conducts heat some hundred times worse
-    /// than its liner, so over a fill only the liner keeps pace with the gas: the model
-    /// counts the liner (taken as aluminium) and treats the shell as insulation, which
-    /// errs towards a hotter gas.
-    pub fn heat_material(self) -> Material {
+    /// The material of the wall's inner layer: the metal of a steel or aluminium cylinder,
+    /// the liner of a composite one (its wrap is a second layer, see
+    /// [`Construction::estimated_wrap_mass`]).
+    pub fn inner_material(self, liner: Liner) -> Material {
         match self {
             Construction::Steel => Material::CarbonSteel,
-            Construction::Aluminium | Construction::Composite => Material::Aluminium,
+            Construction::Aluminium => Material::Aluminium,
+            Construction::Composite => liner.material(),
         }
     }
 
-    /// Estimated mass of the wall that takes up heat, kg, from the water capacity (m³) and
+    /// Estimated mass of the wall's inner layer, kg, from the water capacity (m³) and
     /// service pressure (Pa gauge): m = 2·p·V·ρ/σ, the membrane-stress mass of a long
     /// cylinder with an effective allowable stress σ per construction (steel 7850 kg/m³ at
-    /// 300 MPa, aluminium 2700 kg/m³ at 90 MPa, composite liner as a third of a 1.0e-5
-    /// kg/(Pa·m³) wall). Common practice, no source: it reproduces typical catalogue masses
-    /// of 50 L steel, 11 L aluminium and 7 L composite cylinders within about 20 %.
-    pub fn estimated_wall_mass(self, water_capacity_m3: f64, service_gauge_pa: f64) -> f64 {
+    /// 300 MPa, aluminium 2700 kg/m³ at 90 MPa, an aluminium liner as a third of a 1.0e-5
+    /// kg/(Pa·m³) cylinder), and a plastic liner 5 mm thick over the inner area. Common
+    /// practice, no source: it reproduces typical catalogue masses of 50 L steel, 11 L
+    /// aluminium and 7 L composite cylinders within about 20 %.
+    pub fn estimated_wall_mass(
+        self,
+        liner: Liner,
+        water_capacity_m3: f64,
+        service_gauge_pa: f64,
+    ) -> f64 {
         let pv = 2.0 * service_gauge_pa.max(0.0) * water_capacity_m3;
-        match self {
-            Construction::Steel => pv * 7850.0 / 300.0e6,
-            Construction::Aluminium => pv * 2700.0 / 90.0e6,
-            Construction::Composite => pv * 1.0e-5 / 3.0,
+        match (self, liner) {
+            (Construction::Steel, _) => pv * 7850.0 / 300.0e6,
+            (Construction::Aluminium, _) => pv * 2700.0 / 90.0e6,
+            (Construction::Composite, Liner::Aluminium) => pv * 1.0e-5 / 3.0,
+            (Construction::Composite, Liner::Plastic) => {
+                let (_, area) = geometry(water_capacity_m3, CYLINDER_ASPECT);
+                area * 0.005 * Material::Plastic.density()
+            }
         }
+    }
+
+    /// Estimated mass of a composite cylinder's wrap, kg: the other two thirds of the
+    /// 1.0e-5 kg/(Pa·m³) cylinder of [`Construction::estimated_wall_mass`] (common practice,
+    /// no source). `None` for metal cylinders, which have no wrap.
+    pub fn estimated_wrap_mass(self, water_capacity_m3: f64, service_gauge_pa: f64) -> Option<f64> {
+        (self == Construction::Composite)
+            .then(|| 2.0 * service_gauge_pa.max(0.0) * water_capacity_m3 * 1.0e-5 * 2.0 / 3.0)
     }
 }
 
@@ -204,9 +265,9 @@ mod tests {
     fn wall_estimates_land_near_catalogue_masses() {
         // Typical catalogue masses (common practice, from memory): 50 L steel at 200 bar
         // about 55 kg, 11.1 L aluminium at 207 bar about 14 kg.
-        let steel = Construction::Steel.estimated_wall_mass(0.05, 200e5);
+        let steel = Construction::Steel.estimated_wall_mass(Liner::Aluminium, 0.05, 200e5);
         assert!((steel / 55.0 - 1.0).abs() < 0.2, "{steel}");
-        let al = Construction::Aluminium.estimated_wall_mass(0.0111, 207e5);
+        let al = Construction::Aluminium.estimated_wall_mass(Liner::Aluminium, 0.0111, 207e5);
         assert!((al / 14.0 - 1.0).abs() < 0.2, "{al}");
     }
 }

@@ -144,6 +144,30 @@ pub enum Material {
     Aluminium,
     /// Fibre-reinforced composite.
     Composite,
+    /// A composite cylinder's plastic liner; not offered as a vessel's shell.
+    #[value(skip)]
+    Plastic,
+}
+
+/// A composite cylinder's liner.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Deserialize, serde::Serialize, clap::ValueEnum)]
+#[serde(rename_all = "kebab-case")]
+pub enum Liner {
+    /// Aluminium alloy: a metal-lined composite cylinder.
+    #[value(alias = "aluminum")]
+    Aluminium,
+    /// Plastic (polyethylene or polyamide): a plastic-lined composite cylinder.
+    Plastic,
+}
+
+impl Liner {
+    /// The liner's wall material.
+    pub fn material(self) -> Material {
+        match self {
+            Liner::Aluminium => Material::Aluminium,
+            Liner::Plastic => Material::Plastic,
+        }
+    }
 }
 
 /// Cylinder construction.
@@ -238,6 +262,8 @@ pub struct Cylinder {
     pub rated_temperature: ThermodynamicTemperature,
     /// Construction.
     pub construction: Construction,
+    /// A composite cylinder's liner, if the site file names it.
+    pub liner: Option<Liner>,
     /// Supply gas temperature at the fill station.
     #[serde(rename = "supply_temperature_k")]
     pub supply_temperature: ThermodynamicTemperature,
@@ -317,6 +343,7 @@ struct RawCylinder {
     service_pressure: Spanned<String>,
     rated_temperature: Spanned<String>,
     construction: Spanned<String>,
+    liner: Option<Spanned<String>>,
     supply_temperature: Option<Spanned<String>>,
     fill_rate: Option<Spanned<String>>,
     residual_pressure: Option<Spanned<String>>,
@@ -623,6 +650,12 @@ impl Context<'_> {
         ] {
             origin.note_opt(src, k, x);
         }
+        let construction = located(
+            src,
+            &key("construction"),
+            &c.construction,
+            parse_construction,
+        )?;
         Ok(Cylinder {
             origin,
             tag: c.tag.get_ref().clone(),
@@ -636,12 +669,21 @@ impl Context<'_> {
             )?,
             service_pressure: self.pressure(&key("service_pressure"), &c.service_pressure)?,
             rated_temperature: temp("rated_temperature", &c.rated_temperature)?,
-            construction: located(
-                src,
-                &key("construction"),
-                &c.construction,
-                parse_construction,
-            )?,
+            construction,
+            liner: c
+                .liner
+                .as_ref()
+                .map(|x| {
+                    located(src, &key("liner"), x, |s| {
+                        if construction != Construction::Composite {
+                            return Err(
+                                "only a composite cylinder has a liner; accepted: a liner with construction = \"composite\"".to_string(),
+                            );
+                        }
+                        parse_liner(s)
+                    })
+                })
+                .transpose()?,
             supply_temperature: c
                 .supply_temperature
                 .as_ref()
@@ -701,6 +743,14 @@ fn parse_material(s: &str) -> Result<Material, String> {
             "unknown material; accepted: carbon-steel, stainless-steel, aluminium, composite"
                 .to_string(),
         ),
+    }
+}
+
+fn parse_liner(s: &str) -> Result<Liner, String> {
+    match s.to_lowercase().as_str() {
+        "aluminium" | "aluminum" => Ok(Liner::Aluminium),
+        "plastic" => Ok(Liner::Plastic),
+        _ => Err("unknown liner; accepted: aluminium, plastic".to_string()),
     }
 }
 

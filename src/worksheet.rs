@@ -23,8 +23,6 @@ use crate::rules::fill::{self, FillInput};
 use crate::rules::transient::{self, Depressuring, Exchange, FillRate, HeatTransfer, Wall};
 use crate::rules::vent::{self, VentInput, DEFAULT_TARGET_MARGIN};
 use crate::site::{Cylinder, Equipment, EquipmentKind, Material, Site, Vessel};
-use uom::si::f64::Mass;
-use uom::si::mass::kilogram;
 
 /// The depressuring check's cap on the gauge pressure to reach, Pa (690 kPa(g)).
 const DEPRESSURING_CAP_PA: f64 = 690.0e3;
@@ -564,16 +562,12 @@ fn vent_down(
     // and the depressuring check against the MAWP.
     let material = v.material.unwrap_or(Material::CarbonSteel);
     let design_gauge = (v.mawp - site.ambient).get::<pascal>().max(0.0);
-    let wall = Wall {
-        mass: v.empty_mass.unwrap_or_else(|| {
-            Mass::new::<kilogram>(material.estimated_vessel_wall_mass(
-                v.volume.get::<uom::si::volume::cubic_meter>(),
-                design_gauge,
-            ))
-        }),
+    let wall = Wall::vessel(
         material,
-        estimated: v.empty_mass.is_none(),
-    };
+        v.volume,
+        Pressure::new::<pascal>(design_gauge),
+        v.empty_mass,
+    );
     let exchange = Exchange {
         mode: HeatTransfer::Lumped,
         wall,
@@ -749,14 +743,12 @@ fn cylinder_parts(
             .collect(),
     }];
     if let Some(rate) = c.fill_rate {
-        let wall = Wall {
-            mass: Mass::new::<kilogram>(c.construction.estimated_wall_mass(
-                c.water_capacity.get::<uom::si::volume::cubic_meter>(),
-                (c.service_pressure - site.ambient).get::<pascal>(),
-            )),
-            material: c.construction.heat_material(),
-            estimated: true,
-        };
+        let wall = Wall::cylinder(
+            (c.construction, c.liner),
+            c.water_capacity,
+            c.service_pressure - site.ambient,
+            (None, None),
+        );
         let exchange = Exchange {
             mode: HeatTransfer::Lumped,
             wall,
@@ -776,23 +768,37 @@ fn cylinder_parts(
             "Fill at the planned rate, with heat to the wall",
             t.result_entries(),
         );
-        for (label, wall) in [("Gas, with wall heat", false), ("Wall", true)] {
-            plot_series.push(Series {
-                label: label.to_string(),
-                right_axis: false,
-                points: t
-                    .samples
+        let curves = [
+            (
+                "Gas, with wall heat",
+                t.samples
                     .iter()
-                    .map(|s| {
-                        let temp = if wall {
-                            s.wall_temperature
-                        } else {
-                            s.gas_temperature
-                        };
-                        (s.pressure.get::<pascal>(), temp.get::<kelvin>())
-                    })
-                    .collect(),
-            });
+                    .map(|s| Some(s.gas_temperature))
+                    .collect::<Vec<_>>(),
+            ),
+            (
+                "Wall",
+                t.samples.iter().map(|s| Some(s.wall_temperature)).collect(),
+            ),
+            (
+                "Wrap",
+                t.samples.iter().map(|s| s.wrap_temperature).collect(),
+            ),
+        ];
+        for (label, temperatures) in curves {
+            let points: Vec<_> = t
+                .samples
+                .iter()
+                .zip(temperatures)
+                .filter_map(|(s, temp)| Some((s.pressure.get::<pascal>(), temp?.get::<kelvin>())))
+                .collect();
+            if !points.is_empty() {
+                plot_series.push(Series {
+                    label: label.to_string(),
+                    right_axis: false,
+                    points,
+                });
+            }
         }
         report.transient = Some(t);
     }

@@ -282,3 +282,78 @@ fn the_inlet_jet_never_promises_a_faster_safe_fill_and_the_inputs_are_echoed() {
     ]);
     assert_eq!(num(&v, "inputs.design_pressure_pa"), 13.01325e5);
 }
+
+#[test]
+fn a_composite_cylinder_has_a_liner_and_a_wrap_node() {
+    let composite = |extra: &[&str]| {
+        let args: Vec<&str> = [
+            "fill",
+            "--gas",
+            "air",
+            "--volume",
+            "6.8 L",
+            "--from",
+            "20 bara",
+            "--to",
+            "300 bara",
+            "--rate",
+            "100 bar/min",
+            "--construction",
+            "composite",
+        ]
+        .into_iter()
+        .chain(extra.iter().copied())
+        .collect();
+        run(&args)
+    };
+    let v = composite(&[]);
+    let t = &v["transient"];
+    assert_eq!(t["wall"]["material"], "aluminium");
+    assert_eq!(t["wall"]["wrap"]["estimated"], true);
+    assert!(num(t, "wall.wrap.mass_kg") > num(t, "wall.mass_kg"));
+    assert!(num(t, "peak_wrap_temperature_k") < num(t, "peak_wall_temperature_k"));
+    assert!(num(t, "peak_wall_temperature_k") < num(t, "peak_gas_temperature_k"));
+    let samples = t["samples"].as_array().unwrap();
+    assert!(samples.iter().all(|s| s["wrap_temperature_k"].is_f64()));
+    // A heavier wrap given: echoed, not estimated, and it keeps the gas cooler.
+    let heavy = composite(&["--wrap-mass", "5 kg"]);
+    let th = &heavy["transient"];
+    assert_eq!(th["wall"]["wrap"]["estimated"], false);
+    assert!((num(th, "wall.wrap.mass_kg") - 5.0).abs() < 1e-9);
+    assert!(num(th, "peak_gas_temperature_k") < num(t, "peak_gas_temperature_k"));
+    // A steel cylinder has no wrap.
+    let steel = fill(&["--rate", "25 bar/min"]);
+    assert!(steel["transient"]["wall"].get("wrap").is_none());
+    assert!(steel["transient"].get("peak_wrap_temperature_k").is_none());
+}
+
+#[test]
+fn a_wrap_mass_is_refused_on_a_metal_cylinder_or_when_not_positive() {
+    for (extra, said) in [
+        (
+            vec!["--rate", "25 bar/min", "--wrap-mass", "3 kg"],
+            "composite",
+        ),
+        (
+            vec![
+                "--rate",
+                "25 bar/min",
+                "--construction",
+                "composite",
+                "--wrap-mass",
+                "0 kg",
+            ],
+            "above 0",
+        ),
+        (vec!["--wrap-mass", "3 kg"], "--rate"),
+    ] {
+        let all: Vec<&str> = FILL.iter().copied().chain(extra.iter().copied()).collect();
+        Command::cargo_bin("pvhazard")
+            .unwrap()
+            .args(&all)
+            .assert()
+            .code(2)
+            .stderr(predicates::str::contains("wrap-mass"))
+            .stderr(predicates::str::contains(said));
+    }
+}

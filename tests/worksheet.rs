@@ -784,8 +784,20 @@ fn an_edited_copy_of_a_template_prints_its_new_title_and_checklist_item() {
 /// `file`; asserts exit 2, that stderr names `file:LINE:` (LINE of `line_needle` in the
 /// edited text) and contains each of `words`, and that nothing was written.
 fn refused_site(test: &str, file: &str, from: &str, to: &str, line_needle: &str, words: &[&str]) {
+    refused_sample(LARKSPUR, test, file, (from, to), line_needle, words);
+}
+
+/// [`refused_site`] on the sample site `base`.
+fn refused_sample(
+    base: &str,
+    test: &str,
+    file: &str,
+    (from, to): (&str, &str),
+    line_needle: &str,
+    words: &[&str],
+) {
     let scratch = Scratch::new(test);
-    let text = edit(&read_text(&sample(LARKSPUR)), from, to);
+    let text = edit(&read_text(&sample(base)), from, to);
     let line = line_of(&text, line_needle);
     let site = scratch.write(file, &text);
     let out = scratch.path("out");
@@ -798,6 +810,29 @@ fn refused_site(test: &str, file: &str, from: &str, to: &str, line_needle: &str,
     }
     assert!(!stderr.contains("panicked"), "{stderr}");
     assert!(names(&out).is_empty(), "files written: {:?}", names(&out));
+}
+
+#[test]
+fn a_liner_on_a_metal_cylinder_or_an_unknown_liner_is_refused_at_its_line() {
+    refused_sample(
+        KESTREL,
+        "liner-on-metal",
+        "liner-on-metal.toml",
+        (
+            "construction = \"aluminium\"",
+            "construction = \"aluminium\"\nliner = \"plastic\"",
+        ),
+        "liner = \"plastic\"",
+        &["cylinder[2].liner", "only a composite cylinder has a liner"],
+    );
+    refused_sample(
+        KESTREL,
+        "unknown-liner",
+        "unknown-liner.toml",
+        ("liner = \"aluminium\"", "liner = \"glass\""),
+        "liner = \"glass\"",
+        &["cylinder[1].liner", "accepted: aluminium, plastic"],
+    );
 }
 
 #[test]

@@ -4,6 +4,9 @@
     pip install -r tools/requirements.txt
     python3 tools/real_gas_tables.py            # writes tests/reference/*.csv and its README.md
 
+(except transport.csv, which tools/transport_table.py writes; its paragraph in the README is
+written here.)
+
 The tables are what the project's tests check pvhazard's real-gas model and rules against;
 pvhazard itself never calls these libraries (they check us, so they cannot also compute for us).
 
@@ -52,6 +55,8 @@ PINNED = {"CoolProp": "8.0.0", "fluids": "1.3.1", "scipy": "1.17.1", "numpy": "2
 
 # pvhazard's gas names -> CoolProp's fluid names, shared by the scripts.
 from gases import GASES  # noqa: E402
+# transport.csv is written by its own script; its README paragraph is written here.
+import transport_table  # noqa: E402
 
 P_ATM = 101325.0
 BAR = 1e5
@@ -1227,6 +1232,7 @@ def readme(got, counts, checks, fluids_, gaps):
         "`alpha0` and a2 from `dalpha0_dtau` to compare with an ideal part that has no such term",
         "(`d2alpha0_dtau2` is unaffected, and so is every property but absolute u, h, s).",
         "",
+        *transport_table.readme_lines(bibtex),
         "## Self-checks run before writing (ideal gas through the same code, the fluids library, CoolProp)",
         "",
         "| check | got | expected | tolerance |",

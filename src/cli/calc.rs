@@ -19,7 +19,7 @@ use crate::rules::energy::{self, EnergyInput};
 use crate::rules::fill::{self, FillInput};
 use crate::rules::transient::{self, FillRate, HeatTransfer, Wall};
 use crate::rules::vent::{self, Process, VentInput};
-use crate::site::{Construction, Material};
+use crate::site::{Construction, Liner, Material};
 use crate::units::{self, fmt_sig, PressureReading, UnitSystem};
 use crate::InputError;
 
@@ -112,9 +112,15 @@ pub(super) struct FillArgs {
     duration: Option<Time>,
     #[command(flatten)]
     wall: WallArgs,
-    /// Cylinder construction (steel means carbon steel; a composite's liner takes the heat).
+    /// Cylinder construction (steel means carbon steel; a composite is an aluminium liner and a carbon-fibre wrap).
     #[arg(long, value_enum, default_value = "steel")]
     construction: Construction,
+    /// A composite cylinder's liner [default: aluminium, with a CAUTION].
+    #[arg(long, value_enum)]
+    liner: Option<Liner>,
+    /// Mass of a composite cylinder's wrap; --wall-mass is then its liner's [default: estimated].
+    #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_mass)]
+    wrap_mass: Option<Mass>,
     /// Inlet (fill-connection) bore, for the jet-driven heat-transfer correlation.
     #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_length)]
     inlet_diameter: Option<Length>,
@@ -313,11 +319,13 @@ pub(super) fn energy_command(a: EnergyArgs) -> Result<String, Failure> {
 }
 
 pub(super) fn fill_command(a: FillArgs) -> Result<String, Failure> {
-    if a.rate.is_none() && a.duration.is_none() && (a.wall.any() || a.inlet_diameter.is_some()) {
+    let wall_options =
+        a.wall.any() || a.inlet_diameter.is_some() || a.wrap_mass.is_some() || a.liner.is_some();
+    if a.rate.is_none() && a.duration.is_none() && wall_options {
         return Err(InputError::new(
             "rate",
             "(none)",
-            "the wall options (--heat-transfer, --wall-mass, --inner-coefficient, --inlet-diameter, --csv) act on a fill at a planned rate; accepted: give --rate or --duration",
+            "the wall options (--heat-transfer, --wall-mass, --liner, --wrap-mass, --inner-coefficient, --inlet-diameter, --csv) act on a fill at a planned rate; accepted: give --rate or --duration",
         )
         .into());
     }
@@ -384,16 +392,39 @@ pub(super) fn fill_command(a: FillArgs) -> Result<String, Failure> {
         (None, None) => None,
     };
     if let Some(rate) = rate {
-        let wall = Wall {
-            mass: a.wall.wall_mass.unwrap_or_else(|| {
-                Mass::new::<uom::si::mass::kilogram>(a.construction.estimated_wall_mass(
-                    input.volume.get::<uom::si::volume::cubic_meter>(),
-                    (input.to - pa).get::<pascal>(),
-                ))
-            }),
-            material: a.construction.heat_material(),
-            estimated: a.wall.wall_mass.is_none(),
-        };
+        if a.construction != Construction::Composite {
+            if let Some(m) = a.wrap_mass {
+                return Err(InputError::new(
+                    "wrap-mass",
+                    format!("{} kg", m.get::<uom::si::mass::kilogram>()),
+                    "only a composite cylinder has a wrap; accepted: --wrap-mass with --construction composite",
+                )
+                .into());
+            }
+            if let Some(l) = a.liner {
+                return Err(InputError::new(
+                    "liner",
+                    format!("{l:?}").to_lowercase(),
+                    "only a composite cylinder has a liner; accepted: --liner with --construction composite",
+                )
+                .into());
+            }
+        }
+        if let Some(m) = a.wrap_mass {
+            check_range(
+                "wrap-mass",
+                m.get::<uom::si::mass::kilogram>(),
+                "kg",
+                0.0,
+                1e7,
+            )?;
+        }
+        let wall = Wall::cylinder(
+            (a.construction, a.liner),
+            input.volume,
+            input.to - pa,
+            (a.wall.wall_mass, a.wrap_mass),
+        );
         let exchange = exchange(
             &a.wall,
             wall,
@@ -477,15 +508,22 @@ pub(super) fn write_csv(
     samples: &[transient::Sample],
 ) -> Result<(), Failure> {
     use uom::si::thermodynamic_temperature::kelvin;
-    let mut text = String::from("time_s,pressure_pa,gas_temperature_k,wall_temperature_k\n");
+    // A composite cylinder's wrap node adds a column.
+    let wrap = samples.iter().any(|s| s.wrap_temperature.is_some());
+    let mut text = String::from("time_s,pressure_pa,gas_temperature_k,wall_temperature_k");
+    text.push_str(if wrap { ",wrap_temperature_k\n" } else { "\n" });
     for s in samples {
         text.push_str(&format!(
-            "{},{},{},{}\n",
+            "{},{},{},{}",
             s.time.get::<uom::si::time::second>(),
             s.pressure.get::<pascal>(),
             s.gas_temperature.get::<kelvin>(),
             s.wall_temperature.get::<kelvin>()
         ));
+        if let Some(t) = s.wrap_temperature.filter(|_| wrap) {
+            text.push_str(&format!(",{}", t.get::<kelvin>()));
+        }
+        text.push('\n');
     }
     let files = record::Files {
         files: vec![(path.to_path_buf(), text.as_bytes())],
@@ -544,16 +582,12 @@ pub(super) fn vent_command(a: VentArgs) -> Result<String, Failure> {
         report.inputs.design_pressure_pa = given;
         let design = given.unwrap_or(input.pressure);
         let design_gauge = (design - pa).get::<pascal>().max(0.0);
-        let wall = Wall {
-            mass: a.wall.wall_mass.unwrap_or_else(|| {
-                Mass::new::<uom::si::mass::kilogram>(a.material.estimated_vessel_wall_mass(
-                    input.volume.get::<uom::si::volume::cubic_meter>(),
-                    design_gauge,
-                ))
-            }),
-            material: a.material,
-            estimated: a.wall.wall_mass.is_none(),
-        };
+        let wall = Wall::vessel(
+            a.material,
+            input.volume,
+            Pressure::new::<pascal>(design_gauge),
+            a.wall.wall_mass,
+        );
         let mut wall_args = a.wall;
         wall_args.heat_transfer = Some(wall_args.heat_transfer.unwrap_or(HeatTransfer::Lumped));
         let exchange = exchange(&wall_args, wall, input.temperature, heat::VESSEL_ASPECT)?;

@@ -1,6 +1,6 @@
 //! The gases pvhazard knows, with the constants the models need and where each comes from.
 
-use super::{Gas, GasHazard};
+use super::{DiluteViscosity, Gas, GasHazard};
 
 /// Molar gas constant, J/(mol·K) (exact since the 2019 SI redefinition; CODATA 2018).
 pub const MOLAR_GAS_CONSTANT: f64 = 8.314_462_618;
@@ -13,10 +13,14 @@ pub const MOLAR_GAS_CONSTANT: f64 = 8.314_462_618;
 //   Values from memory, checked in tests against CoolProp 8.0.0 cp0 (tests/data).
 // - critical point, triple point: the reference equation of state of each gas (named in
 //   `eos`), as carried by CoolProp 8.0.0; air: the pseudo-pure fluid's critical point and
-//   its lower limit of 59.75 K.
-// - viscosity and thermal conductivity at 300 K and 1 atm: Incropera & DeWitt, Fundamentals
-//   of Heat and Mass Transfer, table A.4, and the NIST Chemistry WebBook fluid data (from
-//   memory, to about 3 %); used only by the heat-transfer correlations.
+//   its lower limit of 59.75 K. The critical density is CoolProp's, recomputed from the
+//   equation (tests/reference/fluids.csv, to five figures; oxygen's 426.93 kg/m³ is not the
+//   equation's reducing density of 436.14 kg/m³); used only by the transport properties.
+// - dilute-gas viscosity: corresponding states from the critical point (Chung et al. 1988,
+//   see `transport`), except helium and hydrogen, whose Lennard-Jones parameters are
+//   Svehla's (NASA TR R-132, 1962) as tabulated in Poling, Prausnitz & O'Connell, The
+//   Properties of Gases and Liquids (5th ed.), appendix B (from memory; checked against
+//   CoolProp 8.0.0 in tests/transport.rs).
 // - acentric factor: Poling, Prausnitz & O'Connell, The Properties of Gases and Liquids
 //   (5th ed.), appendix A, as carried by CoolProp 8.0.0.
 
@@ -30,12 +34,12 @@ pub static GASES: &[Gas] = &[
         cp_300k_j_per_kg_k: 1_004.8,
         critical_temperature_k: 132.5306,
         critical_pressure_pa: 3.786e6,
+        critical_density_kg_per_m3: 342.68,
         acentric_factor: 0.0335,
         min_temperature_k: 59.75,
         eos: "Lemmon, Jacobsen, Penoncello & Friend (2000), air as a pseudo-pure fluid",
         hazard: GasHazard::Air,
-        viscosity_300k_pa_s: 1.846e-05,
-        conductivity_300k_w_per_m_k: 0.0263,
+        dilute_viscosity: DiluteViscosity::CorrespondingStates,
     },
     Gas {
         name: "nitrogen",
@@ -45,12 +49,12 @@ pub static GASES: &[Gas] = &[
         cp_300k_j_per_kg_k: 1_039.7,
         critical_temperature_k: 126.192,
         critical_pressure_pa: 3.3958e6,
+        critical_density_kg_per_m3: 313.30,
         acentric_factor: 0.0372,
         min_temperature_k: 63.151,
         eos: "Span, Lemmon, Jacobsen, Wagner & Yokozeki (2000)",
         hazard: GasHazard::Asphyxiant,
-        viscosity_300k_pa_s: 1.790e-05,
-        conductivity_300k_w_per_m_k: 0.0259,
+        dilute_viscosity: DiluteViscosity::CorrespondingStates,
     },
     Gas {
         name: "oxygen",
@@ -60,12 +64,12 @@ pub static GASES: &[Gas] = &[
         cp_300k_j_per_kg_k: 918.3,
         critical_temperature_k: 154.5994,
         critical_pressure_pa: 5.0464e6,
+        critical_density_kg_per_m3: 426.93,
         acentric_factor: 0.0222,
         min_temperature_k: 54.361,
         eos: "Schmidt & Wagner (1985)",
         hazard: GasHazard::Oxidiser,
-        viscosity_300k_pa_s: 2.070e-05,
-        conductivity_300k_w_per_m_k: 0.0267,
+        dilute_viscosity: DiluteViscosity::CorrespondingStates,
     },
     Gas {
         name: "argon",
@@ -75,12 +79,12 @@ pub static GASES: &[Gas] = &[
         cp_300k_j_per_kg_k: 520.33,
         critical_temperature_k: 150.687,
         critical_pressure_pa: 4.863e6,
+        critical_density_kg_per_m3: 535.60,
         acentric_factor: -0.00219,
         min_temperature_k: 83.806,
         eos: "Tegeler, Span & Wagner (1999)",
         hazard: GasHazard::Asphyxiant,
-        viscosity_300k_pa_s: 2.270e-05,
-        conductivity_300k_w_per_m_k: 0.0178,
+        dilute_viscosity: DiluteViscosity::CorrespondingStates,
     },
     Gas {
         name: "helium",
@@ -90,12 +94,15 @@ pub static GASES: &[Gas] = &[
         cp_300k_j_per_kg_k: 5_193.1,
         critical_temperature_k: 5.1953,
         critical_pressure_pa: 2.2832e5,
+        critical_density_kg_per_m3: 69.585,
         acentric_factor: -0.3835,
         min_temperature_k: 2.1768,
         eos: "Ortiz-Vega, Hall, Holste & Lemmon (2013)",
         hazard: GasHazard::Asphyxiant,
-        viscosity_300k_pa_s: 1.990e-05,
-        conductivity_300k_w_per_m_k: 0.155,
+        dilute_viscosity: DiluteViscosity::LennardJones {
+            sigma_angstrom: 2.551,
+            epsilon_over_k_k: 10.22,
+        },
     },
     Gas {
         name: "hydrogen",
@@ -105,12 +112,15 @@ pub static GASES: &[Gas] = &[
         cp_300k_j_per_kg_k: 14_311.0,
         critical_temperature_k: 33.145,
         critical_pressure_pa: 1.2964e6,
+        critical_density_kg_per_m3: 31.250,
         acentric_factor: -0.219,
         min_temperature_k: 13.957,
         eos: "Leachman, Jacobsen, Penoncello & Lemmon (2009), normal hydrogen",
         hazard: GasHazard::Flammable,
-        viscosity_300k_pa_s: 8.960e-6,
-        conductivity_300k_w_per_m_k: 0.183,
+        dilute_viscosity: DiluteViscosity::LennardJones {
+            sigma_angstrom: 2.827,
+            epsilon_over_k_k: 59.7,
+        },
     },
     Gas {
         name: "methane",
@@ -120,12 +130,12 @@ pub static GASES: &[Gas] = &[
         cp_300k_j_per_kg_k: 2_229.4,
         critical_temperature_k: 190.564,
         critical_pressure_pa: 4.5992e6,
+        critical_density_kg_per_m3: 162.66,
         acentric_factor: 0.01142,
         min_temperature_k: 90.6941,
         eos: "Setzmann & Wagner (1991)",
         hazard: GasHazard::Flammable,
-        viscosity_300k_pa_s: 1.120e-05,
-        conductivity_300k_w_per_m_k: 0.0343,
+        dilute_viscosity: DiluteViscosity::CorrespondingStates,
     },
     Gas {
         name: "carbon-dioxide",
@@ -135,11 +145,11 @@ pub static GASES: &[Gas] = &[
         cp_300k_j_per_kg_k: 845.7,
         critical_temperature_k: 304.1282,
         critical_pressure_pa: 7.3773e6,
+        critical_density_kg_per_m3: 467.60,
         acentric_factor: 0.22394,
         min_temperature_k: 216.592,
         eos: "Span & Wagner (1996)",
         hazard: GasHazard::ToxicAsphyxiant,
-        viscosity_300k_pa_s: 1.500e-05,
-        conductivity_300k_w_per_m_k: 0.0166,
+        dilute_viscosity: DiluteViscosity::CorrespondingStates,
     },
 ];

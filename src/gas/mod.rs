@@ -9,10 +9,12 @@
 mod catalogue;
 mod ideal;
 pub mod real;
+pub mod transport;
 
 pub use catalogue::{GASES, MOLAR_GAS_CONSTANT};
 pub use ideal::IdealGas;
 pub use real::RealGas;
+pub use transport::DiluteViscosity;
 
 use serde::Serialize;
 use uom::si::f64::{
@@ -43,6 +45,8 @@ pub struct Gas {
     pub critical_temperature_k: f64,
     /// Critical pressure, Pa.
     pub critical_pressure_pa: f64,
+    /// Critical density, kg/m³ (the transport properties' reducing density).
+    pub critical_density_kg_per_m3: f64,
     /// Pitzer acentric factor.
     pub acentric_factor: f64,
     /// The lowest temperature accepted for the gas (its triple point; helium's lambda
@@ -52,10 +56,8 @@ pub struct Gas {
     pub eos: &'static str,
     /// What the gas does to people when it escapes.
     pub hazard: GasHazard,
-    /// Dilute-gas viscosity at 300 K, Pa·s.
-    pub viscosity_300k_pa_s: f64,
-    /// Dilute-gas thermal conductivity at 300 K, W/(m·K).
-    pub conductivity_300k_w_per_m_k: f64,
+    /// Where the dilute-gas viscosity's Lennard-Jones parameters come from.
+    pub dilute_viscosity: DiluteViscosity,
 }
 
 /// The hazard of the released gas itself, apart from the stored energy.
@@ -117,15 +119,16 @@ impl Gas {
         self.cp_300k_j_per_kg_k / (self.cp_300k_j_per_kg_k - self.specific_gas_constant())
     }
 
-    /// Dilute-gas viscosity (Pa·s) and thermal conductivity (W/(m·K)) at `t`, by a power
-    /// law in temperature from the 300 K values (exponents 0.7 and 0.8: common practice for
-    /// simple gases near room temperature, no source). Heat-transfer correlations use them;
-    /// the dense-gas rise at high pressure is ignored, which understates the coefficients.
-    pub fn transport(&self, t: ThermodynamicTemperature) -> (f64, f64) {
-        let ratio = (t.get::<kelvin>() / 300.0).max(0.05);
-        (
-            self.viscosity_300k_pa_s * ratio.powf(0.7),
-            self.conductivity_300k_w_per_m_k * ratio.powf(0.8),
+    /// Viscosity (Pa·s) and thermal conductivity (W/(m·K)) at temperature `t` and `density`,
+    /// for the heat-transfer correlations: the dilute-gas value plus the dense-gas rise,
+    /// which at 300 bar is half the dilute value or more ([`transport`] gives the methods
+    /// and how close they come). Finite and positive for every temperature and density.
+    pub fn transport(&self, t: ThermodynamicTemperature, density: MassDensity) -> (f64, f64) {
+        use uom::si::mass_density::kilogram_per_cubic_meter;
+        transport::viscosity_conductivity(
+            self,
+            t.get::<kelvin>(),
+            density.get::<kilogram_per_cubic_meter>(),
         )
     }
 

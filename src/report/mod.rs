@@ -182,7 +182,7 @@ pub struct FillTransientReport {
     pub heat_transfer: HeatTransfer,
     /// The inner coefficient given instead of the correlations, W/(m²·K).
     pub inner_coefficient_w_per_m2_k: Option<f64>,
-    /// The wall node used.
+    /// The wall used: its layers and their masses.
     pub wall: Wall,
     /// How the inner coefficient was found.
     pub inner_coefficient_basis: InnerBasis,
@@ -192,8 +192,11 @@ pub struct FillTransientReport {
     pub planned_mass_flow_kg_per_s: Option<MassRate>,
     /// Highest gas temperature, K.
     pub peak_gas_temperature_k: ThermodynamicTemperature,
-    /// Highest wall temperature, K.
+    /// Highest wall temperature at its inner face (a composite's liner), K.
     pub peak_wall_temperature_k: ThermodynamicTemperature,
+    /// Highest temperature of a composite cylinder's wrap, K (absent for metal cylinders).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub peak_wrap_temperature_k: Option<ThermodynamicTemperature>,
     /// Pressure at the end of the fill, Pa(a).
     pub end_pressure_pa: Pressure,
     /// Duration of the fill, s.
@@ -245,6 +248,7 @@ impl FillTransientReport {
             planned_mass_flow_kg_per_s,
             peak_gas_temperature_k: t.run.peak_gas(),
             peak_wall_temperature_k: t.run.peak_wall(),
+            peak_wrap_temperature_k: t.run.peak_wrap(),
             end_pressure_pa: t.run.end.pressure,
             fill_time_s: t.run.duration(),
             settled_pressure_pa: t.settled_pressure,
@@ -283,8 +287,19 @@ impl FillTransientReport {
         out.push(result(
             "Peak wall temperature",
             Value::Temperature(self.peak_wall_temperature_k),
-            method,
+            if self.peak_wrap_temperature_k.is_some() {
+                "the liner, at its inner face"
+            } else {
+                "at the inner face"
+            },
         ));
+        if let Some(t) = self.peak_wrap_temperature_k {
+            out.push(result(
+                "Peak wrap temperature",
+                Value::Temperature(t),
+                "the carbon-fibre wrap next to the liner, with conduction through the wrap",
+            ));
+        }
         out.push(result("Fill time", Value::Time(self.fill_time_s), method));
         out.push(result(
             "Settled pressure after the planned fill",
@@ -435,7 +450,7 @@ pub struct VentTransientReport {
     pub heat_transfer: HeatTransfer,
     /// The inner coefficient given instead of the correlations, W/(m²·K).
     pub inner_coefficient_w_per_m2_k: Option<f64>,
-    /// The wall node used.
+    /// The wall used: its layers and their masses.
     pub wall: Wall,
     /// How the inner coefficient was found.
     pub inner_coefficient_basis: InnerBasis,
@@ -508,7 +523,7 @@ impl VentTransientReport {
             result(
                 "Lowest wall temperature",
                 Value::Temperature(self.min_wall_temperature_k),
-                method,
+                "at the inner face",
             ),
         ];
         if let Some(d) = dep {
