@@ -5,7 +5,9 @@
 use criterion::{criterion_group, criterion_main, Criterion};
 use pvhazard::gas::{Gas, GasModel, IdealGas, RealGas};
 use pvhazard::heat;
-use pvhazard::rules::transient::{self, Exchange, FillCase, FillRate, HeatTransfer, Wall};
+use pvhazard::rules::transient::{
+    self, CylinderMass, Exchange, FillCase, FillRate, HeatTransfer, Wall,
+};
 use pvhazard::site::{Construction, Liner, Material};
 use pvhazard::units::PressureRate;
 use uom::si::f64::{Mass, Pressure, ThermodynamicTemperature, Volume};
@@ -58,7 +60,7 @@ fn runs(c: &mut Criterion, air: &dyn GasModel) {
             (Construction::Composite, Some(Liner::Aluminium)),
             Volume::new::<cubic_meter>(0.0068),
             p(300e5),
-            (None, None),
+            CylinderMass::Layers(None, None),
         ),
         ..exchange(1.0, heat::CYLINDER_ASPECT)
     };

@@ -264,6 +264,9 @@ pub struct Cylinder {
     pub construction: Construction,
     /// A composite cylinder's liner, if the site file names it.
     pub liner: Option<Liner>,
+    /// The empty cylinder's mass without its valve (its tare weight), if known.
+    #[serde(rename = "empty_mass_kg")]
+    pub empty_mass: Option<Mass>,
     /// Supply gas temperature at the fill station.
     #[serde(rename = "supply_temperature_k")]
     pub supply_temperature: ThermodynamicTemperature,
@@ -344,6 +347,7 @@ struct RawCylinder {
     rated_temperature: Spanned<String>,
     construction: Spanned<String>,
     liner: Option<Spanned<String>>,
+    empty_mass: Option<Spanned<String>>,
     supply_temperature: Option<Spanned<String>>,
     fill_rate: Option<Spanned<String>>,
     residual_pressure: Option<Spanned<String>>,
@@ -647,6 +651,7 @@ impl Context<'_> {
             ("supply_temperature", &c.supply_temperature),
             ("residual_pressure", &c.residual_pressure),
             ("fill_rate", &c.fill_rate),
+            ("empty_mass", &c.empty_mass),
         ] {
             origin.note_opt(src, k, x);
         }
@@ -683,6 +688,11 @@ impl Context<'_> {
                         parse_liner(s)
                     })
                 })
+                .transpose()?,
+            empty_mass: c
+                .empty_mass
+                .as_ref()
+                .map(|x| located(src, &key("empty_mass"), x, positive(units::parse_mass)))
                 .transpose()?,
             supply_temperature: c
                 .supply_temperature

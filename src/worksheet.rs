@@ -20,7 +20,9 @@ use crate::rules::energy::{
     self, EnergyInput, DEFAULT_OVERPRESSURES_PA, DEFAULT_TNT_ENERGY_J_PER_KG,
 };
 use crate::rules::fill::{self, FillInput};
-use crate::rules::transient::{self, Depressuring, Exchange, FillRate, HeatTransfer, Wall};
+use crate::rules::transient::{
+    self, CylinderMass, Depressuring, Exchange, FillRate, HeatTransfer, Wall,
+};
 use crate::rules::vent::{self, VentInput, DEFAULT_TARGET_MARGIN};
 use crate::site::{Cylinder, Equipment, EquipmentKind, Material, Site, Vessel};
 
@@ -747,7 +749,8 @@ fn cylinder_parts(
             (c.construction, c.liner),
             c.water_capacity,
             c.service_pressure - site.ambient,
-            (None, None),
+            c.empty_mass
+                .map_or(CylinderMass::Layers(None, None), CylinderMass::Empty),
         );
         let exchange = Exchange {
             mode: HeatTransfer::Lumped,

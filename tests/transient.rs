@@ -357,3 +357,63 @@ fn a_wrap_mass_is_refused_on_a_metal_cylinder_or_when_not_positive() {
             .stderr(predicates::str::contains(said));
     }
 }
+
+#[test]
+fn an_empty_mass_is_the_wall_or_is_split_between_liner_and_wrap() {
+    let base = [
+        "fill",
+        "--gas",
+        "air",
+        "--volume",
+        "6.8 L",
+        "--from",
+        "20 bara",
+        "--to",
+        "300 bara",
+        "--rate",
+        "100 bar/min",
+    ];
+    let with = |extra: &[&str]| {
+        let args: Vec<&str> = base.iter().copied().chain(extra.iter().copied()).collect();
+        run(&args)
+    };
+    // A metal cylinder's empty mass is its wall.
+    let steel = with(&["--empty-mass", "9 kg"]);
+    assert!((num(&steel["transient"], "wall.mass_kg") - 9.0).abs() < 1e-9);
+    assert_eq!(steel["transient"]["wall"]["estimated"], false);
+    // A composite's is split a third to the aluminium liner, as the estimates are.
+    let v = with(&["--construction", "composite", "--empty-mass", "4.5 kg"]);
+    let t = &v["transient"];
+    assert!((num(t, "wall.mass_kg") - 1.5).abs() < 1e-9, "{t}");
+    assert!((num(t, "wall.wrap.mass_kg") - 3.0).abs() < 1e-9);
+    assert_eq!(t["wall"]["wrap"]["split_from_empty"], true);
+    assert!(v["cautions"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .any(|c| c["message"]
+            .as_str()
+            .unwrap()
+            .contains("empty mass is split")));
+    // Not with the layers' own masses.
+    for layer in ["--wall-mass", "--wrap-mass"] {
+        let args: Vec<&str> = base
+            .iter()
+            .copied()
+            .chain([
+                "--construction",
+                "composite",
+                "--empty-mass",
+                "4.5 kg",
+                layer,
+                "1 kg",
+            ])
+            .collect();
+        Command::cargo_bin("pvhazard")
+            .unwrap()
+            .args(&args)
+            .assert()
+            .code(2)
+            .stderr(predicates::str::contains("--empty-mass"));
+    }
+}

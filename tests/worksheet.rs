@@ -836,6 +836,40 @@ fn a_liner_on_a_metal_cylinder_or_an_unknown_liner_is_refused_at_its_line() {
 }
 
 #[test]
+fn a_cylinders_empty_mass_is_split_between_liner_and_wrap_on_its_worksheet() {
+    let scratch = Scratch::new("cylinder-empty-mass");
+    let out = scratch.path("out");
+    worksheet(&sample(KESTREL), &out, &["--tag", "BA-07"])
+        .assert()
+        .code(0);
+    let rec = json_file(
+        &out.join("kestrel-point-fill-room-demo_ba-07_fill-check_wo-test-7_2026-03-14.json"),
+    );
+    let wall = &rec["results"]["fill"]["transient"]["wall"];
+    let (liner, wrap) = (
+        wall["mass_kg"].as_f64().unwrap(),
+        wall["wrap"]["mass_kg"].as_f64().unwrap(),
+    );
+    // The site's 9.0 lb, a third of it the aluminium liner.
+    assert!((liner + wrap - 9.0 * 0.453_592_37).abs() < 1e-9, "{wall}");
+    assert!((liner / (liner + wrap) - 1.0 / 3.0).abs() < 1e-9);
+    assert_eq!(wall["wrap"]["split_from_empty"], true);
+    assert_eq!(wall["wrap"]["liner_assumed"], false);
+}
+
+#[test]
+fn a_bad_cylinder_empty_mass_is_refused_at_its_line() {
+    refused_sample(
+        KESTREL,
+        "cylinder-empty-mass-bad",
+        "cylinder-empty-mass-bad.toml",
+        ("empty_mass = \"9.0 lb\"", "empty_mass = \"-9.0 lb\""),
+        "empty_mass = \"-9.0 lb\"",
+        &["cylinder[1].empty_mass"],
+    );
+}
+
+#[test]
 fn a_vessel_without_volume_is_refused_at_its_table_line() {
     refused_site(
         "missing-volume",

@@ -118,6 +118,9 @@ pub(super) struct FillArgs {
     /// A composite cylinder's liner [default: aluminium, with a CAUTION].
     #[arg(long, value_enum)]
     liner: Option<Liner>,
+    /// The empty cylinder's mass without its valve (its tare weight), instead of --wall-mass and --wrap-mass.
+    #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_mass, conflicts_with_all = ["wall_mass", "wrap_mass"])]
+    empty_mass: Option<Mass>,
     /// Mass of a composite cylinder's wrap; --wall-mass is then its liner's [default: estimated].
     #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_mass)]
     wrap_mass: Option<Mass>,
@@ -319,13 +322,16 @@ pub(super) fn energy_command(a: EnergyArgs) -> Result<String, Failure> {
 }
 
 pub(super) fn fill_command(a: FillArgs) -> Result<String, Failure> {
-    let wall_options =
-        a.wall.any() || a.inlet_diameter.is_some() || a.wrap_mass.is_some() || a.liner.is_some();
+    let wall_options = a.wall.any()
+        || a.inlet_diameter.is_some()
+        || a.wrap_mass.is_some()
+        || a.liner.is_some()
+        || a.empty_mass.is_some();
     if a.rate.is_none() && a.duration.is_none() && wall_options {
         return Err(InputError::new(
             "rate",
             "(none)",
-            "the wall options (--heat-transfer, --wall-mass, --liner, --wrap-mass, --inner-coefficient, --inlet-diameter, --csv) act on a fill at a planned rate; accepted: give --rate or --duration",
+            "the wall options (--heat-transfer, --wall-mass, --empty-mass, --liner, --wrap-mass, --inner-coefficient, --inlet-diameter, --csv) act on a fill at a planned rate; accepted: give --rate or --duration",
         )
         .into());
     }
@@ -410,20 +416,20 @@ pub(super) fn fill_command(a: FillArgs) -> Result<String, Failure> {
                 .into());
             }
         }
-        if let Some(m) = a.wrap_mass {
-            check_range(
-                "wrap-mass",
-                m.get::<uom::si::mass::kilogram>(),
-                "kg",
-                0.0,
-                1e7,
-            )?;
+        for (field, m) in [("wrap-mass", a.wrap_mass), ("empty-mass", a.empty_mass)] {
+            if let Some(m) = m {
+                check_range(field, m.get::<uom::si::mass::kilogram>(), "kg", 0.0, 1e7)?;
+            }
         }
+        let known = match a.empty_mass {
+            Some(m) => transient::CylinderMass::Empty(m),
+            None => transient::CylinderMass::Layers(a.wall.wall_mass, a.wrap_mass),
+        };
         let wall = Wall::cylinder(
             (a.construction, a.liner),
             input.volume,
             input.to - pa,
-            (a.wall.wall_mass, a.wrap_mass),
+            known,
         );
         let exchange = exchange(
             &a.wall,

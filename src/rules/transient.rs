@@ -81,33 +81,64 @@ pub struct Wrap {
     pub estimated: bool,
     /// Whether the liner was not named and is taken as aluminium.
     pub liner_assumed: bool,
+    /// Whether liner and wrap were split from the cylinder's empty mass.
+    pub split_from_empty: bool,
+}
+
+/// What is known of a cylinder's wall mass.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum CylinderMass {
+    /// The layers' masses (a composite's liner, then its wrap), each estimated when not
+    /// given.
+    Layers(Option<Mass>, Option<Mass>),
+    /// The empty cylinder's mass without its valve (the tare weight stamped on it): a
+    /// composite's is split between liner and wrap in the proportions of their estimates.
+    Empty(Mass),
 }
 
 impl Wall {
-    /// A cylinder's wall: the given masses, or estimates from the construction (and a
-    /// composite's liner, aluminium unless named), the water capacity and the service gauge
-    /// pressure; a composite's liner and wrap apart.
+    /// A cylinder's wall from what is known of its mass, with estimates from the
+    /// construction (and a composite's liner, aluminium unless named), the water capacity
+    /// and the service gauge pressure where needed; a composite's liner and wrap apart.
     pub fn cylinder(
         (construction, liner): (Construction, Option<Liner>),
         water_capacity: Volume,
         service_gauge: Pressure,
-        (wall_mass, wrap_mass): (Option<Mass>, Option<Mass>),
+        known: CylinderMass,
     ) -> Wall {
         let (v, p) = (
             water_capacity.get::<cubic_meter>(),
             service_gauge.get::<pascal>(),
         );
         let lining = liner.unwrap_or(Liner::Aluminium);
+        let estimate = (
+            construction.estimated_wall_mass(lining, v, p),
+            construction.estimated_wrap_mass(v, p),
+        );
+        let (wall_mass, wrap_mass, split) = match known {
+            CylinderMass::Layers(wall, wrap) => (wall, wrap, false),
+            CylinderMass::Empty(total) => {
+                let liner_share = match estimate {
+                    (l, Some(w)) if l + w > 0.0 => l / (l + w),
+                    _ => 1.0,
+                };
+                (
+                    Some(total * liner_share),
+                    Some(total * (1.0 - liner_share)),
+                    true,
+                )
+            }
+        };
+        let kg = Mass::new::<kilogram>;
         Wall {
-            mass: wall_mass.unwrap_or_else(|| {
-                Mass::new::<kilogram>(construction.estimated_wall_mass(lining, v, p))
-            }),
+            mass: wall_mass.unwrap_or_else(|| kg(estimate.0)),
             material: construction.inner_material(lining),
             estimated: wall_mass.is_none(),
-            wrap: construction.estimated_wrap_mass(v, p).map(|m| Wrap {
-                mass: wrap_mass.unwrap_or_else(|| Mass::new::<kilogram>(m)),
+            wrap: estimate.1.map(|m| Wrap {
+                mass: wrap_mass.unwrap_or_else(|| kg(m)),
                 estimated: wrap_mass.is_none(),
                 liner_assumed: liner.is_none(),
+                split_from_empty: split,
             }),
         }
     }
@@ -323,7 +354,8 @@ fn layer(
             width / 2.0 / (material.conductivity() * area),
         )
     };
-    if !material.insulating() || thickness <= first {
+    // A metal layer, and an insulating one too thin to slice, is one node.
+    if !material.insulating() || thickness <= first.max(MIN_SLICED_THICKNESS) {
         return vec![node(thickness)];
     }
     // The fewest slices, growing geometrically, whose innermost is at most `first`.
@@ -354,8 +386,8 @@ impl Nodes {
         if let Some(w) = wall.wrap {
             let mw = w.mass.get::<kilogram>();
             let wrap = nodes_of(mw, Material::Composite);
-            // A too-thin insulating layer is lumped with its neighbour: the capacities add,
-            // its whole resistance stays on its side.
+            // A too-thin insulating layer (one node, see `layer`) is lumped with its
+            // neighbour: the capacities add, its whole resistance stays on its side.
             if thin(mw, Material::Composite) {
                 let last = nodes.len() - 1;
                 nodes[last].0 += wrap[0].0;
@@ -1110,6 +1142,16 @@ fn model_notice(basis: InnerBasis, exchange: &Exchange) -> Vec<Caution> {
             "The wall mass was not given and is estimated from the volume, pressure rating and material by a membrane-stress rule (common practice, no source). Give the real mass from the nameplate or data sheet for a better result.",
         ));
     }
+    if let Some(w) = wall.wrap.filter(|w| w.split_from_empty) {
+        out.push(crate::caution!(
+            Level::Notice,
+            "The cylinder's empty mass is split between liner (",
+            Value::Mass(wall.mass),
+            ") and wrap (",
+            Value::Mass(w.mass),
+            ") in the proportions of their estimates (common practice, no source). A valve counted in the empty mass makes the wall heavier than it is, which errs towards a cooler gas.",
+        ));
+    }
     out
 }
 
@@ -1374,7 +1416,7 @@ mod tests {
             (Construction::Composite, Some(liner)),
             Volume::new::<cubic_meter>(0.0068),
             pa(300e5),
-            (None, None),
+            CylinderMass::Layers(None, None),
         );
         if !wrap {
             wall.wrap = None;
@@ -1476,6 +1518,49 @@ mod tests {
         let (coarse, fine) = (peaks(1e-7), peaks(1e-11));
         assert_relative_eq!(coarse.0, fine.0, max_relative = 1e-6);
         assert_relative_eq!(coarse.1, fine.1, max_relative = 1e-6);
+    }
+
+    #[test]
+    fn the_wall_nodes_keep_every_layers_heat_capacity_and_resistance() {
+        let area = 0.25;
+        for liner in [Liner::Aluminium, Liner::Plastic] {
+            for wrap_kg in [1e-4, 0.3, 2.7, 20.0] {
+                for duration in [0.1, 10.0, 600.0, 86_400.0] {
+                    let mut wall = lined(liner, true).wall;
+                    wall.wrap = wall.wrap.map(|w| Wrap {
+                        mass: Mass::new::<kilogram>(wrap_kg),
+                        ..w
+                    });
+                    // A plastic liner under 1 mm is lumped with the wrap.
+                    if liner == Liner::Plastic && wrap_kg > 1.0 {
+                        wall.mass = Mass::new::<kilogram>(0.1);
+                    }
+                    let n = Nodes::new(&wall, area, duration, SLICE_GRID);
+                    let (ml, l, c) = (
+                        wall.mass.get::<kilogram>(),
+                        wall.material,
+                        Material::Composite,
+                    );
+                    let capacity = ml * l.specific_heat() + wrap_kg * c.specific_heat();
+                    let resistance = (ml / (l.density() * area) / l.conductivity()
+                        + wrap_kg / (c.density() * area) / c.conductivity())
+                        / area;
+                    let total_r = n.r_inner + n.r_links.iter().sum::<f64>() + n.r_outer;
+                    let what = format!("{liner:?} {wrap_kg} kg {duration} s");
+                    assert_relative_eq!(
+                        n.capacities.iter().sum::<f64>(),
+                        capacity,
+                        max_relative = 1e-12
+                    );
+                    assert_relative_eq!(total_r, resistance, max_relative = 1e-12);
+                    assert_eq!(n.r_links.len() + 1, n.capacities.len(), "{what}");
+                    assert!(
+                        n.wrap_first.is_some_and(|i| i < n.capacities.len()),
+                        "{what}"
+                    );
+                }
+            }
+        }
     }
 
     #[test]
