@@ -8,6 +8,14 @@ use crate::site::{Construction, Liner, Material};
 /// Standard gravity, m/s².
 const G: f64 = 9.806_65;
 
+/// Mass of a composite wall per 2·p·V (gauge pressure times volume), kg/(Pa·m³): common
+/// practice, no source; it puts a 6.8 L, 300 bar cylinder at about 4 kg.
+const COMPOSITE_MASS_PER_PV: f64 = 1.0e-5;
+
+/// The share of a composite cylinder's estimated mass in its aluminium liner (common
+/// practice, no source); the wrap is the rest.
+const ALUMINIUM_LINER_SHARE: f64 = 1.0 / 3.0;
+
 impl Material {
     /// Specific heat capacity near room temperature, J/(kg·K).
     ///
@@ -78,7 +86,7 @@ impl Material {
             Material::StainlessSteel => (8000.0, 138.0e6),
             Material::Aluminium => (2700.0, 60.0e6),
             Material::Composite | Material::Plastic => {
-                return 2.0 * design_gauge_pa.max(0.0) * volume_m3 * 1.0e-5
+                return 2.0 * design_gauge_pa.max(0.0) * volume_m3 * COMPOSITE_MASS_PER_PV
             }
         };
         let membrane = 2.0 * design_gauge_pa.max(0.0) * volume_m3 * density / stress;
@@ -110,8 +118,8 @@ impl Construction {
         }
     }
 
-    /// Estimated mass of the wall's inner layer, kg, from the water capacity (m³) and
-    /// service pressure (Pa gauge): m = 2·p·V·ρ/σ, the membrane-stress mass of a long
+    /// Estimated mass of the wall's inner layer, kg, from the liner (a composite's; metal
+    /// cylinders ignore it), the water capacity (m³) and the service pressure (Pa gauge): m = 2·p·V·ρ/σ, the membrane-stress mass of a long
     /// cylinder with an effective allowable stress σ per construction (steel 7850 kg/m³ at
     /// 300 MPa, aluminium 2700 kg/m³ at 90 MPa, an aluminium liner as a third of a 1.0e-5
     /// kg/(Pa·m³) cylinder), and a plastic liner 5 mm thick over the inner area. Common
@@ -127,7 +135,9 @@ impl Construction {
         match (self, liner) {
             (Construction::Steel, _) => pv * 7850.0 / 300.0e6,
             (Construction::Aluminium, _) => pv * 2700.0 / 90.0e6,
-            (Construction::Composite, Liner::Aluminium) => pv * 1.0e-5 / 3.0,
+            (Construction::Composite, Liner::Aluminium) => {
+                pv * COMPOSITE_MASS_PER_PV * ALUMINIUM_LINER_SHARE
+            }
             (Construction::Composite, Liner::Plastic) => {
                 let (_, area) = geometry(water_capacity_m3, CYLINDER_ASPECT);
                 area * 0.005 * Material::Plastic.density()
@@ -139,8 +149,9 @@ impl Construction {
     /// 1.0e-5 kg/(Pa·m³) cylinder of [`Construction::estimated_wall_mass`] (common practice,
     /// no source). `None` for metal cylinders, which have no wrap.
     pub fn estimated_wrap_mass(self, water_capacity_m3: f64, service_gauge_pa: f64) -> Option<f64> {
+        let pv = 2.0 * service_gauge_pa.max(0.0) * water_capacity_m3;
         (self == Construction::Composite)
-            .then(|| 2.0 * service_gauge_pa.max(0.0) * water_capacity_m3 * 1.0e-5 * 2.0 / 3.0)
+            .then_some(pv * COMPOSITE_MASS_PER_PV * (1.0 - ALUMINIUM_LINER_SHARE))
     }
 }
 

@@ -283,28 +283,38 @@ fn the_inlet_jet_never_promises_a_faster_safe_fill_and_the_inputs_are_echoed() {
     assert_eq!(num(&v, "inputs.design_pressure_pa"), 13.01325e5);
 }
 
+/// A small cylinder of air filled from 20 to 300 bar(a) at 100 bar/min.
+const SMALL_FILL: [&str; 11] = [
+    "fill",
+    "--gas",
+    "air",
+    "--volume",
+    "6.8 L",
+    "--from",
+    "20 bara",
+    "--to",
+    "300 bara",
+    "--rate",
+    "100 bar/min",
+];
+
+fn small_fill(extra: &[&str]) -> Value {
+    let args: Vec<&str> = SMALL_FILL
+        .iter()
+        .copied()
+        .chain(extra.iter().copied())
+        .collect();
+    run(&args)
+}
+
 #[test]
 fn a_composite_cylinder_has_a_liner_and_a_wrap_node() {
     let composite = |extra: &[&str]| {
-        let args: Vec<&str> = [
-            "fill",
-            "--gas",
-            "air",
-            "--volume",
-            "6.8 L",
-            "--from",
-            "20 bara",
-            "--to",
-            "300 bara",
-            "--rate",
-            "100 bar/min",
-            "--construction",
-            "composite",
-        ]
-        .into_iter()
-        .chain(extra.iter().copied())
-        .collect();
-        run(&args)
+        let args: Vec<&str> = ["--construction", "composite"]
+            .into_iter()
+            .chain(extra.iter().copied())
+            .collect();
+        small_fill(&args)
     };
     let v = composite(&[]);
     let t = &v["transient"];
@@ -360,29 +370,12 @@ fn a_wrap_mass_is_refused_on_a_metal_cylinder_or_when_not_positive() {
 
 #[test]
 fn an_empty_mass_is_the_wall_or_is_split_between_liner_and_wrap() {
-    let base = [
-        "fill",
-        "--gas",
-        "air",
-        "--volume",
-        "6.8 L",
-        "--from",
-        "20 bara",
-        "--to",
-        "300 bara",
-        "--rate",
-        "100 bar/min",
-    ];
-    let with = |extra: &[&str]| {
-        let args: Vec<&str> = base.iter().copied().chain(extra.iter().copied()).collect();
-        run(&args)
-    };
     // A metal cylinder's empty mass is its wall.
-    let steel = with(&["--empty-mass", "9 kg"]);
+    let steel = small_fill(&["--empty-mass", "9 kg"]);
     assert!((num(&steel["transient"], "wall.mass_kg") - 9.0).abs() < 1e-9);
     assert_eq!(steel["transient"]["wall"]["estimated"], false);
     // A composite's is split a third to the aluminium liner, as the estimates are.
-    let v = with(&["--construction", "composite", "--empty-mass", "4.5 kg"]);
+    let v = small_fill(&["--construction", "composite", "--empty-mass", "4.5 kg"]);
     let t = &v["transient"];
     assert!((num(t, "wall.mass_kg") - 1.5).abs() < 1e-9, "{t}");
     assert!((num(t, "wall.wrap.mass_kg") - 3.0).abs() < 1e-9);
@@ -397,7 +390,7 @@ fn an_empty_mass_is_the_wall_or_is_split_between_liner_and_wrap() {
             .contains("empty mass is split")));
     // Not with the layers' own masses.
     for layer in ["--wall-mass", "--wrap-mass"] {
-        let args: Vec<&str> = base
+        let args: Vec<&str> = SMALL_FILL
             .iter()
             .copied()
             .chain([

@@ -55,8 +55,9 @@ impl HeatTransfer {
 ///
 /// Each node is lumped at its mid-thickness, the thickness taken from its mass, density and
 /// the inner area; half of each node's conduction resistance lies between it and each of its
-/// faces. For metals that resistance is small beside the convection; the carbon-fibre wrap
-/// (0.5 W/(m·K)) conducts so slowly that it is cut into slices through its thickness.
+/// faces. For metals that resistance is small beside the convection; insulating layers
+/// (the carbon-fibre wrap at 0.5 W/(m·K), a plastic liner) conduct so slowly that they are
+/// cut into slices through their thickness (see `Nodes`).
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
 pub struct Wall {
     /// The inner node's mass (a composite cylinder's liner).
@@ -1295,11 +1296,20 @@ mod tests {
         })
     }
 
-    /// 50 L of air from 20 to 300 bar(a) at 20 °C, supply at 20 °C.
-    fn cylinder_fill(rate: FillRate, ex: &Exchange) -> FillTransient {
+    /// Air at 20 bar(a) in the cylinder and the 300 bar(a) supply, both at 20 °C, and the
+    /// supply's enthalpy, J/kg.
+    fn air_fill_states() -> (State, State, f64) {
         let model = air();
         let initial = model.state_pt(pa(20e5), k(293.15)).unwrap();
         let supply = model.state_pt(pa(300e5), k(293.15)).unwrap();
+        let h_in = model.enthalpy(&supply).get::<joule_per_kilogram>();
+        (initial, supply, h_in)
+    }
+
+    /// 50 L of air from 20 to 300 bar(a) at 20 °C, supply at 20 °C.
+    fn cylinder_fill(rate: FillRate, ex: &Exchange) -> FillTransient {
+        let model = air();
+        let (initial, supply, _) = air_fill_states();
         let case = FillCase {
             volume: Volume::new::<cubic_meter>(0.05),
             initial: &initial,
@@ -1356,9 +1366,7 @@ mod tests {
         let model = air();
         let ex = exchange(HeatTransfer::Lumped, 60.0, None);
         let v = Volume::new::<cubic_meter>(0.05);
-        let initial = model.state_pt(pa(20e5), k(293.15)).unwrap();
-        let supply = model.state_pt(pa(300e5), k(293.15)).unwrap();
-        let h_in = model.enthalpy(&supply).get::<joule_per_kilogram>();
+        let (initial, _, h_in) = air_fill_states();
         let peak = |rtol: f64| {
             let mut setup = Setup::new(&model, v, &ex);
             setup.rtol = rtol;
@@ -1429,8 +1437,7 @@ mod tests {
 
     fn composite_fill(ex: &Exchange) -> Run {
         let model = air();
-        let initial = model.state_pt(pa(20e5), k(293.15)).unwrap();
-        let supply = model.state_pt(pa(300e5), k(293.15)).unwrap();
+        let (initial, supply, _) = air_fill_states();
         let case = FillCase {
             volume: Volume::new::<cubic_meter>(0.0068),
             initial: &initial,
@@ -1503,9 +1510,7 @@ mod tests {
         let model = air();
         let ex = composite(true);
         let v = Volume::new::<cubic_meter>(0.0068);
-        let initial = model.state_pt(pa(20e5), k(293.15)).unwrap();
-        let supply = model.state_pt(pa(300e5), k(293.15)).unwrap();
-        let h_in = model.enthalpy(&supply).get::<joule_per_kilogram>();
+        let (initial, _, h_in) = air_fill_states();
         let peaks = |rtol: f64| {
             let mut setup = Setup::new(&model, v, &ex);
             setup.rtol = rtol;
@@ -1568,9 +1573,7 @@ mod tests {
         let model = air();
         let ex = composite(true);
         let v = Volume::new::<cubic_meter>(0.0068);
-        let initial = model.state_pt(pa(20e5), k(293.15)).unwrap();
-        let supply = model.state_pt(pa(300e5), k(293.15)).unwrap();
-        let h_in = model.enthalpy(&supply).get::<joule_per_kilogram>();
+        let (initial, _, h_in) = air_fill_states();
         let plastic = lined(Liner::Plastic, true);
         let peak = |ex: &Exchange, grid: (f64, f64), bar_per_min: f64| {
             let mut setup = Setup::new(&model, v, ex);
