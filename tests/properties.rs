@@ -1,11 +1,16 @@
 //! Physical invariants of the rules, over wide ranges of inputs (proptest).
 
 use proptest::prelude::*;
-use pvhazard::gas::{Gas, IdealGas, GASES};
+use pvhazard::gas::{Gas, GasModel, IdealGas, GASES};
 use pvhazard::rules::energy::{stored_energy, EnergyInput, DEFAULT_TNT_ENERGY_J_PER_KG};
 use pvhazard::rules::fill::{adiabatic_fill, FillInput};
+use pvhazard::rules::transient::{
+    self, CylinderMass, Exchange, FillCase, FillRate, HeatTransfer, Wall,
+};
 use pvhazard::rules::vent::{blow_down, Process, VentInput};
-use uom::si::f64::{AvailableEnergy, Length, Pressure, ThermodynamicTemperature, Volume};
+use pvhazard::site::{Construction, Liner};
+use pvhazard::units::PressureRate;
+use uom::si::f64::{AvailableEnergy, Length, Mass, Pressure, ThermodynamicTemperature, Volume};
 use uom::si::{
     available_energy::joule_per_kilogram, energy::joule, length::meter, pressure::pascal,
     thermodynamic_temperature::kelvin, volume::cubic_meter,
@@ -170,5 +175,53 @@ proptest! {
         let moderate = 2.0e5 + (p - 2.0e5) * 1.5e6 / 9.8e6;
         let (cold, warm) = (run(Process::Isentropic, moderate), run(Process::Isothermal, moderate));
         prop_assert!(cold.time.unwrap() < warm.time.unwrap());
+    }
+
+    #[test]
+    fn a_composite_fill_conserves_energy_and_keeps_its_wall_between_ambient_and_the_gas(
+        liner in prop::sample::select(vec![Liner::Aluminium, Liner::Plastic]),
+        liner_kg in 0.05f64..5.0,
+        wrap_kg in 0.01f64..20.0,
+        bar_per_min in 5.0f64..2000.0,
+        litres in 2.0f64..100.0,
+    ) {
+        let model = IdealGas::new(Gas::find("air").unwrap());
+        let t0 = ThermodynamicTemperature::new::<kelvin>(293.15);
+        let p = Pressure::new::<pascal>;
+        let (initial, supply) = (model.state_pt(p(20e5), t0).unwrap(), model.state_pt(p(300e5), t0).unwrap());
+        let volume = Volume::new::<cubic_meter>(litres / 1e3);
+        let kg = Mass::new::<uom::si::mass::kilogram>;
+        let exchange = Exchange {
+            mode: HeatTransfer::Lumped,
+            wall: Wall::cylinder(
+                (Construction::Composite, Some(liner)),
+                volume,
+                p(300e5),
+                CylinderMass::Layers(Some(kg(liner_kg)), Some(kg(wrap_kg))),
+            ),
+            inner_coefficient: None,
+            ambient_temperature: t0,
+            aspect: pvhazard::heat::CYLINDER_ASPECT,
+        };
+        let case = FillCase {
+            volume,
+            initial: &initial,
+            supply: &supply,
+            to: p(300e5),
+            rate: FillRate::Ramp(PressureRate { per_second: p(bar_per_min * 1e5 / 60.0) }),
+            inlet_diameter: None,
+        };
+        let run = transient::fill_once(&model, &case, &exchange).unwrap();
+        prop_assert!(run.energy_residual < 1e-6, "{}", run.energy_residual);
+        // The gas heats between ambient and the adiabatic bound (γ·T0 from vacuum); every
+        // wall temperature lies between ambient and the gas's peak.
+        let (peak, t_amb) = (run.peak_gas().get::<kelvin>(), 293.15);
+        prop_assert!(peak > t_amb && peak < model.gamma() * t_amb);
+        for s in &run.samples {
+            for t in [Some(s.wall_temperature), s.wrap_temperature].into_iter().flatten() {
+                let t = t.get::<kelvin>();
+                prop_assert!(t >= t_amb - 1e-6 && t <= peak + 1e-6, "{t} outside {t_amb}..{peak}");
+            }
+        }
     }
 }

@@ -112,7 +112,7 @@ pub(super) struct FillArgs {
     duration: Option<Time>,
     #[command(flatten)]
     wall: WallArgs,
-    /// Cylinder construction (steel means carbon steel; a composite is an aluminium liner and a carbon-fibre wrap).
+    /// Cylinder construction (steel means carbon steel; a composite is a liner, see --liner, and a carbon-fibre wrap).
     #[arg(long, value_enum, default_value = "steel")]
     construction: Construction,
     /// A composite cylinder's liner [default: aluminium, with a CAUTION].
