@@ -14,16 +14,17 @@
 //!   is about 1 % of η₀; the shift is this project's choice, no source). Coefficients from
 //!   memory, checked against CoolProp with the rest.
 //! - Dilute conductivity: Chung et al.'s Eucken-type factor Ψ on η₀ and the ideal-gas cv
-//!   (PPO eq. 10-3.14, equation number from memory); cv from the gas's reference equation of
-//!   state's ideal-gas part. For a monatomic gas Ψ = 1 and λ₀ = 15/4·(R/M)·η₀.
+//!   (PPO eq. 10-3.14, equation number from memory); for helium and hydrogen the modified
+//!   Eucken form (PPO section 10-3, from memory). cv from the gas's reference equation of
+//!   state's ideal-gas part. For a monatomic gas both give λ₀ = 15/4·(R/M)·η₀.
 //! - Dense conductivity residual: Stiel & Thodos (AIChE J. 10, 1964, 26–30; PPO section 10-5,
 //!   equation numbers from memory), three exponential branches in ρ/ρc.
 //!
 //! Checked against CoolProp 8.0.0's reference correlations of each gas
 //! (tests/reference/transport.csv, 150–400 K, 1–500 bar, gas and supercritical states) in
 //! tests/transport.rs, which states the tolerances and the worst deviations measured. In short:
-//! dilute gas within 4 % (hydrogen's conductivity 9 % low: Chung's Ψ understates it), dense
-//! gas within 13 % for both, except carbon dioxide's conductivity near its critical point
+//! dilute gas within 4 %, dense gas within 13 % for both, except carbon dioxide's
+//! conductivity near its critical point
 //! (19 % low at 325 K and 100 bar), where CoolProp's correlation carries a critical
 //! enhancement these methods lack. The natural-convection coefficient goes as k^0.648·µ^−0.352
 //! (Nu = 0.104·Ra^0.352), so a 10 % error in k is about 6.5 % in the coefficient.
@@ -65,7 +66,7 @@ pub(super) fn viscosity_conductivity(gas: &Gas, t: f64, rho: f64) -> (f64, f64) 
     let eta0 = dilute_viscosity(gas, t);
     let eta = eta0 + viscosity_residual(gas, rho_r.min(MAX_RHO_R_VISCOSITY));
     let lambda0 =
-        3.75 * eucken_factor(gas, t) * eta0 * MOLAR_GAS_CONSTANT / gas.molar_mass_kg_per_mol;
+        conductivity_factor(gas, t) * eta0 * MOLAR_GAS_CONSTANT / gas.molar_mass_kg_per_mol;
     let lambda = lambda0 + conductivity_residual(gas, rho_r.min(MAX_RHO_R_CONDUCTIVITY));
     (eta, lambda)
 }
@@ -112,6 +113,18 @@ fn viscosity_residual(gas: &Gas, rho_r: f64) -> f64 {
         / ((gas.molar_mass_kg_per_mol * 1e3).sqrt()
             * (gas.critical_pressure_pa / ATM).powf(2.0 / 3.0));
     (f(rho_r).powi(4) - f(0.0).powi(4)) / xi * 1e-3
+}
+
+/// λ₀·M/(η₀·R), the dilute conductivity over the dilute viscosity: Chung et al.'s 3.75·Ψ
+/// for the normal gases; for the quantum gases, whose acentric factor and reduced
+/// temperature lie outside what Ψ was fitted to, the modified Eucken form
+/// λ₀·M/(η₀·cv) = 1.32 + 1.77/(cv/R) (PPO section 10-3, from memory). For a monatomic gas
+/// both give the Chapman–Enskog 15/4.
+fn conductivity_factor(gas: &Gas, t: f64) -> f64 {
+    match gas.dilute_viscosity {
+        DiluteViscosity::CorrespondingStates => 3.75 * eucken_factor(gas, t),
+        DiluteViscosity::LennardJones { .. } => 1.32 * ideal_cv_over_r(gas, t) + 1.77,
+    }
 }
 
 /// Chung et al.'s Ψ: λ₀·M/(η₀·cv) = 3.75·Ψ/(cv/R), from the ideal-gas cv at `t`, the
@@ -192,6 +205,10 @@ mod tests {
             for t in [150.0, 300.0, 400.0] {
                 assert!((ideal_cv_over_r(g, t) - 1.5).abs() < 1e-9, "{name} {t}");
                 assert!((eucken_factor(g, t) - 1.0).abs() < 1e-9, "{name} {t}");
+                assert!(
+                    (conductivity_factor(g, t) - 3.75).abs() < 1e-9,
+                    "{name} {t}"
+                );
             }
         }
     }
