@@ -210,7 +210,8 @@ pub struct FillTransientReport {
     pub max_rate_pa_per_s: Option<Pressure>,
     /// `ramp` (a finite maximum), `unlimited` (even the adiabatic bound is within the
     /// rating), `inlet-limited` (even the fastest fill the inlet passes, `max_rate_pa_per_s`,
-    /// is within it), `none-safe` (even a day-long fill exceeds it), or null without a rating.
+    /// is within it), `none-safe` (even a day-long fill exceeds it), `unresolved` (the search
+    /// failed on the model), or null without a rating.
     pub max_rate: Option<&'static str>,
     /// Whether the planned fill keeps the gas within the rating (null without a rating).
     pub go: Option<bool>,
@@ -238,6 +239,7 @@ impl FillTransientReport {
             Some(MaxRate::Unlimited) => (None, Some("unlimited")),
             Some(MaxRate::NoneSafe) => (None, Some("none-safe")),
             Some(MaxRate::InletLimited(r)) => (Some(r.per_second), Some("inlet-limited")),
+            Some(MaxRate::Unresolved) => (None, Some("unresolved")),
         };
         FillTransientReport {
             heat_transfer: exchange.mode,
@@ -326,6 +328,9 @@ impl FillTransientReport {
                 ));
                 None
             }
+            (Some("unresolved"), _) => Some(Value::Text(
+                "not solved: a fill the search tried did not complete on the model".to_string(),
+            )),
             (Some(_), _) => Some(Value::Text(
                 "none: even a day-long fill exceeds the rating".to_string(),
             )),

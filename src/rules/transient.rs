@@ -808,6 +808,10 @@ pub enum MaxRate {
     /// Even the fastest fill the inlet can pass (this mean ramp, inlet choked from the
     /// supply throughout) stays within the rating.
     InletLimited(PressureRate),
+    /// The search failed: a fill it tried did not complete on the model (it left the gas
+    /// model's range, or a very light wall, following the gas within milliseconds, ran a
+    /// slow fill past the integrator's step budget).
+    Unresolved,
 }
 
 /// The mean pressure ramp of the fastest fill an inlet of bore `d` can pass, Pa/s: the
@@ -859,43 +863,48 @@ pub fn fill(
         .map_err(|e| model_failure(&e.to_string()))?
         .pressure;
     // Without heat transfer the peak does not depend on the rate: no rate to solve for.
-    let max_rate =
-        rated
-            .filter(|_| exchange.mode == HeatTransfer::Lumped)
-            .map(|rated| {
-                let excess = |rate_pa_s: f64| {
-                    let r = FillRate::Ramp(PressureRate {
-                        per_second: Pressure::new::<pascal>(rate_pa_s),
-                    });
-                    fill_run(&setup, initial, wall_t0, h_in, to_pa, r, inlet)
-                        .map(|run| run.peak_gas().get::<kelvin>() - rated.get::<kelvin>())
-                        .unwrap_or(f64::NAN)
+    let max_rate = rated
+        .filter(|_| exchange.mode == HeatTransfer::Lumped)
+        .map(|rated| {
+            let excess = |rate_pa_s: f64| {
+                let r = FillRate::Ramp(PressureRate {
+                    per_second: Pressure::new::<pascal>(rate_pa_s),
+                });
+                fill_run(&setup, initial, wall_t0, h_in, to_pa, r, inlet)
+                    .map(|run| run.peak_gas().get::<kelvin>() - rated.get::<kelvin>())
+                    .unwrap_or(f64::NAN)
+            };
+            // Between a fill over a day and one over a second, or, with the inlet's bore
+            // known, the fastest fill it can pass: the peak rises with the rate.
+            let span = to_pa - initial.pressure.get::<pascal>();
+            let inlet_limit = inlet_diameter
+                .and_then(|d| fastest_ramp(model, case, d))
+                .filter(|r| *r < span);
+            let (slow, fast) = (span / 86_400.0, inlet_limit.unwrap_or(span));
+            let at_fast = excess(fast);
+            if at_fast.is_nan() {
+                return MaxRate::Unresolved;
+            }
+            if at_fast <= 0.0 {
+                return match inlet_limit {
+                    Some(r) => MaxRate::InletLimited(PressureRate {
+                        per_second: Pressure::new::<pascal>(r),
+                    }),
+                    None => MaxRate::Unlimited,
                 };
-                // Between a fill over a day and one over a second, or, with the inlet's bore
-                // known, the fastest fill it can pass: the peak rises with the rate.
-                let span = to_pa - initial.pressure.get::<pascal>();
-                let inlet_limit = inlet_diameter
-                    .and_then(|d| fastest_ramp(model, case, d))
-                    .filter(|r| *r < span);
-                let (slow, fast) = (span / 86_400.0, inlet_limit.unwrap_or(span));
-                if excess(fast) <= 0.0 {
-                    match inlet_limit {
-                        Some(r) => MaxRate::InletLimited(PressureRate {
-                            per_second: Pressure::new::<pascal>(r),
-                        }),
-                        None => MaxRate::Unlimited,
-                    }
-                } else if excess(slow) > 0.0 {
-                    MaxRate::NoneSafe
-                } else {
-                    crate::solve::root(|ln_r| excess(ln_r.exp()), slow.ln(), fast.ln(), 1e-7)
-                        .map_or(MaxRate::NoneSafe, |ln_r| {
-                            MaxRate::Ramp(PressureRate {
-                                per_second: Pressure::new::<pascal>(ln_r.exp()),
-                            })
+            }
+            // A run that fails is no answer: never read it as "no rate is safe".
+            match excess(slow) {
+                e if e.is_nan() => MaxRate::Unresolved,
+                e if e > 0.0 => MaxRate::NoneSafe,
+                _ => crate::solve::root(|ln_r| excess(ln_r.exp()), slow.ln(), fast.ln(), 1e-7)
+                    .map_or(MaxRate::Unresolved, |ln_r| {
+                        MaxRate::Ramp(PressureRate {
+                            per_second: Pressure::new::<pascal>(ln_r.exp()),
                         })
-                }
-            });
+                    }),
+            }
+        });
     // The stop pressure whose mass, cooled to ambient, settles at the target.
     let target_density = model
         .state_pt(to, exchange.ambient_temperature)
@@ -1202,6 +1211,12 @@ fn fill_cautions(
                 "Even a fill over a day exceeds the rated temperature: the supply gas is too hot for this cylinder. Cool the supply.",
             ));
         }
+        if r.max_rate == Some(MaxRate::Unresolved) {
+            out.push(Caution::new(
+                Level::Caution,
+                "The highest fill rate within the rating could not be solved: a fill the search tried did not complete on the model. A very light wall (check the wall's mass as given, and its unit) follows the gas so closely that a slow fill exceeds the integration's step budget. Do not rely on a highest rate; the planned rate's result stands.",
+            ));
+        }
     }
     out
 }
@@ -1399,6 +1414,21 @@ mod tests {
         );
         assert!(heavy < planned, "{heavy} {planned}");
         assert!(slow > 293.15);
+    }
+
+    #[test]
+    fn a_search_that_fails_on_the_model_is_unresolved_not_none_safe() {
+        // A 10 g wall follows the gas within milliseconds: the planned fill completes, but
+        // the day-long fill at the slow end of the search runs out of steps. That is no
+        // answer, not "no rate is safe".
+        let ex = exchange(HeatTransfer::Lumped, 0.01, None);
+        let r = cylinder_fill(ramp(100.0), &ex);
+        assert_eq!(r.max_rate, Some(MaxRate::Unresolved));
+        let cautions = fill_cautions(&r, Some(k(338.15)), &ex);
+        assert!(cautions
+            .iter()
+            .any(|c| c.message().contains("could not be solved")));
+        assert!(!cautions.iter().any(|c| c.message().contains("too hot")));
     }
 
     #[test]
