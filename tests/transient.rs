@@ -410,3 +410,27 @@ fn an_empty_mass_is_the_wall_or_is_split_between_liner_and_wrap() {
             .stderr(predicates::str::contains("--empty-mass"));
     }
 }
+
+#[test]
+fn a_wall_that_cannot_be_estimated_asks_for_its_mass() {
+    // Below atmospheric pressure the membrane-stress estimate has no gauge pressure to rest on.
+    Command::cargo_bin("pvhazard")
+        .unwrap()
+        .args([
+            "fill",
+            "--gas",
+            "air",
+            "--volume",
+            "6.8 L",
+            "--from",
+            "0.3 bara",
+            "--to",
+            "0.9 bara",
+            "--rate",
+            "0.1 bar/min",
+        ])
+        .assert()
+        .code(2)
+        .stderr(predicates::str::contains("--wall-mass"))
+        .stderr(predicates::str::contains("cannot be estimated"));
+}

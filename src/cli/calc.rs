@@ -470,13 +470,15 @@ pub(super) fn exchange(
     ambient_temperature: ThermodynamicTemperature,
     aspect: f64,
 ) -> Result<transient::Exchange, InputError> {
-    check_range(
-        "wall-mass",
-        wall.mass.get::<uom::si::mass::kilogram>(),
-        "kg",
-        0.0,
-        1e7,
-    )?;
+    let kg = wall.mass.get::<uom::si::mass::kilogram>();
+    if wall.estimated && kg <= 0.0 {
+        return Err(InputError::new(
+            "wall-mass",
+            "(not given)",
+            "the wall cannot be estimated: the estimate rests on the gauge pressure, which is zero here; accepted: give --wall-mass (or --empty-mass for a cylinder)",
+        ));
+    }
+    check_range("wall-mass", kg, "kg", 0.0, 1e7)?;
     if let Some(h) = w.inner_coefficient {
         check_range("inner-coefficient", h, "W/m2K", 1e-6, 1e7)?;
     }

@@ -347,6 +347,10 @@ fn layer(
     (fraction, growth): (f64, f64),
 ) -> Vec<(f64, f64)> {
     let thickness = mass / (material.density() * area);
+    if thickness.is_nan() || thickness <= 0.0 {
+        // No wall at all (an estimate at zero gauge pressure): no capacity, no resistance.
+        return vec![(0.0, 0.0)];
+    }
     let diffusivity = material.conductivity() / (material.density() * material.specific_heat());
     let first = (fraction * (diffusivity * duration).sqrt()).clamp(SLICE_BOUNDS.0, SLICE_BOUNDS.1);
     let node = |width: f64| {
