@@ -215,13 +215,14 @@ proptest! {
         prop_assert!(run.energy_residual < 1e-6, "{}", run.energy_residual);
         // The gas heats between ambient and the adiabatic bound (γ·T0 from vacuum); every
         // wall temperature lies between ambient and the gas's peak, to the integration's
-        // tolerance (1e-7 relative per step: about 3e-5 K).
+        // tolerance (1e-7 relative per step, about 3e-5 K, accumulated over the steps of the
+        // run: the worst found over 3000 cases and the saved ones was below 3e-4 K).
         let (peak, t_amb) = (run.peak_gas().get::<kelvin>(), 293.15);
         prop_assert!(peak > t_amb && peak < model.gamma() * t_amb);
         for s in &run.samples {
             for t in [Some(s.wall_temperature), s.wrap_temperature].into_iter().flatten() {
                 let t = t.get::<kelvin>();
-                prop_assert!(t >= t_amb - 1e-4 && t <= peak + 1e-4, "{t} outside {t_amb}..{peak}");
+                prop_assert!(t >= t_amb - 1e-3 && t <= peak + 1e-3, "{t} outside {t_amb}..{peak}");
             }
         }
     }

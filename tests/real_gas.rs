@@ -386,3 +386,22 @@ mod rules {
         }
     }
 }
+
+#[test]
+fn dense_states_just_above_the_critical_temperature_are_found() {
+    // On the flat isotherms just above Tc, Newton's first step from the ideal-gas density
+    // used to land far beyond any physical density, where the equation overflows.
+    // source: CoolProp 8.0.0, PropsSI('D', 'P', p, 'T', T, 'Oxygen'), run here.
+    let o2 = equation("oxygen").unwrap();
+    for (p, t, rho) in [
+        (196.650_85e5, 158.932_28, 842.970_668_452_918_5),
+        (200e5, 156.0, 862.723_156_946_483_5),
+        (150e5, 156.0, 822.153_718_778_717_6),
+        (190e5, 156.0, 855.588_652_656_525_2),
+    ] {
+        let got = o2
+            .at_pt(p, t)
+            .unwrap_or_else(|e| panic!("{p} Pa, {t} K: {e:?}"));
+        assert_relative_eq!(got.rho, rho, max_relative = 1e-6);
+    }
+}

@@ -170,7 +170,13 @@ impl Equation {
         for _ in 0..100 {
             let (pr, dp) = self.pressure(rho, t);
             if !pr.is_finite() {
-                return Err(FlashError::NoConvergence);
+                // Far past any physical density the equation overflows: the root is below.
+                if rho <= lo {
+                    return Err(FlashError::NoConvergence);
+                }
+                hi = rho;
+                rho = 0.5 * (lo + hi);
+                continue;
             }
             if pr < p {
                 lo = rho;
@@ -181,8 +187,14 @@ impl Equation {
             if dp > 0.0 && (newton - rho).abs() <= RTOL * rho {
                 return Ok(newton);
             }
+            // With no upper bracket yet, Newton may at most double the density: a step from
+            // a gas-like start on a flat near-critical isotherm can land far beyond it.
             let next = if dp > 0.0 && newton > lo && newton < hi {
-                newton
+                if hi.is_finite() {
+                    newton
+                } else {
+                    newton.min(2.0 * rho)
+                }
             } else if hi.is_finite() {
                 0.5 * (lo + hi)
             } else {
