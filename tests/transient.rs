@@ -38,6 +38,19 @@ const FILL: [&str; 12] = [
     "--wall-mass=60 kg",
 ];
 
+/// A 1 m³ receiver of air at 10 barg vented through 10 mm.
+const RECEIVER_VENT: [&str; 9] = [
+    "vent",
+    "--gas",
+    "air",
+    "--volume",
+    "1 m3",
+    "--pressure",
+    "10 barg",
+    "--orifice",
+    "10 mm",
+];
+
 fn fill(extra: &[&str]) -> Value {
     let args: Vec<&str> = FILL.iter().copied().chain(extra.iter().copied()).collect();
     run(&args)
@@ -230,19 +243,8 @@ fn wall_options_without_a_wall_run_are_refused() {
         .stderr(predicates::str::contains("--rate"));
     Command::cargo_bin("pvhazard")
         .unwrap()
-        .args([
-            "vent",
-            "--gas",
-            "air",
-            "--volume",
-            "1 m3",
-            "--pressure",
-            "10 barg",
-            "--orifice",
-            "10 mm",
-            "--wall-mass",
-            "100 kg",
-        ])
+        .args(RECEIVER_VENT)
+        .args(["--wall-mass", "100 kg"])
         .assert()
         .code(2)
         .stderr(predicates::str::contains("--heat-transfer"));
@@ -266,20 +268,12 @@ fn the_inlet_jet_never_promises_a_faster_safe_fill_and_the_inputs_are_echoed() {
         max(&jet),
         max(&plain)
     );
-    let v = run(&[
-        "vent",
-        "--gas",
-        "air",
-        "--volume",
-        "1 m3",
-        "--pressure",
-        "10 barg",
-        "--orifice",
-        "10 mm",
-        "--depressuring-check",
-        "--design-pressure",
-        "12 barg",
-    ]);
+    let args: Vec<&str> = RECEIVER_VENT
+        .iter()
+        .copied()
+        .chain(["--depressuring-check", "--design-pressure", "12 barg"])
+        .collect();
+    let v = run(&args);
     assert_eq!(num(&v, "inputs.design_pressure_pa"), 13.01325e5);
 }
 
