@@ -90,7 +90,7 @@ fn runs(c: &mut Criterion, air: &dyn GasModel) {
                     area,
                     p(101_325.0),
                     p(1.01 * 101_325.0),
-                    (None, None),
+                    None,
                     &receiver,
                 )
                 .unwrap()

@@ -102,21 +102,12 @@ impl Caution {
 
     /// The message in `display`'s units.
     pub fn render(&self, display: &Display) -> String {
-        self.parts
-            .iter()
-            .map(|p| match p {
-                Part::Text(t) => t.clone(),
-                Part::Quantity(v) => display.short(v),
-            })
-            .collect()
+        render_parts(&self.parts, display)
     }
 
     /// The message in SI units, as JSON carries it.
     pub fn message(&self) -> String {
-        self.render(&Display {
-            system: UnitSystem::Si,
-            ambient: Pressure::new::<pascal>(crate::atmosphere::SEA_LEVEL_PRESSURE_PA),
-        })
+        self.render(&si_display())
     }
 }
 
@@ -138,13 +129,90 @@ pub fn deferral() -> Caution {
     )
 }
 
-/// A rule's result together with the cautions it raises.
+/// A note on how a result was reached: the method, model, constant or assumption behind
+/// it. Notes are the basis of a result, printed after it; they are never banners.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Note {
+    /// What the note is about, a short fixed name ("gas model", "heat transfer").
+    pub topic: &'static str,
+    /// The note, in parts.
+    pub parts: Vec<Part>,
+}
+
+/// Builds a basis note from a topic and any mix of text and [`Value`]s.
+#[macro_export]
+macro_rules! note {
+    ($topic:expr, $($part:expr),+ $(,)?) => {
+        $crate::caution::Note { topic: $topic, parts: vec![$($crate::caution::Part::from($part)),+] }
+    };
+}
+
+impl Note {
+    /// A note of plain text.
+    pub fn new(topic: &'static str, message: impl Into<String>) -> Note {
+        Note {
+            topic,
+            parts: vec![Part::Text(message.into())],
+        }
+    }
+
+    /// The note in `display`'s units.
+    pub fn render(&self, display: &Display) -> String {
+        render_parts(&self.parts, display)
+    }
+
+    /// The note in SI units, as JSON carries it.
+    pub fn message(&self) -> String {
+        self.render(&si_display())
+    }
+}
+
+impl Serialize for Note {
+    fn serialize<S: serde::Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
+        use serde::ser::SerializeStruct;
+        let mut st = s.serialize_struct("Note", 2)?;
+        st.serialize_field("topic", self.topic)?;
+        st.serialize_field("message", &self.message())?;
+        st.end()
+    }
+}
+
+/// Notes without repeats, in the order first given.
+pub fn distinct(mut notes: Vec<Note>) -> Vec<Note> {
+    let mut seen = std::collections::HashSet::new();
+    notes.retain(|n| seen.insert(n.message()));
+    notes
+}
+
+/// Parts rendered in `display`'s units.
+pub fn render_parts(parts: &[Part], display: &Display) -> String {
+    parts
+        .iter()
+        .map(|p| match p {
+            Part::Text(t) => t.clone(),
+            Part::Quantity(v) => display.short(v),
+        })
+        .collect()
+}
+
+/// The SI display JSON uses.
+pub fn si_display() -> Display {
+    Display {
+        system: UnitSystem::Si,
+        ambient: Pressure::new::<pascal>(crate::atmosphere::SEA_LEVEL_PRESSURE_PA),
+    }
+}
+
+/// A rule's result together with the cautions it raises and the basis of its method.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Assessed<T> {
     /// The computed result.
     pub value: T,
-    /// The cautions the computation raised, in the order raised.
+    /// The cautions the computation raised, in the order raised: limits of a model or a
+    /// result not resolved, never a hazard a finding assesses.
     pub cautions: Vec<Caution>,
+    /// How the result was reached.
+    pub basis: Vec<Note>,
 }
 
 /// Cautions ordered for printing: highest level first, the deferral last, no duplicates.

@@ -6,6 +6,7 @@
 //! [`caution::Caution`]s, [`report`] gathers them into a worksheet model, and its renderers
 //! print text or JSON. No rule formats output; no renderer computes physics.
 
+pub mod assess;
 pub mod atmosphere;
 pub mod caution;
 pub mod cli;

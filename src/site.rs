@@ -39,6 +39,9 @@ pub struct Site {
     pub time_zone: FixedOffset,
     /// The distance the site can keep clear around equipment under pressure.
     pub clearance: Option<Length>,
+    /// Which result governs the findings the wall model and a bound both assess, if the
+    /// site says.
+    pub governing: Option<crate::assess::Governing>,
     /// The equipment, in file order.
     pub equipment: Vec<Equipment>,
     /// Where the site's own values stood.
@@ -307,6 +310,7 @@ struct RawSite {
     units: Option<Spanned<String>>,
     time_zone: Option<Spanned<String>>,
     clearance: Option<Spanned<String>>,
+    governing: Option<Spanned<String>>,
 }
 
 #[derive(Deserialize)]
@@ -433,6 +437,18 @@ pub fn load(path: &Path) -> Result<Site, FileError> {
         .as_ref()
         .map(|v| located(&src, "site.clearance", v, positive(units::parse_length)))
         .transpose()?;
+    let governing = s
+        .governing
+        .as_ref()
+        .map(|g| {
+            located(&src, "site.governing", g, |v| {
+                serde::Deserialize::deserialize(serde::de::value::StrDeserializer::<
+                    serde::de::value::Error,
+                >::new(v.trim()))
+                .map_err(|_| "unknown value; accepted: model, bound".to_string())
+            })
+        })
+        .transpose()?;
 
     let ctx = Context {
         src: &src,
@@ -493,6 +509,7 @@ pub fn load(path: &Path) -> Result<Site, FileError> {
         units,
         time_zone,
         clearance,
+        governing,
         equipment,
     })
 }

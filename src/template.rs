@@ -7,6 +7,8 @@ use std::path::Path;
 use serde::Deserialize;
 use uom::si::f64::{Energy, Pressure};
 
+use crate::assess::Governing;
+use crate::rules::energy::DEFAULT_OVERPRESSURES_PA;
 use crate::rules::vent::Process;
 use crate::site::EquipmentKind;
 use crate::source::{located, FileError, Source, Spanned};
@@ -46,6 +48,11 @@ pub struct Template {
     pub energy_limit: Option<Energy>,
     /// The vent-down's process.
     pub vent_process: Process,
+    /// Which result governs the findings the wall model and a bound both assess; `None`
+    /// leaves it to the site (the model by default).
+    pub governing: Option<Governing>,
+    /// The incident overpressure whose standoff keeps people back in in-service work.
+    pub keep_back_overpressure: Pressure,
     /// Checklist items.
     pub checklist: Vec<String>,
     /// Sign-off roles.
@@ -114,6 +121,8 @@ struct RawTemplate {
     overpressures: Vec<Spanned<String>>,
     energy_limit: Option<Spanned<String>>,
     vent_process: Option<Spanned<String>>,
+    governing: Option<Spanned<String>>,
+    keep_back_overpressure: Option<Spanned<String>>,
     #[serde(default)]
     checklist: Vec<String>,
     signoff: Vec<String>,
@@ -227,6 +236,20 @@ pub fn parse(src: &Source) -> Result<Template, FileError> {
         .map(|p| keyword(src, "template.vent_process", p, "isentropic, isothermal"))
         .transpose()?
         .unwrap_or(Process::Isentropic);
+    let governing = t
+        .governing
+        .as_ref()
+        .map(|g| keyword(src, "template.governing", g, "model, bound"))
+        .transpose()?;
+    let keep_back_overpressure = match &t.keep_back_overpressure {
+        Some(o) => located(
+            src,
+            "template.keep_back_overpressure",
+            o,
+            units::parse_overpressure,
+        )?,
+        None => Pressure::new::<uom::si::pressure::pascal>(DEFAULT_OVERPRESSURES_PA[0]),
+    };
     if t.signoff.is_empty() {
         return Err(src.error(
             0,
@@ -244,6 +267,8 @@ pub fn parse(src: &Source) -> Result<Template, FileError> {
         overpressures,
         energy_limit,
         vent_process,
+        governing,
+        keep_back_overpressure,
         checklist: t.checklist,
         signoff: t.signoff,
         text: src.text.clone(),

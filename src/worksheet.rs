@@ -9,21 +9,22 @@ use uom::si::{
     thermodynamic_temperature::kelvin, time::second,
 };
 
-use crate::caution::{deferral, ordered, Caution, Level};
+use crate::assess::{
+    self, EnergyAsk, Finding, Governing, Hazard, PlannedFill, Verdict, WallVent, Work,
+};
+use crate::caution::{deferral, distinct, ordered, Caution, Level, Note, Part};
 use crate::gas::GasModel;
 use crate::report::{
-    Axis, AxisKind, Document, EnergyReport, Entry, FillReport, Plot, Section, Series, Value,
-    VentReport, TOOL_VERSION,
+    Axis, AxisKind, Document, Entry, Plot, Section, Series, Value, TOOL_VERSION,
 };
-use crate::report::{FillTransientReport, VentTransientReport};
 use crate::rules::energy::{
     self, EnergyInput, DEFAULT_OVERPRESSURES_PA, DEFAULT_TNT_ENERGY_J_PER_KG,
 };
-use crate::rules::fill::{self, FillInput};
+use crate::rules::fill::FillInput;
 use crate::rules::transient::{
     self, CylinderMass, Depressuring, Exchange, FillRate, HeatTransfer, Wall,
 };
-use crate::rules::vent::{self, VentInput, DEFAULT_TARGET_MARGIN};
+use crate::rules::vent::{VentInput, DEFAULT_TARGET_MARGIN};
 use crate::site::{Cylinder, Equipment, EquipmentKind, Material, Site, Vessel};
 
 /// The depressuring check's cap on the gauge pressure to reach, Pa (690 kPa(g)).
@@ -52,6 +53,8 @@ pub struct Worksheet {
     pub document: Document,
     /// What the JSON sidecar holds.
     pub record: Record,
+    /// The decision and its findings.
+    pub verdict: Verdict,
     /// The highest caution level raised.
     pub highest: Level,
     /// The isentropic stored energy at the basis pressure (at service pressure for a
@@ -76,10 +79,14 @@ pub struct Record {
     pub fingerprint: String,
     /// The canonical inputs: everything the results depend on.
     pub inputs: serde_json::Value,
+    /// The decision and the findings behind it, over every calculation on the worksheet.
+    pub verdict: Verdict,
     /// Each calculation's full JSON report.
     pub results: serde_json::Map<String, serde_json::Value>,
-    /// Every caution on the worksheet.
+    /// Every banner on the worksheet, highest first, the deferral last.
     pub cautions: Vec<Caution>,
+    /// How the results were reached.
+    pub basis: Vec<Note>,
 }
 
 /// The canonical inputs of a worksheet, fingerprinted.
@@ -100,6 +107,7 @@ struct SiteInputs<'a> {
     winter_minimum_k: Option<ThermodynamicTemperature>,
     clearance_m: Option<uom::si::f64::Length>,
     units: crate::units::UnitSystem,
+    governing: Option<Governing>,
 }
 
 impl Serialize for Equipment {
@@ -205,6 +213,7 @@ pub fn build(
             winter_minimum_k: site.winter_minimum,
             clearance_m: site.clearance,
             units: site.units,
+            governing: site.governing,
         },
         equipment: item,
         template: &template.text,
@@ -231,10 +240,12 @@ pub fn build(
                 Failure::File(e) => e,
             })?
         }
-        Equipment::Cylinder(c) => cylinder_parts(model, site, c, &mut sheet)
+        Equipment::Cylinder(c) => cylinder_parts(model, site, c, template, &mut sheet)
             .map_err(|e| item_error(site, item, basis, e))?,
     }
-    let cautions = ordered(sheet.cautions);
+    let verdict = sheet.verdict;
+    let cautions = ordered(verdict.banners().into_iter().chain(sheet.cautions).collect());
+    let basis = distinct(sheet.basis);
     let highest = cautions
         .iter()
         .map(|c| c.level)
@@ -272,7 +283,9 @@ pub fn build(
         template: template.name.clone(),
         purpose: template.purpose.clone(),
         header,
+        verdict: verdict.clone(),
         cautions: cautions.clone(),
+        basis: basis.clone(),
         inputs: sheet.inputs,
         sections: sheet.sections,
         plots: sheet.plots,
@@ -293,12 +306,15 @@ pub fn build(
         template: template.name.clone(),
         fingerprint,
         inputs: inputs_json,
+        verdict: verdict.clone(),
         results: sheet.results,
         cautions,
+        basis,
     };
     Ok(Worksheet {
         document,
         record,
+        verdict,
         highest,
         stored_energy: sheet.stored_energy,
     })
@@ -310,7 +326,10 @@ struct Parts {
     inputs: Vec<Entry>,
     sections: Vec<Section>,
     plots: Vec<Plot>,
+    verdict: Verdict,
+    /// Cautions that are not a finding's banner: a model's limits, a result not resolved.
     cautions: Vec<Caution>,
+    basis: Vec<Note>,
     results: serde_json::Map<String, serde_json::Value>,
     stored_energy: Energy,
 }
@@ -323,6 +342,20 @@ impl Parts {
                 entries,
             });
         }
+    }
+
+    /// Takes an assessment's verdict, basis and the cautions that are not its banners.
+    fn assessed(&mut self, verdict: &Verdict, cautions: &[Caution], basis: &[Note]) {
+        let banners = verdict.banners();
+        let last = deferral();
+        self.cautions.extend(
+            cautions
+                .iter()
+                .filter(|c| **c != last && !banners.contains(c))
+                .cloned(),
+        );
+        self.verdict = std::mem::take(&mut self.verdict).merged(verdict.clone());
+        self.basis.extend(basis.iter().cloned());
     }
 
     fn result<T: Serialize>(&mut self, key: &str, report: &T) {
@@ -446,14 +479,17 @@ fn vessel_parts(
         mawp: (t.pressure != PressureBasis::Test).then_some(v.mawp),
         clearance: site.clearance,
     };
-    let assessed = energy::stored_energy(model, &energy_input)?;
-    out.cautions.extend(assessed.cautions.iter().cloned());
-    let mut report = EnergyReport::new(model, &energy_input, assessed);
-    if let Some(ideal) = crate::gas::ideal_twin(model) {
-        if let Ok(out) = energy::stored_energy(&ideal, &energy_input) {
-            report.compare_with(&EnergyReport::new(&ideal, &energy_input, out));
-        }
-    }
+    let ask = EnergyAsk {
+        work: match t.pressure {
+            PressureBasis::Test => Work::PressureTest,
+            _ => Work::InService {
+                overpressure: t.keep_back_overpressure,
+            },
+        },
+        before_opening: t.calculations.contains(&Calculation::VentTarget),
+    };
+    let report = assess::energy(model, &energy_input, &ask)?;
+    out.assessed(&report.verdict, &report.cautions, &report.basis);
     out.stored_energy = report.energy_j.isentropic;
     out.result("energy", &report);
     for calc in &t.calculations {
@@ -489,13 +525,20 @@ fn vessel_parts(
             Calculation::VentDown => {
                 match &v.drain {
                     Some(drain) => vent_down(model, site, v, t, pressure, drain, out)?,
-                    None => out.cautions.push(Caution::new(
-                        Level::Warning,
-                        format!(
-                            "No drain path is on file for {}: the vent-down time and the cold gas and metal it brings are not computed. Add the drain (orifice and Cd) to the site file, or work them out before venting.",
-                            v.tag
-                        ),
-                    )),
+                    None => out.assessed(
+                        &Verdict::new(vec![Finding::action(
+                            Hazard::VentTime,
+                            Level::Warning,
+                            "site file",
+                            vec![Part::from(format!(
+                                "No drain path is on file for {}: the vent-down time and the cold gas and metal it brings are not computed.",
+                                v.tag
+                            ))],
+                            vec![Part::from("Add the drain (orifice and Cd) to the site file, or work them out before venting.")],
+                        )]),
+                        &[],
+                        &[],
+                    ),
                 }
             }
             Calculation::Fill => {}
@@ -544,22 +587,6 @@ fn vent_down(
         min_metal_temperature: v.mdmt,
         within: None,
     };
-    let assessed = vent::blow_down(model, &input)?;
-    out.cautions.extend(assessed.cautions.iter().cloned());
-    let mut report = VentReport::new(model, &input, assessed);
-    if let Some(ideal) = crate::gas::ideal_twin(model) {
-        if let Ok(o) = vent::blow_down(&ideal, &input) {
-            report.compare_with(&VentReport::new(&ideal, &input, o));
-        }
-    }
-    out.section(
-        format!("Vent-down through the {}", drain.description),
-        report.result_entries(),
-    );
-    out.section(
-        "Vent-down on the ideal gas, for comparison",
-        report.comparison_entries(),
-    );
     // The same vent with heat from the wall: what the gas and the metal actually reach,
     // and the depressuring check against the MAWP.
     let material = v.material.unwrap_or(Material::CarbonSteel);
@@ -582,19 +609,35 @@ fn vent_down(
             + Pressure::new::<pascal>((0.5 * design_gauge).min(DEPRESSURING_CAP_PA)),
         limit: Time::new::<second>(DEPRESSURING_LIMIT_S),
     };
-    let warm = transient::vent_from(model, &input, Some(check), &exchange)?;
-    out.cautions.extend(warm.cautions.iter().cloned());
-    let (warm_report, depressuring) = VentTransientReport::new(&warm.value, Some(check), &exchange);
+    let wall_vent = WallVent {
+        check: Some(check),
+        exchange,
+    };
+    let report = assess::vent(model, &input, Some(&wall_vent), governing(site, t))?;
+    out.assessed(&report.verdict, &report.cautions, &report.basis);
+    if let Some(warm) = &report.transient {
+        out.section(
+            "Vent-down with heat from the wall",
+            warm.result_entries(report.depressuring.as_ref()),
+        );
+    }
     out.section(
-        "Vent-down with heat from the wall",
-        warm_report.result_entries(depressuring.as_ref()),
+        format!(
+            "Vent-down through the {}, no heat from the wall (the cold bound)",
+            drain.description
+        ),
+        report.result_entries(),
+    );
+    out.section(
+        "Vent-down on the ideal gas, for comparison",
+        report.comparison_entries(),
     );
     let series = |label: &str, right_axis: bool, points: Vec<(f64, f64)>| Series {
         label: label.to_string(),
         right_axis,
         points,
     };
-    let temperature = series(
+    let mut plotted = vec![series(
         "Gas, isentropic bound",
         false,
         report
@@ -602,37 +645,31 @@ fn vent_down(
             .iter()
             .map(|s| (s.time.get::<second>(), s.temperature.get::<kelvin>()))
             .collect(),
-    );
-    let warm_gas = series(
-        "Gas, with wall heat",
-        false,
-        warm_report
-            .samples
-            .iter()
-            .map(|s| (s.time.get::<second>(), s.gas_temperature.get::<kelvin>()))
-            .collect(),
-    );
-    let warm_wall = series(
-        "Wall",
-        false,
-        warm_report
-            .samples
-            .iter()
-            .map(|s| (s.time.get::<second>(), s.wall_temperature.get::<kelvin>()))
-            .collect(),
-    );
-    let pressure_series = series(
-        "Pressure, with wall heat",
-        true,
-        warm_report
-            .samples
-            .iter()
-            .map(|s| (s.time.get::<second>(), s.pressure.get::<pascal>()))
-            .collect(),
-    );
-    report.transient = Some(warm_report);
-    report.depressuring = depressuring;
-    if temperature.points.len() > 1 {
+    )];
+    if let Some(warm) = &report.transient {
+        let curve = |f: fn(&transient::Sample) -> f64| {
+            warm.samples
+                .iter()
+                .map(|s| (s.time.get::<second>(), f(s)))
+                .collect()
+        };
+        plotted.push(series(
+            "Gas, with wall heat",
+            false,
+            curve(|s| s.gas_temperature.get::<kelvin>()),
+        ));
+        plotted.push(series(
+            "Wall",
+            false,
+            curve(|s| s.wall_temperature.get::<kelvin>()),
+        ));
+        plotted.push(series(
+            "Pressure, with wall heat",
+            true,
+            curve(|s| s.pressure.get::<pascal>()),
+        ));
+    }
+    if plotted[0].points.len() > 1 {
         out.plots.push(Plot {
             title: format!("Vent-down through the {}", drain.description),
             x: Axis {
@@ -640,14 +677,14 @@ fn vent_down(
                 kind: AxisKind::Time,
             },
             left: Axis {
-                label: "Gas temperature".to_string(),
+                label: "Gas and wall temperature".to_string(),
                 kind: AxisKind::Temperature,
             },
             right: Some(Axis {
                 label: "Pressure".to_string(),
                 kind: AxisKind::Pressure,
             }),
-            series: vec![temperature, warm_gas, warm_wall, pressure_series],
+            series: plotted,
             limits: v
                 .mdmt
                 .map(|m| (m.get::<kelvin>(), "MDMT".to_string()))
@@ -663,6 +700,7 @@ fn cylinder_parts(
     model: &dyn GasModel,
     site: &Site,
     c: &Cylinder,
+    template: &Template,
     out: &mut Parts,
 ) -> Result<(), InputError> {
     out.inputs = vec![
@@ -699,38 +737,39 @@ fn cylinder_parts(
         ambient_temperature: site.ambient_temperature,
         rated_temperature: Some(c.rated_temperature),
     };
-    let assessed = fill::adiabatic_fill(model, &input)?;
-    out.cautions.extend(assessed.cautions.iter().cloned());
-    let mut report = FillReport::new(model, &input, site.ambient, assessed);
-    if let Some(ideal) = crate::gas::ideal_twin(model) {
-        if let Ok(o) = fill::adiabatic_fill(&ideal, &input) {
-            report.compare_with(&FillReport::new(&ideal, &input, site.ambient, o));
-        }
-    }
-    let mut entries = report.result_entries();
-    let go = report.final_temperature_k <= c.rated_temperature;
-    entries.insert(
-        0,
-        Entry {
-            label: "Go / no-go against the rated temperature".to_string(),
-            value: Value::Text(if go {
-                "GO: the adiabatic bound stays within the rating".to_string()
-            } else {
-                "NO-GO on the adiabatic bound: fill slower, in stages or cooled, and confirm by measurement".to_string()
-            }),
-            method: Some("adiabatic fill temperature against the rated temperature"),
+    let planned = c.fill_rate.map(|rate| PlannedFill {
+        rate: FillRate::Ramp(rate),
+        inlet: None,
+        exchange: Exchange {
+            mode: HeatTransfer::Lumped,
+            wall: Wall::cylinder(
+                (c.construction, c.liner),
+                c.water_capacity,
+                c.service_pressure - site.ambient,
+                c.empty_mass
+                    .map_or(CylinderMass::Layers(None, None), CylinderMass::Empty),
+            ),
+            inner_coefficient: None,
+            ambient_temperature: site.ambient_temperature,
+            aspect: crate::heat::CYLINDER_ASPECT,
         },
-    );
-    if let Some(rate) = c.fill_rate {
-        let seconds = ((c.service_pressure - c.residual_pressure) / rate.per_second)
-            .get::<uom::si::ratio::ratio>();
-        entries.push(Entry {
-            label: "Fill time at the planned rate".to_string(),
-            value: Value::Time(Time::new::<second>(seconds)),
-            method: Some("pressure rise / planned rate"),
-        });
+    });
+    let report = assess::fill(
+        model,
+        &input,
+        site.ambient,
+        planned.as_ref(),
+        governing(site, template),
+    )?;
+    out.assessed(&report.verdict, &report.cautions, &report.basis);
+    // The governing result first: the planned rate with heat to the wall where it ran.
+    if let Some(t) = &report.transient {
+        out.section(
+            "Fill at the planned rate, with heat to the wall",
+            t.result_entries(),
+        );
     }
-    out.section("Fast fill (adiabatic bound)", entries);
+    out.section("Fast fill, no heat to the wall (the adiabatic bound)", report.result_entries());
     out.section(
         "Fast fill on the ideal gas, for comparison",
         report.comparison_entries(),
@@ -744,33 +783,7 @@ fn cylinder_parts(
             .map(|s| (s.pressure.get::<pascal>(), s.temperature.get::<kelvin>()))
             .collect(),
     }];
-    if let Some(rate) = c.fill_rate {
-        let wall = Wall::cylinder(
-            (c.construction, c.liner),
-            c.water_capacity,
-            c.service_pressure - site.ambient,
-            c.empty_mass
-                .map_or(CylinderMass::Layers(None, None), CylinderMass::Empty),
-        );
-        let exchange = Exchange {
-            mode: HeatTransfer::Lumped,
-            wall,
-            inner_coefficient: None,
-            ambient_temperature: site.ambient_temperature,
-            aspect: crate::heat::CYLINDER_ASPECT,
-        };
-        let warm = transient::fill_from(model, &input, FillRate::Ramp(rate), None, &exchange)?;
-        out.cautions.extend(warm.cautions.iter().cloned());
-        let t = FillTransientReport::new(
-            &warm.value,
-            FillRate::Ramp(rate),
-            Some(c.rated_temperature),
-            &exchange,
-        );
-        out.section(
-            "Fill at the planned rate, with heat to the wall",
-            t.result_entries(),
-        );
+    if let Some(t) = &report.transient {
         let curves = [
             (
                 "Gas, with wall heat",
@@ -780,7 +793,7 @@ fn cylinder_parts(
                     .collect::<Vec<_>>(),
             ),
             (
-                "Wall",
+                "Wall (liner)",
                 t.samples.iter().map(|s| Some(s.wall_temperature)).collect(),
             ),
             (
@@ -803,16 +816,15 @@ fn cylinder_parts(
                 });
             }
         }
-        report.transient = Some(t);
     }
     out.plots.push(Plot {
-        title: "Gas temperature during the fill".to_string(),
+        title: "Gas and wall temperature during the fill".to_string(),
         x: Axis {
             label: "Pressure".to_string(),
             kind: AxisKind::Pressure,
         },
         left: Axis {
-            label: "Gas temperature".to_string(),
+            label: "Gas and wall temperature".to_string(),
             kind: AxisKind::Temperature,
         },
         right: None,
@@ -837,6 +849,11 @@ fn cylinder_parts(
     out.stored_energy = energy::stored_energy(model, &full)?.value.energy.isentropic;
     out.result("fill", &report);
     Ok(())
+}
+
+/// Which result governs: the bound if the site or the template asks for it.
+fn governing(site: &Site, template: &Template) -> Governing {
+    Governing::either(site.governing, template.governing)
 }
 
 fn hex(bytes: &[u8]) -> String {

@@ -151,22 +151,22 @@ fn is_deferral(message: &str) -> bool {
     message.contains("inspector") && message.contains("local codes")
 }
 
-/// The cautions of a text report as (signal word, message with its line breaks undone).
+/// The banners of a text report as (signal word, message with its line breaks undone):
+/// every block that starts with a signal word at the margin.
 fn text_cautions(report: &str) -> Vec<(String, String)> {
     let mut out: Vec<(String, String)> = Vec::new();
+    let mut open = false;
     for line in report.lines().skip(1) {
-        if line.trim().is_empty() {
-            continue;
-        }
         let first = line.split_whitespace().next().unwrap_or("");
         if SIGNAL_WORDS.contains(&first) && !line.starts_with(' ') {
             out.push((first.to_string(), line[first.len()..].trim().to_string()));
-        } else if line.starts_with(' ') && !out.is_empty() {
+            open = true;
+        } else if open && line.starts_with("         ") {
             let last = out.last_mut().expect("a caution precedes its continuation");
             last.1.push(' ');
             last.1.push_str(line.trim());
         } else {
-            break;
+            open = false;
         }
     }
     out
@@ -896,7 +896,7 @@ fn an_elevation_of_1500_m_lowers_the_ambient_pressure_to_the_standard_atmosphere
 // ---------------------------------------------------------------------------------------
 
 #[test]
-fn text_reports_print_the_cautions_before_the_results() {
+fn text_reports_lead_with_the_decision_then_findings_banners_results_and_basis() {
     for args in [
         ENERGY.to_vec(),
         FILL.to_vec(),
@@ -910,21 +910,34 @@ fn text_reports_print_the_cautions_before_the_results() {
             .find(|l| !l.trim().is_empty())
             .expect("a line after the title");
         assert!(
-            SIGNAL_WORDS.iter().any(|w| first.starts_with(w)),
-            "the first line after the title is not a caution: {first}"
+            first.starts_with("Decision: "),
+            "the first line after the title is not the decision: {first}"
         );
-        let last_caution = lines
-            .iter()
-            .rposition(|l| SIGNAL_WORDS.iter().any(|w| l.starts_with(w)))
-            .expect("a caution");
-        let results = lines
-            .iter()
-            .position(|l| l.contains("Results"))
-            .expect("a Results heading");
-        assert!(
-            results > last_caution,
-            "Results comes before a caution:\n{report}"
+        let at = |heading: &str| {
+            lines
+                .iter()
+                .position(|l| *l == heading)
+                .unwrap_or_else(|| panic!("no {heading} in\n{report}"))
+        };
+        let (findings, inputs, results, basis) = (
+            at("Findings"),
+            at("Inputs"),
+            at("Results"),
+            at("Basis and assumptions"),
         );
+        assert!(findings < inputs && inputs < results && results < basis);
+        // Banners sit between the findings and the inputs; only the deferral follows the
+        // basis, at the very end.
+        for (i, l) in lines.iter().enumerate() {
+            if SIGNAL_WORDS.iter().any(|w| l.starts_with(w)) {
+                assert!(
+                    (findings < i && i < inputs) || (i > basis && l.starts_with("NOTICE")),
+                    "a banner out of place at line {i}:\n{report}"
+                );
+            }
+        }
+        let (word, last) = text_cautions(&report).pop().expect("a banner");
+        assert!(word == "NOTICE" && is_deferral(&last), "{report}");
     }
 }
 
@@ -939,11 +952,13 @@ fn a_vessel_at_ambient_stores_zero_energy_with_a_notice() {
     ] {
         assert_eq!(num(&v, pointer), 0.0, "{pointer}");
     }
-    let cautions = v["cautions"].as_array().expect("cautions");
-    assert!(cautions.iter().any(|c| c["level"] == "NOTICE"
-        && c["message"]
+    let findings = v["verdict"]["findings"].as_array().expect("findings");
+    assert!(findings.iter().any(|f| f["hazard"] == "stored-energy"
+        && f["status"] == "ok"
+        && f["result"]
             .as_str()
             .is_some_and(|m| m.contains("no expansion energy"))));
+    assert_eq!(v["verdict"]["decision"], "go", "{v:#}");
     assert_cautions(&v);
 }
 

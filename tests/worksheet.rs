@@ -1254,22 +1254,28 @@ fn check_json(site: &Path, expected_code: i32) -> Value {
 /// returns their tags in order.
 fn assert_ranked(summary: &Value) -> Vec<String> {
     let items = summary["items"].as_array().expect("items is a list");
-    let mut last: Option<(usize, f64)> = None;
+    let mut last: Option<(usize, usize, f64)> = None;
     let mut tags = Vec::new();
     for i in items {
         let tag = i["tag"].as_str().expect("a tag");
+        let decision = ["go", "go-with-actions", "no-go"]
+            .iter()
+            .position(|d| i["verdict"]["decision"] == *d)
+            .expect("a decision");
         let level = level_rank(i["highest_level"].as_str().expect("a highest_level"));
         let energy = i["stored_energy_j"]
             .as_f64()
             .expect("stored_energy_j is a number");
         assert!(energy > 0.0, "{tag}: {energy}");
-        if let Some((l, e)) = last {
+        if let Some((d, l, e)) = last {
             assert!(
-                level < l || (level == l && energy <= e),
+                decision < d
+                    || (decision == d && level < l)
+                    || (decision == d && level == l && energy <= e),
                 "{tag} is out of order: {items:?}"
             );
         }
-        last = Some((level, energy));
+        last = Some((decision, level, energy));
         tags.push(tag.to_string());
     }
     tags
@@ -1344,9 +1350,17 @@ fn check_json_sorts_danger_first_and_sets_danger_true_for_kestrel() {
     assert!(
         dangers
             .iter()
-            .any(|m| m.contains("exclusion distance") && m.contains("clear")),
+            .any(|m| m.contains("keep people back") && m.contains("clear")),
         "{dangers:?}"
     );
+    assert_eq!(bank["verdict"]["decision"], "no-go");
+    let zone = bank["verdict"]["findings"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .find(|f| f["hazard"] == "blast-zone")
+        .expect("a blast-zone finding");
+    assert_eq!(zone["status"], "stop");
     for i in summary["items"].as_array().unwrap().iter().skip(1) {
         assert_ne!(i["highest_level"], "DANGER", "only BANK-1 raises DANGER");
     }

@@ -9,14 +9,13 @@ use uom::si::pressure::pascal;
 
 use super::Failure;
 use crate::atmosphere;
-use crate::caution::ordered;
-use crate::gas::{ideal_twin, Gas, ModelKind};
+use crate::assess::{self, EnergyAsk, Governing, PlannedFill, WallVent, Work};
+use crate::gas::{Gas, ModelKind};
 use crate::heat;
 use crate::record;
-use crate::report::{render_text, to_json, EnergyReport, FillReport, VentReport, Worksheet};
-use crate::report::{FillTransientReport, VentTransientReport};
+use crate::report::{render_text, to_json, Worksheet};
 use crate::rules::energy::{self, EnergyInput};
-use crate::rules::fill::{self, FillInput};
+use crate::rules::fill::FillInput;
 use crate::rules::transient::{self, FillRate, HeatTransfer, Wall};
 use crate::rules::vent::{self, Process, VentInput};
 use crate::site::{Construction, Liner, Material};
@@ -74,6 +73,18 @@ pub(super) struct EnergyArgs {
     /// The distance the site can keep clear of people around the vessel.
     #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_length)]
     clearance: Option<Length>,
+    /// What the work is: in service (people kept back to the 6.9 kPa standoff) or a pneumatic pressure test (the test rule's exclusion distance).
+    #[arg(long, value_enum, default_value = "in-service")]
+    work: WorkKind,
+}
+
+/// What the work on the vessel is, for the distance to keep people back.
+#[derive(Debug, Clone, Copy, clap::ValueEnum)]
+pub(super) enum WorkKind {
+    /// Work on a vessel in service.
+    InService,
+    /// A pneumatic pressure test.
+    PressureTest,
 }
 
 #[derive(Debug, Args)]
@@ -311,13 +322,14 @@ pub(super) fn energy_command(a: EnergyArgs) -> Result<String, Failure> {
         mawp: a.mawp.map(|m| absolute("mawp", m, pa)).transpose()?,
         clearance: a.clearance,
     };
-    let out = energy::stored_energy(model.as_ref(), &input)?;
-    let mut report = EnergyReport::new(model.as_ref(), &input, out);
-    if let Some(ideal) = ideal_twin(model.as_ref()) {
-        if let Ok(out) = energy::stored_energy(&ideal, &input) {
-            report.compare_with(&EnergyReport::new(&ideal, &input, out));
-        }
-    }
+    let ask = EnergyAsk {
+        work: match a.work {
+            WorkKind::InService => Work::in_service(),
+            WorkKind::PressureTest => Work::PressureTest,
+        },
+        before_opening: matches!(a.work, WorkKind::InService),
+    };
+    let report = assess::energy(model.as_ref(), &input, &ask)?;
     render(&report, a.common.json, a.common.units)
 }
 
@@ -350,8 +362,30 @@ pub(super) fn fill_command(a: FillArgs) -> Result<String, Failure> {
         ambient_temperature: a.ambient_temperature,
         rated_temperature: a.rated_temperature,
     };
+    let rate = match (a.rate, a.duration) {
+        (Some(units::RateReading::Pressure(r)), _) => Some(FillRate::Ramp(r)),
+        (Some(units::RateReading::Mass(m)), _) => Some(FillRate::MassFlow(m)),
+        (None, Some(d)) => {
+            check_range("duration", d.get::<uom::si::time::second>(), "s", 1e-3, 1e7)?;
+            Some(FillRate::Ramp(units::PressureRate {
+                // The pressure gained in one second of a steady ramp over `d`.
+                per_second: (input.to - input.from) / d.get::<uom::si::time::second>(),
+            }))
+        }
+        (None, None) => None,
+    };
+    let planned = rate
+        .map(|rate| planned_fill(&a, &input, pa, rate))
+        .transpose()?;
     // An error on a temperature left to default is the ambient temperature's.
-    let out = fill::adiabatic_fill(model.as_ref(), &input).map_err(|e| {
+    let report = assess::fill(
+        model.as_ref(),
+        &input,
+        pa,
+        planned.as_ref(),
+        Governing::Model,
+    )
+    .map_err(|e| {
         let defaulted = match e.field.as_str() {
             "initial-temperature" => a.initial_temperature.is_none(),
             "supply-temperature" => a.supply_temperature.is_none(),
@@ -378,89 +412,75 @@ pub(super) fn fill_command(a: FillArgs) -> Result<String, Failure> {
             e
         }
     })?;
-    let mut report = FillReport::new(model.as_ref(), &input, pa, out);
-    report.inputs.inlet_diameter_m = a.inlet_diameter;
-    if let Some(ideal) = ideal_twin(model.as_ref()) {
-        if let Ok(out) = fill::adiabatic_fill(&ideal, &input) {
-            report.compare_with(&FillReport::new(&ideal, &input, pa, out));
-        }
-    }
-    let rate = match (a.rate, a.duration) {
-        (Some(units::RateReading::Pressure(r)), _) => Some(FillRate::Ramp(r)),
-        (Some(units::RateReading::Mass(m)), _) => Some(FillRate::MassFlow(m)),
-        (None, Some(d)) => {
-            check_range("duration", d.get::<uom::si::time::second>(), "s", 1e-3, 1e7)?;
-            Some(FillRate::Ramp(units::PressureRate {
-                // The pressure gained in one second of a steady ramp over `d`.
-                per_second: (input.to - input.from) / d.get::<uom::si::time::second>(),
-            }))
-        }
-        (None, None) => None,
-    };
-    if let Some(rate) = rate {
-        if a.construction != Construction::Composite {
-            if let Some(m) = a.wrap_mass {
-                return Err(InputError::new(
-                    "wrap-mass",
-                    format!("{} kg", m.get::<uom::si::mass::kilogram>()),
-                    "only a composite cylinder has a wrap; accepted: --wrap-mass with --construction composite",
-                )
-                .into());
-            }
-            if let Some(l) = a.liner {
-                return Err(InputError::new(
-                    "liner",
-                    format!("{l:?}").to_lowercase(),
-                    "only a composite cylinder has a liner; accepted: --liner with --construction composite",
-                )
-                .into());
-            }
-        }
-        for (field, m) in [("wrap-mass", a.wrap_mass), ("empty-mass", a.empty_mass)] {
-            if let Some(m) = m {
-                check_range(field, m.get::<uom::si::mass::kilogram>(), "kg", 0.0, 1e7)?;
-            }
-        }
-        let known = match a.empty_mass {
-            Some(m) => transient::CylinderMass::Empty(m),
-            None => transient::CylinderMass::Layers(a.wall.wall_mass, a.wrap_mass),
-        };
-        let wall = Wall::cylinder(
-            (a.construction, a.liner),
-            input.volume,
-            input.to - pa,
-            known,
-        );
-        let exchange = exchange(
-            &a.wall,
-            wall,
-            input.ambient_temperature,
-            heat::CYLINDER_ASPECT,
-        )?;
-        if let Some(d) = a.inlet_diameter {
-            check_range(
-                "inlet-diameter",
-                d.get::<uom::si::length::meter>(),
-                "m",
-                1e-4,
-                0.1,
-            )?;
-        }
-        let rate_si = match rate {
-            FillRate::Ramp(r) => r.per_second.get::<pascal>(),
-            FillRate::MassFlow(m) => m.get::<uom::si::mass_rate::kilogram_per_second>(),
-        };
-        check_range("rate", rate_si, "SI units per second", 1e-9, 1e9)?;
-        let t = transient::fill_from(model.as_ref(), &input, rate, a.inlet_diameter, &exchange)?;
-        let t_report = FillTransientReport::new(&t.value, rate, input.rated_temperature, &exchange);
-        if let Some(path) = &a.wall.csv {
-            write_csv(path, &t_report.samples)?;
-        }
-        report.cautions.extend(t.cautions);
-        report.cautions = ordered(std::mem::take(&mut report.cautions));
-        report.transient = Some(t_report);
+    if let (Some(path), Some(t)) = (&a.wall.csv, &report.transient) {
+        write_csv(path, &t.samples)?;
     }
     render(&report, a.common.json, a.common.units)
+}
+
+/// The planned-rate fill from the wall options, checked.
+fn planned_fill(
+    a: &FillArgs,
+    input: &FillInput,
+    pa: Pressure,
+    rate: FillRate,
+) -> Result<PlannedFill, InputError> {
+    if a.construction != Construction::Composite {
+        if let Some(m) = a.wrap_mass {
+            return Err(InputError::new(
+                "wrap-mass",
+                format!("{} kg", m.get::<uom::si::mass::kilogram>()),
+                "only a composite cylinder has a wrap; accepted: --wrap-mass with --construction composite",
+            ));
+        }
+        if let Some(l) = a.liner {
+            return Err(InputError::new(
+                "liner",
+                format!("{l:?}").to_lowercase(),
+                "only a composite cylinder has a liner; accepted: --liner with --construction composite",
+            ));
+        }
+    }
+    for (field, m) in [("wrap-mass", a.wrap_mass), ("empty-mass", a.empty_mass)] {
+        if let Some(m) = m {
+            check_range(field, m.get::<uom::si::mass::kilogram>(), "kg", 0.0, 1e7)?;
+        }
+    }
+    let known = match a.empty_mass {
+        Some(m) => transient::CylinderMass::Empty(m),
+        None => transient::CylinderMass::Layers(a.wall.wall_mass, a.wrap_mass),
+    };
+    let wall = Wall::cylinder(
+        (a.construction, a.liner),
+        input.volume,
+        input.to - pa,
+        known,
+    );
+    let exchange = exchange(
+        &a.wall,
+        wall,
+        input.ambient_temperature,
+        heat::CYLINDER_ASPECT,
+    )?;
+    if let Some(d) = a.inlet_diameter {
+        check_range(
+            "inlet-diameter",
+            d.get::<uom::si::length::meter>(),
+            "m",
+            1e-4,
+            0.1,
+        )?;
+    }
+    let rate_si = match rate {
+        FillRate::Ramp(r) => r.per_second.get::<pascal>(),
+        FillRate::MassFlow(m) => m.get::<uom::si::mass_rate::kilogram_per_second>(),
+    };
+    check_range("rate", rate_si, "SI units per second", 1e-9, 1e9)?;
+    Ok(PlannedFill {
+        rate,
+        inlet: a.inlet_diameter,
+        exchange,
+    })
 }
 
 /// The heat-transfer settings from the wall options, checked.
@@ -564,13 +584,6 @@ pub(super) fn vent_command(a: VentArgs) -> Result<String, Failure> {
         min_metal_temperature: a.min_metal_temperature,
         within: a.within,
     };
-    let out = vent::blow_down(model.as_ref(), &input)?;
-    let mut report = VentReport::new(model.as_ref(), &input, out);
-    if let Some(ideal) = ideal_twin(model.as_ref()) {
-        if let Ok(out) = vent::blow_down(&ideal, &input) {
-            report.compare_with(&VentReport::new(&ideal, &input, out));
-        }
-    }
     if a.wall.heat_transfer.is_none()
         && !a.depressuring_check
         && (a.wall.any() || a.design_pressure.is_some())
@@ -582,12 +595,11 @@ pub(super) fn vent_command(a: VentArgs) -> Result<String, Failure> {
         )
         .into());
     }
-    if a.wall.heat_transfer.is_some() || a.depressuring_check {
-        let given = a
-            .design_pressure
-            .map(|r| absolute("design-pressure", r, pa))
-            .transpose()?;
-        report.inputs.design_pressure_pa = given;
+    let given = a
+        .design_pressure
+        .map(|r| absolute("design-pressure", r, pa))
+        .transpose()?;
+    let wall = if a.wall.heat_transfer.is_some() || a.depressuring_check {
         let design = given.unwrap_or(input.pressure);
         let design_gauge = (design - pa).get::<pascal>().max(0.0);
         let wall = Wall::vessel(
@@ -617,15 +629,19 @@ pub(super) fn vent_command(a: VentArgs) -> Result<String, Failure> {
         } else {
             None
         };
-        let t = transient::vent_from(model.as_ref(), &input, check, &exchange)?;
-        let (t_report, dep) = VentTransientReport::new(&t.value, check, &exchange);
-        if let Some(path) = &wall_args.csv {
-            write_csv(path, &t_report.samples)?;
-        }
-        report.cautions.extend(t.cautions);
-        report.cautions = ordered(std::mem::take(&mut report.cautions));
-        report.transient = Some(t_report);
-        report.depressuring = dep;
+        Some((WallVent { check, exchange }, wall_args.csv))
+    } else {
+        None
+    };
+    let mut report = assess::vent(
+        model.as_ref(),
+        &input,
+        wall.as_ref().map(|(w, _)| w),
+        Governing::Model,
+    )?;
+    report.inputs.design_pressure_pa = given.filter(|_| wall.is_some());
+    if let (Some((_, Some(path))), Some(t)) = (&wall, &report.transient) {
+        write_csv(path, &t.samples)?;
     }
     render(&report, a.common.json, a.common.units)
 }

@@ -5,6 +5,7 @@ use std::io::IsTerminal;
 use clap::Args;
 
 use super::{Failure, EXIT_DANGER, EXIT_OK};
+use crate::assess::{Status, Verdict};
 use crate::caution::{Caution, Level};
 use crate::gas::ModelKind;
 use crate::record;
@@ -216,6 +217,7 @@ pub(super) fn check_command(a: CheckArgs) -> Result<(String, i32), Failure> {
         gas: &'static str,
         template: String,
         stored_energy_j: uom::si::f64::Energy,
+        verdict: Verdict,
         highest_level: Level,
         cautions: Vec<Caution>,
     }
@@ -247,13 +249,18 @@ pub(super) fn check_command(a: CheckArgs) -> Result<(String, i32), Failure> {
             gas: item.gas().name,
             template: template.name.clone(),
             stored_energy_j: sheet.stored_energy,
+            verdict: sheet.verdict,
             highest_level: sheet.highest,
             cautions: sheet.record.cautions,
         });
     }
+    // Ranked by decision, then by the signal word of the worst banner, then by the energy
+    // at risk.
     items.sort_by(|x, y| {
-        y.highest_level
-            .cmp(&x.highest_level)
+        y.verdict
+            .decision
+            .cmp(&x.verdict.decision)
+            .then(y.highest_level.cmp(&x.highest_level))
             .then(y.stored_energy_j.value.total_cmp(&x.stored_energy_j.value))
     });
     let danger = items.iter().any(|i| i.highest_level == Level::Danger);
@@ -278,23 +285,40 @@ pub(super) fn check_command(a: CheckArgs) -> Result<(String, i32), Failure> {
         items.len()
     );
     text.push_str(&format!(
-        "{:<12} {:<9} {:<15} {:<8} {}\n",
-        "tag", "kind", "gas", "highest", "stored energy (isentropic)"
+        "{:<12} {:<9} {:<15} {:<16} {:<8} {}\n",
+        "tag", "kind", "gas", "decision", "highest", "stored energy (isentropic)"
     ));
     for i in &items {
         text.push_str(&format!(
-            "{:<12} {:<9} {:<15} {:<8} {}\n",
+            "{:<12} {:<9} {:<15} {:<16} {:<8} {}\n",
             i.tag,
             format!("{:?}", i.kind).to_lowercase(),
             i.gas,
+            i.verdict.decision.word(),
             i.highest_level.word(),
             display.energy(i.stored_energy_j)
         ));
     }
-    for i in items.iter().filter(|i| i.highest_level >= Level::Warning) {
-        text.push_str(&format!("\n{}:\n", i.tag));
-        for c in i.cautions.iter().filter(|c| c.level >= Level::Warning) {
-            text.push_str(&format!("  {:<8} {}\n", c.level.word(), c.render(&display)));
+    for i in items.iter().filter(|i| i.verdict.worst() > Status::Ok) {
+        text.push_str(&format!(
+            "\n{} ({}):\n",
+            i.tag,
+            i.verdict.decision.word()
+        ));
+        for f in i.verdict.findings.iter().filter(|f| f.status > Status::Ok) {
+            let mut head = format!("{}", f.hazard.title());
+            if let Some(v) = &f.value {
+                head.push_str(&format!(": {}", display.short(v)));
+                if let Some(l) = &f.limit {
+                    head.push_str(&format!(", limit {}", display.short(l)));
+                }
+            }
+            text.push_str(&format!(
+                "  {:<7} {head} [{}]\n          {}\n",
+                f.status.word(),
+                f.basis,
+                f.action_text(&display)
+            ));
         }
     }
     if danger {

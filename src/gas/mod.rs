@@ -76,21 +76,6 @@ pub enum GasHazard {
     ToxicAsphyxiant,
 }
 
-impl GasHazard {
-    /// The caution a release of the gas carries.
-    pub fn caution(self, gas: &str) -> Option<Caution> {
-        use crate::caution::Level;
-        let text = match self {
-            GasHazard::Air => return None,
-            GasHazard::Asphyxiant => format!("Released {gas} displaces oxygen: vent outdoors or to a safe location, never into an enclosed, low or poorly ventilated space; check the atmosphere before entry."),
-            GasHazard::Oxidiser => format!("Released {gas} intensifies fire: keep oil, grease and ignition sources away, vent to a safe location, and do not let clothing become oxygen-enriched."),
-            GasHazard::Flammable => format!("Released {gas} is flammable: vent to a safe location away from ignition sources, with the vent path bonded and earthed; check for a flammable atmosphere."),
-            GasHazard::ToxicAsphyxiant => format!("Released {gas} is toxic at high concentration and collects in low spaces: vent outdoors or to a safe location and check the atmosphere before entry."),
-        };
-        Some(Caution::new(Level::Warning, text))
-    }
-}
-
 impl Gas {
     /// Finds a gas by name, formula or alias, ignoring case.
     pub fn find(name: &str) -> Option<&'static Gas> {

@@ -4,7 +4,8 @@
 use uom::si::f64::Pressure;
 
 use super::Entry;
-use crate::caution::Caution;
+use crate::assess::Verdict;
+use crate::caution::{Caution, Note};
 use crate::units::UnitSystem;
 
 /// One worksheet for one piece of equipment, as a template arranges it.
@@ -19,8 +20,13 @@ pub struct Document {
     /// The title block: label and value pairs (site, location, tag, description, work order,
     /// date and time with time zone, prepared by).
     pub header: Vec<(String, String)>,
-    /// Cautions, highest first, the deferral last.
+    /// The decision and the findings behind it.
+    pub verdict: Verdict,
+    /// Banners: the hazards that apply and a result's limits, highest first, the deferral
+    /// last.
     pub cautions: Vec<Caution>,
+    /// How the results were reached: methods, models, constants, assumptions.
+    pub basis: Vec<Note>,
     /// Inputs as used.
     pub inputs: Vec<Entry>,
     /// Result sections in template order, each with a heading.

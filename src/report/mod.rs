@@ -19,7 +19,8 @@ use uom::si::f64::{
     Volume,
 };
 
-use crate::caution::{ordered, Assessed, Caution};
+use crate::assess::Verdict;
+use crate::caution::{ordered, Assessed, Caution, Note};
 use crate::gas::{GasModel, ModelKind};
 use crate::heat::InnerBasis;
 use crate::rules::blast::DistanceBasis;
@@ -67,8 +68,13 @@ pub struct EnergyReport {
     pub vent_down_target_pa: Option<Pressure>,
     /// The ideal gas's results for the same inputs, when the real-gas model was used.
     pub ideal_gas_comparison: Option<EnergyComparison>,
-    /// Cautions, highest first, the deferral last.
+    /// The decision and the findings behind it.
+    pub verdict: Verdict,
+    /// Banners: the hazards that apply and the limits of the result, highest first, the
+    /// deferral last.
     pub cautions: Vec<Caution>,
+    /// How the results were reached: methods, models, constants, assumptions.
+    pub basis: Vec<Note>,
 }
 
 /// The energy command's inputs as used.
@@ -137,7 +143,9 @@ impl EnergyReport {
             hydrotest_energy_j: r.hydrotest_energy,
             vent_down_target_pa: r.vent_down_target,
             ideal_gas_comparison: None,
+            verdict: Verdict::default(),
             cautions: ordered(out.cautions),
+            basis: out.basis,
         }
     }
 }
@@ -171,8 +179,13 @@ pub struct FillReport {
     pub transient: Option<FillTransientReport>,
     /// The ideal gas's results for the same inputs, when the real-gas model was used.
     pub ideal_gas_comparison: Option<FillComparison>,
-    /// Cautions, highest first, the deferral last.
+    /// The decision and the findings behind it.
+    pub verdict: Verdict,
+    /// Banners: the hazards that apply and the limits of the result, highest first, the
+    /// deferral last.
     pub cautions: Vec<Caution>,
+    /// How the results were reached: methods, models, constants, assumptions.
+    pub basis: Vec<Note>,
 }
 
 /// The fill with wall heat transfer.
@@ -267,20 +280,6 @@ impl FillTransientReport {
     pub fn result_entries(&self) -> Vec<Entry> {
         let method = self.heat_transfer.method();
         let mut out = Vec::new();
-        if let Some(go) = self.go {
-            out.push(result(
-                "Go / no-go at the planned rate",
-                Value::Text(
-                    if go {
-                        "GO: the gas stays within the rating"
-                    } else {
-                        "NO-GO: the gas exceeds the rating"
-                    }
-                    .to_string(),
-                ),
-                "peak gas temperature with wall heat transfer against the rated temperature",
-            ));
-        }
         out.push(result(
             "Peak gas temperature",
             Value::Temperature(self.peak_gas_temperature_k),
@@ -406,7 +405,9 @@ impl FillReport {
             path: r.path,
             transient: None,
             ideal_gas_comparison: None,
+            verdict: Verdict::default(),
             cautions: ordered(out.cautions),
+            basis: out.basis,
         }
     }
 }
@@ -444,8 +445,13 @@ pub struct VentReport {
     pub depressuring: Option<DepressuringReport>,
     /// The ideal gas's results for the same inputs, when the real-gas model was used.
     pub ideal_gas_comparison: Option<VentComparison>,
-    /// Cautions, highest first, the deferral last.
+    /// The decision and the findings behind it.
+    pub verdict: Verdict,
+    /// Banners: the hazards that apply and the limits of the result, highest first, the
+    /// deferral last.
     pub cautions: Vec<Caution>,
+    /// How the results were reached: methods, models, constants, assumptions.
+    pub basis: Vec<Note>,
 }
 
 /// The vent with wall heat transfer.
@@ -606,7 +612,9 @@ impl VentReport {
             transient: None,
             depressuring: None,
             ideal_gas_comparison: None,
+            verdict: Verdict::default(),
             cautions: ordered(out.cautions),
+            basis: out.basis,
         }
     }
 }
@@ -892,7 +900,9 @@ pub struct Worksheet {
     pub title: String,
     /// Ambient pressure, for showing gauge readings.
     pub ambient: Pressure,
-    /// Cautions, highest first, the deferral last.
+    /// The decision and the findings behind it.
+    pub verdict: Verdict,
+    /// Banners, highest first, the deferral last.
     pub cautions: Vec<Caution>,
     /// Inputs as used.
     pub inputs: Vec<Entry>,
@@ -900,6 +910,8 @@ pub struct Worksheet {
     pub results: Vec<Entry>,
     /// The ideal gas's values beside the real gas's, when the real-gas model was used.
     pub comparison: Vec<Entry>,
+    /// How the results were reached.
+    pub basis: Vec<Note>,
 }
 
 impl EnergyReport {
@@ -999,10 +1011,12 @@ impl From<&EnergyReport> for Worksheet {
         Worksheet {
             title: format!("Stored energy — {}, {} gas model", r.gas, r.model.name()),
             ambient: i.ambient_pressure_pa,
+            verdict: r.verdict.clone(),
             cautions: r.cautions.clone(),
             inputs,
             results,
             comparison: r.comparison_entries(),
+            basis: r.basis.clone(),
         }
     }
 }
@@ -1075,10 +1089,12 @@ impl From<&FillReport> for Worksheet {
         Worksheet {
             title: format!("Fill check — {}, {} gas model", r.gas, r.model.name()),
             ambient: i.ambient_pressure_pa,
+            verdict: r.verdict.clone(),
             cautions: r.cautions.clone(),
             inputs,
             results,
             comparison: r.comparison_entries(),
+            basis: r.basis.clone(),
         }
     }
 }
@@ -1156,10 +1172,12 @@ impl From<&VentReport> for Worksheet {
         Worksheet {
             title: format!("Vent-down — {}, {} gas model", r.gas, r.model.name()),
             ambient: i.ambient_pressure_pa,
+            verdict: r.verdict.clone(),
             cautions: r.cautions.clone(),
             inputs,
             results,
             comparison: r.comparison_entries(),
+            basis: r.basis.clone(),
         }
     }
 }

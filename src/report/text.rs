@@ -1,6 +1,9 @@
-//! The text renderer: cautions first, then inputs and results in the user's units.
+//! The text renderer: the decision and its findings first, then the banners that apply,
+//! inputs, results, the basis, and the deferral last, in the user's units.
 
 use super::{Entry, Value, Worksheet, TOOL_VERSION};
+use crate::assess::{Decision, Status, Verdict};
+use crate::caution::deferral;
 use crate::units::{fmt_sig, Display, UnitSystem};
 
 const WIDTH: usize = 96;
@@ -12,7 +15,13 @@ pub fn render_text(sheet: &Worksheet, system: UnitSystem) -> String {
         ambient: sheet.ambient,
     };
     let mut out = format!("pvhazard {TOOL_VERSION} — {}\n\n", sheet.title);
-    for c in &sheet.cautions {
+    verdict(&mut out, &sheet.verdict, &display);
+    let last = deferral();
+    let banners: Vec<_> = sheet.cautions.iter().filter(|c| **c != last).collect();
+    if !banners.is_empty() {
+        out.push('\n');
+    }
+    for c in banners {
         let word = c.level.word();
         out.push_str(&wrap(&format!("{word:<8} "), &c.render(&display)));
     }
@@ -26,7 +35,50 @@ pub fn render_text(sheet: &Worksheet, system: UnitSystem) -> String {
             &display,
         );
     }
+    if !sheet.basis.is_empty() {
+        out.push_str("\nBasis and assumptions\n");
+        for n in &sheet.basis {
+            out.push_str(&wrap(&format!("  {:<20} ", n.topic), &n.render(&display)));
+        }
+    }
+    out.push('\n');
+    out.push_str(&wrap(&format!("{:<8} ", last.level.word()), &last.render(&display)));
     out
+}
+
+/// The decision line and one block per finding: status, hazard, value against limit and
+/// basis, then the action (or, when ok, what was found).
+fn verdict(out: &mut String, v: &Verdict, d: &Display) {
+    out.push_str(&format!(
+        "Decision: {} — {}\n",
+        v.decision.word(),
+        match v.decision {
+            Decision::NoGo => "do not go ahead as planned (see STOP below)",
+            Decision::GoWithActions => "go ahead only once the actions below are done",
+            Decision::Go => "every finding is within its limit",
+        }
+    ));
+    if v.findings.is_empty() {
+        return;
+    }
+    out.push_str("\nFindings\n");
+    for f in &v.findings {
+        let mut head = f.hazard.title().to_string();
+        if let Some(value) = &f.value {
+            head.push_str(&format!(": {}", d.short(value)));
+            if let Some(limit) = &f.limit {
+                head.push_str(&format!(", limit {}", d.short(limit)));
+            }
+        }
+        head.push_str(&format!(" [{}]", f.basis));
+        out.push_str(&wrap(&format!("  {:<7} ", f.status.word()), &head));
+        let then = if f.status == Status::Ok {
+            f.result_text(d)
+        } else {
+            f.action_text(d)
+        };
+        out.push_str(&wrap("          ", &then));
+    }
 }
 
 fn section(out: &mut String, heading: &str, entries: &[Entry], d: &Display) {

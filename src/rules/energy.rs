@@ -11,11 +11,11 @@ use uom::si::{
 
 use super::blast::{self, DistanceBasis};
 use super::{
-    check_positive, end_phase_caution, gas_cautions, gas_error, user_state, MAX_PRESSURE_PA,
+    check_positive, gas_cautions, gas_error, user_state, MAX_PRESSURE_PA,
     MAX_VOLUME_M3,
 };
 use crate::caution;
-use crate::caution::{Assessed, Caution, Level};
+use crate::caution::{Assessed, Caution, Level, Note};
 use crate::gas::{GasError, GasModel, State};
 use crate::units::{fmt_sig, Value};
 use crate::InputError;
@@ -142,19 +142,11 @@ pub fn stored_energy(
         input.pressure,
         input.temperature,
     )?;
-    let mut cautions = gas_cautions(model, &state);
+    let (mut cautions, mut basis) = gas_cautions(model, &state);
     let gas_mass = state.density * input.volume;
     let pa = input.ambient;
 
     if input.pressure <= pa {
-        cautions.push(caution!(
-            Level::Notice,
-            "The pressure given (",
-            Value::Pressure(input.pressure),
-            ") is at or below ambient (",
-            Value::Pressure(pa),
-            "): the gas stores no expansion energy. Confirm zero energy on two independent indications before opening.",
-        ));
         let zero = Energy::new::<joule>(0.0);
         return Ok(Assessed {
             value: EnergyResult {
@@ -174,6 +166,7 @@ pub fn stored_energy(
                 vent_down_target: None,
             },
             cautions,
+            basis,
         });
     }
 
@@ -214,10 +207,13 @@ pub fn stored_energy(
         hydrotest_energy,
         vent_down_target,
     };
-    cautions.extend(energy_cautions(model, input, &result));
+    let (more, more_basis) = energy_cautions(input, &result);
+    cautions.extend(more);
+    basis.extend(more_basis);
     Ok(Assessed {
         value: result,
         cautions,
+        basis,
     })
 }
 
@@ -295,126 +291,41 @@ fn vent_down_target(
         })
 }
 
-fn energy_cautions(model: &dyn GasModel, input: &EnergyInput, r: &EnergyResult) -> Vec<Caution> {
+/// The cautions the result carries (a standoff the fits cannot give) and its basis. The
+/// hazards themselves (rating, zone, energy before opening, liquid in the expansion) are
+/// the assessment's findings.
+fn energy_cautions(input: &EnergyInput, r: &EnergyResult) -> (Vec<Caution>, Vec<Note>) {
     let mut out = Vec::new();
-    if let Some(mawp) = input.mawp {
-        if input.pressure > mawp {
-            out.push(caution!(
-                Level::Danger,
-                "The pressure given is above the MAWP (",
-                Value::Pressure(input.pressure),
-                " > ",
-                Value::Pressure(mawp),
-                "). Do not approach or work on the vessel: reduce the pressure from a safe location and have the vessel and its relief device examined by an authorised inspector.",
-            ));
-        }
-    }
-    match (input.energy_limit, r.vent_down_target) {
-        (Some(limit), None) => out.push(caution!(
-            Level::Notice,
-            "The stored isentropic energy (",
-            Value::Energy(r.energy.isentropic),
-            ") is already at or below the energy limit (",
-            Value::Energy(limit),
-            "): no vent-down is needed to meet it.",
-        )),
-        (Some(limit), Some(p)) => out.push(caution!(
-            Level::Notice,
-            "Vent down to ",
-            Value::Pressure(p),
-            " or below to bring the stored energy within the limit of ",
-            Value::Energy(limit),
-            ".",
-        )),
-        _ => {}
-    }
-    if r.exclusion_basis == DistanceBasis::BeyondRule {
-        out.push(caution!(
-            Level::Danger,
-            "Stored energy ",
-            Value::Energy(r.energy.isentropic),
-            " exceeds 271 MJ: the pneumatic-test safe-distance rule does not settle the exclusion zone. Engineering analysis by a competent person is required (blast, fragments, barricades) before any pressurised work or test.",
-        ));
-    }
-    out.push(caution!(
-        Level::Warning,
-        "Keep everyone not needed for the task at least ",
-        Value::Distance(r.exclusion_distance),
-        format!(
-            " away while the vessel is under pressure (pneumatic-test safe-distance rule, {}). Blast standoffs do not protect against fragments, which can travel much farther; shield or barricade where the zone cannot be cleared.",
-            match r.exclusion_basis {
-                DistanceBasis::Scaled => "20 m/kg^(1/3) scaled distance",
-                DistanceBasis::Floor30m => "30 m minimum for up to 135.5 MJ",
-                DistanceBasis::Floor60m => "60 m minimum for up to 271 MJ",
-                DistanceBasis::BeyondRule => "rule exceeded",
-                DistanceBasis::NoStoredEnergy => "no stored energy",
-            }
-        ),
-    ));
-    if let Some(clear) = input.clearance {
-        let farthest = r
-            .standoffs
-            .iter()
-            .filter_map(|s| s.distance)
-            .chain(std::iter::once(r.exclusion_distance))
-            .fold(Length::new::<meter>(0.0), |a, b| if b > a { b } else { a });
-        if r.exclusion_distance > clear {
-            out.push(caution!(
-                Level::Danger,
-                "The exclusion distance (",
-                Value::Distance(r.exclusion_distance),
-                ") is more than the site can keep clear (",
-                Value::Distance(clear),
-                "). Reduce the pressure or volume at risk, test hydrostatically, or provide engineered barricades before pressurising.",
-            ));
-        } else if farthest > clear {
-            out.push(caution!(
-                Level::Warning,
-                "An overpressure standoff (",
-                Value::Distance(farthest),
-                ") reaches beyond what the site can keep clear (",
-                Value::Distance(clear),
-                "): warn occupants of nearby buildings and keep them away from windows.",
-            ));
-        }
-    }
-    let tnt = input.tnt_energy.get::<joule_per_kilogram>();
-    out.push(Caution::new(
-        Level::Notice,
-        format!(
-            "TNT equivalent uses {} MJ/kg{}. A smaller TNT energy gives a larger TNT mass and larger distances, so the 1000 cal/g convention (4.184 MJ/kg) is the conservative default; other published values run 4.27–4.7 MJ/kg.",
-            fmt_sig(tnt / 1e6, 4),
-            if (tnt - DEFAULT_TNT_ENERGY_J_PER_KG).abs() < 1.0 {
-                " (the default, 1000 cal/g)"
-            } else {
-                " (set by --tnt-energy)"
-            }
-        ),
-    ));
-    out.push(Caution::new(
-        Level::Notice,
-        "Distances are based on the isentropic (adiabatic) expansion energy, as the pneumatic-test standard's stored-energy appendix uses. Brode's and the isothermal energies are larger upper bounds, shown for comparison. Overpressure standoffs: Kingery–Bulmash hemispherical surface burst (Swisdak's fits).",
-    ));
     for s in &r.standoffs {
         if s.distance.is_none() {
             out.push(caution!(
                 Level::Caution,
                 "No standoff for ",
                 Value::Overpressure(s.overpressure),
-                ": the threshold lies outside the Kingery–Bulmash fits (scaled distance 0.2–198.5 m/kg^(1/3)).",
+                ": not resolved, the threshold lies outside the Kingery–Bulmash fits (scaled distance 0.2–198.5 m/kg^(1/3)).",
             ));
         }
     }
-    out.extend(end_phase_caution(
-        model,
-        "The isentropic expansion to ambient",
-        &r.isentropic_end,
-    ));
-    out.push(Caution::new(
-        Level::Notice,
-        "Before opening or working on the vessel: isolate, lock out and tag out, vent to zero, verify zero on two independent indications, and open slowly.",
-    ));
-    out
+    let tnt = input.tnt_energy.get::<joule_per_kilogram>();
+    let basis = vec![
+        Note::new(
+            "TNT energy",
+            format!(
+                "TNT equivalent uses {} MJ/kg{}. A smaller TNT energy gives a larger TNT mass and larger distances, so the 1000 cal/g convention (4.184 MJ/kg) is the conservative default; other published values run 4.27–4.7 MJ/kg.",
+                fmt_sig(tnt / 1e6, 4),
+                if (tnt - DEFAULT_TNT_ENERGY_J_PER_KG).abs() < 1.0 {
+                    " (the default, 1000 cal/g)"
+                } else {
+                    " (set by --tnt-energy)"
+                }
+            ),
+        ),
+        Note::new(
+            "distances",
+            "Distances are based on the isentropic (adiabatic) expansion energy, as the pneumatic-test standard's stored-energy appendix uses. Brode's and the isothermal energies are larger upper bounds, shown for comparison. Overpressure standoffs: Kingery–Bulmash hemispherical surface burst (Swisdak's fits). The pneumatic-test exclusion distance is ASME PCC-2's safe-distance rule.",
+        ),
+    ];
+    (out, basis)
 }
 
 #[cfg(test)]

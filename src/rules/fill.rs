@@ -11,8 +11,8 @@ use super::{
     check_positive, check_temperature, gas_cautions, gas_error, user_state, MAX_PRESSURE_PA,
     MAX_VOLUME_M3,
 };
-use crate::caution;
-use crate::caution::{Assessed, Caution, Level};
+use crate::caution::{self, Assessed, Note};
+use crate::note;
 use crate::gas::{GasModel, State};
 use crate::units::{fmt_sig, Value};
 use crate::InputError;
@@ -39,10 +39,11 @@ pub struct FillInput {
     pub rated_temperature: Option<ThermodynamicTemperature>,
 }
 
-/// A fill-to pressure this far above the target raises a WARNING: planning on it would
-/// overfill a cylinder whose gas stays cooler than the adiabatic bound (common practice,
-/// no source: cylinder standards allow a hot fill only a modest margin).
-const FILL_TO_WARNING_RATIO: f64 = 1.10;
+/// The highest fill-to pressure, as a multiple of the service pressure, that a hot fill may
+/// stop at: a cylinder filled above it would be overfilled once cool if its gas stayed
+/// cooler than assumed (common practice, no source: cylinder standards allow a hot fill only
+/// a modest margin over the service pressure).
+pub const FILL_TO_LIMIT_RATIO: f64 = 1.10;
 
 /// Points on the fill's temperature–pressure path (besides the start).
 const PATH_POINTS: usize = 40;
@@ -121,7 +122,7 @@ pub fn adiabatic_fill(
         input.to,
         input.ambient_temperature,
     )?;
-    let mut cautions = gas_cautions(model, &target);
+    let (cautions, mut basis) = gas_cautions(model, &target);
     // The supply gas's enthalpy at its own pressure (by default the fill's end pressure);
     // for an ideal gas h does not depend on it, for a real gas it does (Joule–Thomson).
     let supply_pressure = input.supply_pressure.unwrap_or(input.to);
@@ -169,10 +170,11 @@ pub fn adiabatic_fill(
         fill_to_pressure: fill_to,
         path,
     };
-    cautions.extend(fill_cautions(input, &result));
+    basis.push(fill_basis(input, &result));
     Ok(Assessed {
         value: result,
         cautions,
+        basis,
     })
 }
 
@@ -258,42 +260,8 @@ fn fill_to_pressure(
         .map(|ln_p| Pressure::new::<pascal>(ln_p.exp()))
 }
 
-/// The WARNING for a fill-to pressure more than [`FILL_TO_WARNING_RATIO`] above `target`:
-/// `lead` opens the sentence, `why` says what makes it so high.
-pub(crate) fn fill_to_warning(
-    fill_to: Pressure,
-    target: Pressure,
-    lead: &str,
-    why: &str,
-) -> Option<Caution> {
-    (fill_to > target * FILL_TO_WARNING_RATIO).then(|| {
-        caution!(
-            Level::Warning,
-            lead,
-            Value::Pressure(fill_to),
-            format!(") is far above the target{why}. Do not fill to it; top up after the cylinder cools, and never exceed the pressure the cylinder's marking or standard permits at the fill temperature."),
-        )
-    })
-}
-
-fn fill_cautions(input: &FillInput, r: &FillResult) -> Vec<Caution> {
-    let mut out = Vec::new();
-    let end = Value::Temperature(r.final_temperature);
-    match input.rated_temperature {
-        Some(rated) if r.final_temperature > rated => out.push(caution!(
-            Level::Warning,
-            "The adiabatic fill temperature (",
-            end.clone(),
-            ") exceeds the rated temperature (",
-            Value::Temperature(rated),
-            "). Fill more slowly, in stages, or with a cooled supply, and follow the cylinder marking and the filling procedure; this is the no-heat-loss upper bound, but do not plan on heat loss to make it safe.",
-        )),
-        Some(_) => {}
-        None => out.push(Caution::new(
-            Level::Notice,
-            "No --rated-temperature given: compare the fill temperature with the maximum marked on the cylinder or in its standard (often 65 °C).",
-        )),
-    }
+/// How the adiabatic fill was found, and what its temperature bounds, for the basis.
+fn fill_basis(input: &FillInput, r: &FillResult) -> Note {
     // The wall starts at the initial gas temperature: where the gas ends hotter than that,
     // heat to the wall could only cool it, so the adiabatic result bounds it from above.
     let then = if r.final_temperature > input.ambient_temperature {
@@ -308,47 +276,16 @@ fn fill_cautions(input: &FillInput, r: &FillResult) -> Vec<Caution> {
     } else {
         caution::Part::from(", colder than the cylinder started: heat from the wall would warm the gas, so this is not a bound")
     };
-    out.push(caution!(
-        Level::Notice,
+    note!(
+        "adiabatic fill",
         "Adiabatic fill: no heat passes between the gas and the cylinder wall, so ",
-        end,
+        Value::Temperature(r.final_temperature),
         bound,
         ". The settled pressure assumes the gas then",
         then,
         Value::Temperature(input.ambient_temperature),
         " at constant mass.",
-    ));
-    let shortfall = 1.0 - r.settled_pressure.get::<pascal>() / input.to.get::<pascal>();
-    out.extend(r.fill_to_pressure.and_then(|p| {
-        fill_to_warning(
-            p,
-            input.to,
-            "The fill-to pressure (",
-            ": it assumes the gas reaches the adiabatic temperature, which a real fill does not",
-        )
-    }));
-    match r.fill_to_pressure {
-        Some(fill_to) if shortfall > 0.01 => out.push(caution!(
-            Level::Notice,
-            "A fill stopped at ",
-            Value::Pressure(input.to),
-            " settles to ",
-            Value::Pressure(r.settled_pressure),
-            format!(" ({:.0} % short). To settle at the target, stop at ", shortfall * 100.0),
-            Value::Pressure(fill_to),
-            ", but never above the cylinder's permitted filling pressure at the fill temperature.",
-        )),
-        Some(_) => {}
-        None => out.push(caution!(
-            Level::Warning,
-            "The gas already in the cylinder settles at or above ",
-            Value::Pressure(input.to),
-            " once it reaches ",
-            Value::Temperature(input.ambient_temperature),
-            format!(": no fill is needed to reach the target, and this fill settles {:.0} % above it. Check the settled pressure against the cylinder's service pressure.", -shortfall * 100.0),
-        )),
-    }
-    out
+    )
 }
 
 #[cfg(test)]
@@ -438,7 +375,7 @@ mod tests {
         let mut input = air_fill(20.0, 300.0);
         input.rated_temperature = Some(ThermodynamicTemperature::new::<kelvin>(338.15));
         let r = adiabatic_fill(&model, &input).unwrap();
-        assert!(r.cautions.iter().any(|c| c.level == Level::Warning));
+        assert!(r.value.final_temperature > input.rated_temperature.unwrap());
         let e = adiabatic_fill(&model, &air_fill(300.0, 200.0)).unwrap_err();
         assert_eq!(e.field, "to");
     }

@@ -12,10 +12,8 @@ pub mod vent;
 use uom::si::f64::{Pressure, ThermodynamicTemperature};
 use uom::si::{pressure::pascal, thermodynamic_temperature::kelvin};
 
-use crate::caution;
-use crate::caution::{Caution, Level};
+use crate::caution::{Caution, Note};
 use crate::gas::{GasError, GasModel, State};
-use crate::units::Value;
 use crate::InputError;
 
 /// Largest absolute pressure accepted, Pa (10 000 bar: above any gas vessel in service).
@@ -84,64 +82,13 @@ fn user_state(
     model.state_pt(p, t).map_err(gas_error(pressure_field))
 }
 
-/// The cautions every result carries about its gas: which model, the model's limits at
-/// `state` (the highest-pressure state of the calculation), and the released gas's hazard.
-fn gas_cautions(model: &dyn GasModel, state: &State) -> Vec<Caution> {
-    let mut cautions = vec![Caution::new(
-        Level::Notice,
+/// What every result carries about its gas: the model's limits at `state` (the
+/// highest-pressure state of the calculation) as cautions, and which model as basis. The
+/// released gas's own hazard is the assessment's finding.
+fn gas_cautions(model: &dyn GasModel, state: &State) -> (Vec<Caution>, Vec<Note>) {
+    let basis = vec![Note::new(
+        "gas model",
         format!("Gas model: {} ({}).", model.describe(), model.gas().name),
     )];
-    cautions.extend(model.limitations(state));
-    cautions.extend(model.gas().hazard.caution(model.gas().name));
-    cautions
-}
-
-/// A CAUTION when an expansion's end state (`what`, at `end`) lies where the gas would no
-/// longer be all gas: partly condensed (a two-phase state the model computed, or a gas state
-/// below the condensation temperature the ideal model cannot see), or below its triple point.
-fn end_phase_caution(model: &dyn GasModel, what: &str, end: &State) -> Option<Caution> {
-    let gas = model.gas();
-    let t = end.temperature.get::<kelvin>();
-    if let Some(x) = end.quality {
-        return Some(caution!(
-            Level::Caution,
-            format!("{what} ends at "),
-            Value::Temperature(end.temperature),
-            format!(
-                " with liquid and vapour together: about {:.0} % of the {} by mass condenses (the real-gas model includes this in the result){}. Expect liquid and frost in the vent path and on the metal.",
-                (1.0 - x) * 100.0,
-                gas.name,
-                if gas.name == "air" {
-                    "; air is modelled as one pseudo-pure fluid, so its bubble and dew lines, a few kelvin apart, are one saturation line here"
-                } else {
-                    ""
-                }
-            ),
-        ));
-    }
-    if t < gas.min_temperature_k {
-        return Some(caution!(
-            Level::Caution,
-            format!("{what} ends at "),
-            Value::Temperature(end.temperature),
-            ", below ",
-            Value::Temperature(ThermodynamicTemperature::new::<kelvin>(gas.min_temperature_k)),
-            format!(
-                ", {}'s triple point: the gas would partly freeze{}, which these methods do not model. Treat the result as an estimate and expect solid or liquid in the vent path.",
-                gas.name,
-                if gas.name == "carbon-dioxide" { " (dry-ice snow, which can block a vent)" } else { "" }
-            ),
-        ));
-    }
-    let tsat = model.saturation_temperature(end.pressure)?;
-    (end.temperature < tsat).then(|| {
-        caution!(
-            Level::Caution,
-            format!("{what} ends at "),
-            Value::Temperature(end.temperature),
-            format!(", below {}'s condensation temperature there (", gas.name),
-            Value::Temperature(tsat),
-            "): part of the gas would condense, which the ideal-gas model does not include. Treat the result as an estimate.",
-        )
-    })
+    (model.limitations(state), basis)
 }

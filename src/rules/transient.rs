@@ -21,7 +21,7 @@ use uom::si::{
 use super::fill::FillInput;
 use super::gas_error;
 use super::vent::VentInput;
-use crate::caution::{Assessed, Caution, Level, Part};
+use crate::caution::{Assessed, Caution, Level, Note, Part};
 use crate::gas::{GasModel, State};
 use crate::heat::{self, Film, InnerBasis};
 use crate::site::{Construction, Liner, Material};
@@ -930,10 +930,11 @@ pub fn fill(
         max_rate,
         wall: exchange.wall,
     };
-    let cautions = fill_cautions(&result, rated, exchange);
+    let (cautions, basis) = fill_cautions(&result, exchange);
     Ok(Assessed {
         value: result,
         cautions,
+        basis,
     })
 }
 
@@ -1003,7 +1004,7 @@ pub fn vent_from(
         area,
         input.ambient,
         input.down_to,
-        (check, input.min_metal_temperature),
+        check,
         exchange,
     )
 }
@@ -1029,7 +1030,7 @@ pub fn vent(
     effective_area_m2: f64,
     ambient: Pressure,
     down_to: Pressure,
-    (check, mdmt): (Option<Depressuring>, Option<ThermodynamicTemperature>),
+    check: Option<Depressuring>,
     exchange: &Exchange,
 ) -> Result<Assessed<VentTransient>, InputError> {
     let setup = Setup::new(model, volume, exchange);
@@ -1105,18 +1106,18 @@ pub fn vent(
         depressuring_time,
         wall: exchange.wall,
     };
-    let cautions = vent_cautions(&result, check, mdmt, exchange);
     Ok(Assessed {
         value: result,
-        cautions,
+        cautions: Vec::new(),
+        basis: model_basis(basis, exchange),
     })
 }
 
-/// Where the inner coefficient came from, and the wall, in words for the output.
-fn model_notice(basis: InnerBasis, exchange: &Exchange) -> Vec<Caution> {
+/// Where the inner coefficient came from, and the wall, in words for the basis.
+fn model_basis(basis: InnerBasis, exchange: &Exchange) -> Vec<Note> {
     if exchange.mode == HeatTransfer::None {
-        return vec![Caution::new(
-            Level::Notice,
+        return vec![Note::new(
+            "heat transfer",
             "Heat transfer: none. The gas exchanges no heat with the wall (the adiabatic bound).",
         )];
     }
@@ -1149,16 +1150,19 @@ fn model_notice(basis: InnerBasis, exchange: &Exchange) -> Vec<Caution> {
     parts.push(Part::from(format!(
         "); inside, {inner}; outside, 4.5 W/(m²·K) to still air. Integrated with an adaptive Dormand–Prince 5(4) scheme; results hold to 1e-6 when the tolerance is tightened."
     )));
-    let mut out = vec![Caution::from_parts(Level::Notice, parts)];
+    let mut out = vec![Note {
+        topic: "heat transfer",
+        parts,
+    }];
     if wall.any_estimated() {
-        out.push(Caution::new(
-            Level::Notice,
+        out.push(Note::new(
+            "wall mass",
             "The wall mass was not given and is estimated from the volume, pressure rating and material by a membrane-stress rule (common practice, no source). Give the real mass from the nameplate or data sheet for a better result.",
         ));
     }
     if let Some(w) = wall.wrap.filter(|w| w.split_from_empty) {
-        out.push(crate::caution!(
-            Level::Notice,
+        out.push(crate::note!(
+            "wall mass",
             "The cylinder's empty mass is split between liner (",
             Value::Mass(wall.mass),
             ") and wrap (",
@@ -1166,108 +1170,35 @@ fn model_notice(basis: InnerBasis, exchange: &Exchange) -> Vec<Caution> {
             ") in the proportions of their estimates (common practice, no source). A valve counted in the empty mass makes the wall heavier than it is, which errs towards a cooler gas.",
         ));
     }
-    out
-}
-
-fn fill_cautions(
-    r: &FillTransient,
-    rated: Option<ThermodynamicTemperature>,
-    exchange: &Exchange,
-) -> Vec<Caution> {
-    let mut out = model_notice(r.run.basis, exchange);
-    if exchange.wall.wrap.is_some_and(|w| w.liner_assumed) {
-        out.push(Caution::new(
-            Level::Caution,
-            "The composite cylinder's liner was not given and is taken as aluminium. A plastic-lined cylinder keeps more of the heat in the gas and runs hotter than this: give --liner plastic (liner = \"plastic\" in a site file) for one, and check the label or data sheet.",
+    if wall.wrap.is_some_and(|w| w.liner_assumed) {
+        out.push(Note::new(
+            "liner",
+            "The composite cylinder's liner was not given and is taken as aluminium (assumed). A plastic-lined cylinder keeps more of the heat in the gas and runs hotter than this: give --liner plastic (liner = \"plastic\" in a site file) for one, and check the label or data sheet.",
         ));
     }
-    out.extend(r.fill_to_pressure.and_then(|p| {
-        super::fill::fill_to_warning(
-            p,
-            r.run.end.pressure,
-            "The fill-to pressure at the planned rate (",
-            "",
-        )
-    }));
-    let peak = r.run.peak_gas();
-    if let Some(rated) = rated {
-        if peak > rated {
-            out.push(crate::caution!(
-                Level::Warning,
-                "At the planned rate the gas peaks at ",
-                Value::Temperature(peak),
-                ", above the rated temperature (",
-                Value::Temperature(rated),
-                "). Fill more slowly or in stages: see the highest safe rate.",
-            ));
-        }
-        if let Some(MaxRate::InletLimited(rate)) = r.max_rate {
-            out.push(crate::caution!(
-                Level::Notice,
-                "Even the fastest fill the inlet bore can pass (choked from the supply, about ",
-                Value::PressureRate(rate.per_second),
-                " on average) keeps the gas within the rated temperature: the connection, not the heating, limits the rate.",
-            ));
-        }
-        if r.max_rate == Some(MaxRate::NoneSafe) {
-            out.push(Caution::new(
-                Level::Warning,
-                "Even a fill over a day exceeds the rated temperature: the supply gas is too hot for this cylinder. Cool the supply.",
-            ));
-        }
-        if r.max_rate == Some(MaxRate::Unresolved) {
-            out.push(Caution::new(
-                Level::Caution,
-                "The highest fill rate within the rating could not be solved: a fill the search tried did not complete on the model. A very light wall (check the wall's mass as given, and its unit) follows the gas so closely that a slow fill exceeds the integration's step budget. Do not rely on a highest rate; the planned rate's result stands.",
-            ));
-        }
-    }
     out
 }
 
-fn vent_cautions(
-    r: &VentTransient,
-    check: Option<Depressuring>,
-    mdmt: Option<ThermodynamicTemperature>,
-    exchange: &Exchange,
-) -> Vec<Caution> {
-    let mut out = model_notice(r.run.basis, exchange);
-    if let Some(mdmt) = mdmt {
-        let wall = r.run.min_wall();
-        if wall < mdmt {
-            out.push(crate::caution!(
-                Level::Warning,
-                "The wall cools to ",
-                Value::Temperature(wall),
-                ", below the MDMT (",
-                Value::Temperature(mdmt),
-                "): brittle fracture is possible while the vessel is still under pressure. Vent more slowly or in stages, and have an authorised inspector confirm the low-temperature rating.",
-            ));
-        } else if r.run.min_gas() < mdmt {
-            out.push(crate::caution!(
-                Level::Caution,
-                "The gas falls to ",
-                Value::Temperature(r.run.min_gas()),
-                ", below the MDMT, while the wall stays at or above it (lowest ",
-                Value::Temperature(wall),
-                "). Keep to the vent rate assumed here and do not repeat vents back to back.",
-            ));
-        }
+/// A fill's cautions (a highest rate not resolved) and basis. Its hazards (the peak against
+/// the rating, the fill-to pressure) are the assessment's findings.
+fn fill_cautions(r: &FillTransient, exchange: &Exchange) -> (Vec<Caution>, Vec<Note>) {
+    let mut basis = model_basis(r.run.basis, exchange);
+    let mut out = Vec::new();
+    if let Some(MaxRate::InletLimited(rate)) = r.max_rate {
+        basis.push(crate::note!(
+            "highest rate",
+            "Even the fastest fill the inlet bore can pass (choked from the supply, about ",
+            Value::PressureRate(rate.per_second),
+            " on average) keeps the gas within the rated temperature: the connection, not the heating, limits the rate.",
+        ));
     }
-    if let Some(c) = check {
-        let meets = r.depressuring_time.is_some_and(|t| t <= c.limit);
-        if !meets {
-            out.push(crate::caution!(
-                Level::Warning,
-                "Depressuring check not met: the vessel does not reach ",
-                Value::Pressure(c.target),
-                " within ",
-                Value::Time(c.limit),
-                " through this vent path (the depressuring check, in the spirit of API 521). In a fire or emergency the vessel stays pressurised longer than intended; review the vent path with the responsible engineer.",
-            ));
-        }
+    if r.max_rate == Some(MaxRate::Unresolved) {
+        out.push(Caution::new(
+            Level::Caution,
+            "The highest fill rate within the rating is not resolved: a fill the search tried did not complete on the model. A very light wall (check the wall's mass as given, and its unit) follows the gas so closely that a slow fill exceeds the integration's step budget. Do not rely on a highest rate; the planned rate's result stands.",
+        ));
     }
-    out
+    (out, basis)
 }
 
 #[cfg(test)]
@@ -1428,11 +1359,10 @@ mod tests {
         let ex = exchange(HeatTransfer::Lumped, 0.01, None);
         let r = cylinder_fill(ramp(100.0), &ex);
         assert_eq!(r.max_rate, Some(MaxRate::Unresolved));
-        let cautions = fill_cautions(&r, Some(k(338.15)), &ex);
+        let (cautions, _) = fill_cautions(&r, &ex);
         assert!(cautions
             .iter()
-            .any(|c| c.message().contains("could not be solved")));
-        assert!(!cautions.iter().any(|c| c.message().contains("too hot")));
+            .any(|c| c.message().contains("not resolved")));
     }
 
     #[test]
@@ -1648,13 +1578,10 @@ mod tests {
             area,
             pa(101_325.0),
             pa(1.01 * 101_325.0),
-            (
-                Some(Depressuring {
-                    target: pa(5e5),
-                    limit: Time::new::<second>(900.0),
-                }),
-                None,
-            ),
+            Some(Depressuring {
+                target: pa(5e5),
+                limit: Time::new::<second>(900.0),
+            }),
             ex,
         )
         .unwrap()

@@ -12,13 +12,12 @@ use uom::si::{
 };
 
 use super::{
-    check_positive, check_temperature, end_phase_caution, gas_cautions, gas_error, user_state,
+    check_positive, check_temperature, gas_cautions, gas_error, user_state,
     MAX_VOLUME_M3,
 };
-use crate::caution;
-use crate::caution::{Assessed, Caution, Level};
+use crate::caution::{Assessed, Note};
 use crate::gas::{GasModel, State};
-use crate::units::{fmt_sig, Value};
+use crate::units::fmt_sig;
 use crate::InputError;
 
 /// Discharge coefficient of a sharp-edged orifice, the default (Perry's, ch. 10).
@@ -163,7 +162,7 @@ pub fn blow_down(
         input.pressure,
         input.temperature,
     )?;
-    let mut cautions = gas_cautions(model, &start);
+    let (cautions, mut basis) = gas_cautions(model, &start);
     let path = Path {
         model,
         process: input.process,
@@ -174,8 +173,8 @@ pub fn blow_down(
     let mass = |rho: MassDensity| rho * input.volume;
 
     if input.pressure <= input.down_to {
-        cautions.push(Caution::new(
-            Level::Notice,
+        basis.push(Note::new(
+            "vent process",
             "The vessel is already at or below the target pressure: nothing to vent.",
         ));
         let value = VentResult {
@@ -187,7 +186,11 @@ pub fn blow_down(
             required_orifice: None,
             history: Vec::new(),
         };
-        return Ok(Assessed { value, cautions });
+        return Ok(Assessed {
+            value,
+            cautions,
+            basis,
+        });
     }
 
     let end = path.at_pressure(input.down_to)?;
@@ -286,10 +289,11 @@ pub fn blow_down(
         required_orifice,
         history,
     };
-    cautions.extend(vent_cautions(model, input, &result));
+    basis.extend(vent_basis(input.process));
     Ok(Assessed {
         value: result,
         cautions,
+        basis,
     })
 }
 
@@ -346,45 +350,22 @@ impl Path<'_> {
     }
 }
 
-fn vent_cautions(model: &dyn GasModel, input: &VentInput, r: &VentResult) -> Vec<Caution> {
-    let mut out = Vec::new();
-    if let Some(mdmt) = input.min_metal_temperature {
-        if r.end.temperature < mdmt {
-            out.push(caution!(
-                Level::Warning,
-                "The gas falls to ",
-                Value::Temperature(r.end.temperature),
-                match input.process {
-                    Process::Isentropic => " at the isentropic bound (no heat from the wall), below the MDMT (",
-                    Process::Isothermal => ", below the MDMT (",
-                },
-                Value::Temperature(mdmt),
-                "). The metal lags the gas but can approach it in a long or repeated vent: brittle fracture is possible. Vent more slowly or in stages, compare the wall temperature from the wall heat-transfer model (vent --heat-transfer lumped; the worksheet section with heat from the wall), and have an authorised inspector confirm the vessel's low-temperature rating before venting this way.",
-            ));
-        }
-    } else if input.process == Process::Isentropic {
-        out.push(Caution::new(
-            Level::Notice,
-            "No --min-metal-temperature (MDMT) given: compare the final gas temperature with the vessel's MDMT on its rating plate.",
-        ));
-    }
-    out.extend(end_phase_caution(model, "The vent-down", &r.end));
-    out.push(Caution::new(
-        Level::Notice,
-        match input.process {
-            Process::Isentropic => "Isentropic vent: no heat from the wall, so the gas is the coldest a real vent gives. A real vent's time usually lies between the isentropic and the isothermal times (which is shorter depends on the pressure ratio: isentropic below about 80, isothermal above); --heat-transfer lumped models the wall.",
-            Process::Isothermal => "Isothermal vent: the wall keeps the gas at its starting temperature; a real fast vent's gas is colder (--process isentropic gives the cold bound, --heat-transfer lumped models the wall).",
-        },
-    ));
-    out.push(Caution::new(
-        Level::Caution,
-        "A venting gas jet is loud and its reaction force can whip an unrestrained line: wear hearing protection, restrain the vent line, and keep out of the jet's path.",
-    ));
-    out.push(Caution::new(
-        Level::Notice,
-        "Quasi-steady isentropic nozzle flow with the discharge coefficient given; piping between vessel and orifice, and valve characteristics, are not modelled and lengthen the vent.",
-    ));
-    out
+/// How the vent was found, for the basis. The hazards (cold metal, liquid in the vent path,
+/// the jet) are the assessment's findings.
+fn vent_basis(process: Process) -> Vec<Note> {
+    vec![
+        Note::new(
+            "vent process",
+            match process {
+                Process::Isentropic => "Isentropic vent: no heat from the wall, so the gas is the coldest a real vent gives (the cold bound). A real vent's time usually lies between the isentropic and the isothermal times (which is shorter depends on the pressure ratio: isentropic below about 80, isothermal above); the wall heat-transfer model gives the gas and wall temperatures a real vent reaches.",
+                Process::Isothermal => "Isothermal vent: the wall keeps the gas at its starting temperature; a real fast vent's gas is colder (the isentropic process gives the cold bound, the wall heat-transfer model the realistic one).",
+            },
+        ),
+        Note::new(
+            "nozzle",
+            "Quasi-steady isentropic nozzle flow with the discharge coefficient given; piping between vessel and orifice, and valve characteristics, are not modelled and lengthen the vent.",
+        ),
+    ]
 }
 
 #[cfg(test)]
@@ -526,16 +507,5 @@ mod tests {
             input.cd = cd;
             assert_eq!(blow_down(&air(), &input).unwrap_err().field, "cd");
         }
-    }
-
-    #[test]
-    fn gas_below_mdmt_is_a_warning() {
-        let mut input = air_vent(1e4, Process::Isentropic);
-        input.min_metal_temperature = Some(ThermodynamicTemperature::new::<kelvin>(244.15));
-        let r = blow_down(&air(), &input).unwrap();
-        assert!(r
-            .cautions
-            .iter()
-            .any(|c| c.level == Level::Warning && c.message().contains("MDMT")));
     }
 }

@@ -47,6 +47,27 @@ pub enum Value {
     Text(String),
 }
 
+impl Value {
+    /// The value in SI with its unit's name (pressures absolute, in Pa), or `None` for a
+    /// number or text.
+    pub fn si(&self) -> Option<(f64, &'static str)> {
+        Some(match self {
+            Value::Pressure(p) | Value::AbsolutePressure(p) => (p.get::<pascal>(), "Pa(a)"),
+            Value::Overpressure(p) => (p.get::<pascal>(), "Pa"),
+            Value::Temperature(t) => (t.get::<kelvin>(), "K"),
+            Value::Volume(v) => (v.get::<cubic_meter>(), "m3"),
+            Value::Energy(e) => (e.get::<joule>(), "J"),
+            Value::SpecificEnergy(e) => (e.get::<joule_per_kilogram>(), "J/kg"),
+            Value::Mass(m) => (m.get::<kilogram>(), "kg"),
+            Value::Distance(l) | Value::Diameter(l) => (l.get::<meter>(), "m"),
+            Value::Time(t) => (t.get::<second>(), "s"),
+            Value::MassFlow(m) => (m.get::<kilogram_per_second>(), "kg/s"),
+            Value::PressureRate(p) => (p.get::<pascal>(), "Pa/s"),
+            Value::Number(_) | Value::Text(_) => return None,
+        })
+    }
+}
+
 /// The unit system a person reads results in.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Default, clap::ValueEnum, serde::Serialize)]
 #[serde(rename_all = "lowercase")]

@@ -1,0 +1,316 @@
+//! The stored-energy assessment: the rule, its ideal-gas twin, and the findings on the
+//! pressure rating, the keep-back distance and the energy left before opening.
+
+use uom::si::f64::{Length, Pressure};
+use uom::si::{length::meter, pressure::pascal};
+
+use super::finding::{Finding, Hazard, Verdict};
+use super::gas;
+use crate::caution::{Level, Note, Part};
+use crate::gas::{ideal_twin, GasModel};
+use crate::report::EnergyReport;
+use crate::rules::blast::DistanceBasis;
+use crate::rules::energy::{self, EnergyInput, EnergyResult};
+use crate::units::{fmt_sig, Value};
+use crate::InputError;
+
+/// What the distance to keep people back is for.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum Work {
+    /// Work on a vessel in service (maintenance, a fill): people are kept back to the
+    /// standoff at this incident overpressure.
+    InService {
+        /// The overpressure whose standoff governs (6.9 kPa by default).
+        overpressure: Pressure,
+    },
+    /// A pneumatic pressure test: the test standard's exclusion distance governs.
+    PressureTest,
+}
+
+impl Work {
+    /// In-service work with the default 6.9 kPa (1 psi) standoff.
+    pub fn in_service() -> Work {
+        Work::InService {
+            overpressure: Pressure::new::<pascal>(energy::DEFAULT_OVERPRESSURES_PA[0]),
+        }
+    }
+}
+
+/// What the energy assessment is asked.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct EnergyAsk {
+    /// What the keep-back distance is for.
+    pub work: Work,
+    /// Whether the vessel is to be opened: then the energy left before opening is a finding.
+    pub before_opening: bool,
+}
+
+/// The stored-energy report of `input` with its findings, verdict, banners and basis.
+pub fn energy(
+    model: &dyn GasModel,
+    input: &EnergyInput,
+    ask: &EnergyAsk,
+) -> Result<EnergyReport, InputError> {
+    let mut input = input.clone();
+    if let Work::InService { overpressure } = ask.work {
+        if !input.overpressures.contains(&overpressure) {
+            input.overpressures.insert(0, overpressure);
+        }
+    }
+    let out = energy::stored_energy(model, &input)?;
+    let verdict = Verdict::new(findings(model, &input, &out.value, ask));
+    let mut basis = out.basis.clone();
+    basis.push(zone_note(ask.work));
+    let cautions = out.cautions.clone();
+    let mut report = EnergyReport::new(model, &input, out);
+    if let Some(ideal) = ideal_twin(model) {
+        if let Ok(out) = energy::stored_energy(&ideal, &input) {
+            report.compare_with(&EnergyReport::new(&ideal, &input, out));
+        }
+    }
+    report.cautions = super::banners(&verdict, cautions);
+    report.basis = super::basis(basis, super::Governing::Model);
+    report.verdict = verdict;
+    Ok(report)
+}
+
+fn zone_note(work: Work) -> Note {
+    match work {
+        Work::InService { overpressure } => crate::note!(
+            "keep-back distance",
+            "Work in service: people are kept back to the standoff at which the blast overpressure falls to ",
+            Value::Overpressure(overpressure),
+            " (Kingery–Bulmash); the pneumatic-test exclusion distance is shown for reference.",
+        ),
+        Work::PressureTest => Note::new(
+            "keep-back distance",
+            "Pressure test: people are kept back to the pneumatic-test exclusion distance (ASME PCC-2 safe-distance rule).",
+        ),
+    }
+}
+
+fn findings(
+    model: &dyn GasModel,
+    input: &EnergyInput,
+    r: &EnergyResult,
+    ask: &EnergyAsk,
+) -> Vec<Finding> {
+    let mut out = Vec::new();
+    if let Some(mawp) = input.mawp {
+        let against = |f: Finding| f.against(Value::Pressure(input.pressure), Some(Value::Pressure(mawp)));
+        out.push(if input.pressure > mawp {
+            against(Finding::stop(
+                Hazard::PressureRating,
+                Level::Danger,
+                "rating plate",
+                vec![
+                    Part::from("The pressure given is above the MAWP ("),
+                    Part::from(Value::Pressure(input.pressure)),
+                    Part::from(" > "),
+                    Part::from(Value::Pressure(mawp)),
+                    Part::from(")."),
+                ],
+                vec![Part::from("Do not approach or work on the vessel: reduce the pressure from a safe location and have the vessel and its relief device examined by an authorised inspector.")],
+            ))
+        } else {
+            against(Finding::ok(
+                Hazard::PressureRating,
+                "rating plate",
+                vec![
+                    Part::from("The pressure ("),
+                    Part::from(Value::Pressure(input.pressure)),
+                    Part::from(") is within the MAWP ("),
+                    Part::from(Value::Pressure(mawp)),
+                    Part::from(")."),
+                ],
+            ))
+        });
+    }
+    out.extend(zone(input, r, ask.work));
+    if ask.before_opening {
+        out.push(before_opening(input, r));
+    }
+    if input.pressure > input.ambient {
+        out.extend(gas::end_phase(
+            model,
+            "The isentropic expansion to ambient",
+            "isentropic bound",
+            &r.isentropic_end,
+        ));
+    }
+    out.extend(gas::released(model));
+    out
+}
+
+/// The distance to keep people back against what the site can keep clear.
+fn zone(input: &EnergyInput, r: &EnergyResult, work: Work) -> Option<Finding> {
+    if r.exclusion_basis == DistanceBasis::NoStoredEnergy {
+        return Some(Finding::ok(
+            Hazard::BlastZone,
+            "no stored energy",
+            vec![Part::from("The gas is at or below ambient pressure: it stores no expansion energy and needs no zone.")],
+        ));
+    }
+    let test = (r.exclusion_distance, "the pneumatic-test exclusion distance");
+    let (distance, what, basis) = match work {
+        Work::PressureTest => (test.0, test.1, "ASME PCC-2 safe distance".to_string()),
+        Work::InService { overpressure } => {
+            match r
+                .standoffs
+                .iter()
+                .find(|s| s.overpressure == overpressure)
+                .and_then(|s| s.distance)
+            {
+                Some(d) => (
+                    d,
+                    "the blast standoff",
+                    format!(
+                        "Kingery–Bulmash standoff to {} kPa",
+                        fmt_sig(overpressure.get::<pascal>() / 1e3, 3)
+                    ),
+                ),
+                // Outside the fits (a tiny or huge vessel) the test rule stands in.
+                None => (test.0, test.1, "ASME PCC-2 safe distance".to_string()),
+            }
+        }
+    };
+    if work == Work::PressureTest && r.exclusion_basis == DistanceBasis::BeyondRule {
+        return Some(
+            Finding::stop(
+                Hazard::BlastZone,
+                Level::Danger,
+                basis,
+                vec![
+                    Part::from("Stored energy "),
+                    Part::from(Value::Energy(r.energy.isentropic)),
+                    Part::from(" exceeds 271 MJ: the pneumatic-test safe-distance rule does not settle the exclusion zone."),
+                ],
+                vec![Part::from("Have a competent person analyse blast, fragments and barricades before any pressurised work or test.")],
+            )
+            .against(Value::Distance(distance), input.clearance.map(Value::Distance)),
+        );
+    }
+    let keep = |lead: &str| {
+        vec![
+            Part::from(lead),
+            Part::from(Value::Distance(distance)),
+            Part::from(format!(" ({what})")),
+        ]
+    };
+    let farthest = r
+        .standoffs
+        .iter()
+        .filter_map(|s| s.distance)
+        .fold(Length::new::<meter>(0.0), |a, b| if b > a { b } else { a });
+    let finding = match input.clearance {
+        None => Finding::action(
+            Hazard::BlastZone,
+            Level::Warning,
+            basis,
+            [keep("Keep everyone not needed for the task at least "), vec![Part::from(" away while the vessel is under pressure.")]].concat(),
+            vec![Part::from("Mark the zone and keep it clear; blast standoffs do not protect against fragments, which can travel much farther, so shield or barricade where the zone cannot be cleared.")],
+        ),
+        Some(clear) if distance > clear => Finding::stop(
+            Hazard::BlastZone,
+            Level::Danger,
+            basis,
+            [
+                keep("The distance to keep people back, "),
+                vec![
+                    Part::from(", is more than the site can keep clear ("),
+                    Part::from(Value::Distance(clear)),
+                    Part::from(")."),
+                ],
+            ]
+            .concat(),
+            vec![Part::from(match work {
+                Work::PressureTest => "Reduce the pressure or volume at risk, test hydrostatically, or provide engineered barricades before pressurising.",
+                Work::InService { .. } => "Reduce the pressure or volume at risk before the work, or provide engineered barricades.",
+            })],
+        ),
+        Some(clear) if farthest > clear => Finding::action(
+            Hazard::BlastZone,
+            Level::Warning,
+            basis,
+            vec![
+                Part::from("An overpressure standoff ("),
+                Part::from(Value::Distance(farthest)),
+                Part::from(") reaches beyond what the site can keep clear ("),
+                Part::from(Value::Distance(clear)),
+                Part::from(")."),
+            ],
+            vec![Part::from("Warn occupants of nearby buildings and keep them away from windows.")],
+        ),
+        Some(clear) => Finding::ok(
+            Hazard::BlastZone,
+            basis,
+            [
+                keep("Keep everyone not needed for the task "),
+                vec![
+                    Part::from(" away while the vessel is under pressure: within the site's clearance of "),
+                    Part::from(Value::Distance(clear)),
+                    Part::from("."),
+                ],
+            ]
+            .concat(),
+        ),
+    };
+    // Where a farther standoff is what reaches past the clearance, that is the value.
+    let shown = match input.clearance {
+        Some(clear) if distance <= clear && farthest > clear => farthest,
+        _ => distance,
+    };
+    Some(finding.against(Value::Distance(shown), input.clearance.map(Value::Distance)))
+}
+
+/// The energy left before the vessel is opened, against the limit where one is set.
+fn before_opening(input: &EnergyInput, r: &EnergyResult) -> Finding {
+    let e = Value::Energy(r.energy.isentropic);
+    let limit = input.energy_limit.map(Value::Energy);
+    if input.pressure <= input.ambient {
+        return Finding::ok(
+            Hazard::StoredEnergy,
+            "pressure given",
+            vec![Part::from("The pressure given is at or below ambient: the gas stores no expansion energy. Confirm zero on two independent indications before opening.")],
+        )
+        .against(e, limit);
+    }
+    let finding = match (input.energy_limit, r.vent_down_target) {
+        (Some(l), Some(p)) => Finding::action(
+            Hazard::StoredEnergy,
+            Level::Notice,
+            "isentropic energy at the limit",
+            vec![
+                Part::from("The vessel stores "),
+                Part::from(e.clone()),
+                Part::from(", above the limit of "),
+                Part::from(Value::Energy(l)),
+                Part::from(" for opening."),
+            ],
+            vec![
+                Part::from("Vent down to "),
+                Part::from(Value::Pressure(p)),
+                Part::from(" or below, isolate and lock out, and verify on two independent indications before opening."),
+            ],
+        ),
+        (Some(l), None) => Finding::ok(
+            Hazard::StoredEnergy,
+            "isentropic energy",
+            vec![
+                Part::from("The stored energy ("),
+                Part::from(e.clone()),
+                Part::from(") is already within the limit for opening ("),
+                Part::from(Value::Energy(l)),
+                Part::from("): no vent-down is needed to meet it."),
+            ],
+        ),
+        (None, _) => Finding::action(
+            Hazard::StoredEnergy,
+            Level::Notice,
+            "isentropic energy",
+            vec![Part::from("The vessel stores "), Part::from(e.clone()), Part::from(".")],
+            vec![Part::from("Before opening: isolate, lock out and tag out, vent to zero, verify zero on two independent indications, and open slowly.")],
+        ),
+    };
+    finding.against(e, limit)
+}

@@ -1,0 +1,68 @@
+//! The assessment: runs what a calculation or a worksheet asks (the rule, its ideal-gas
+//! twin, the run with wall heat transfer and its searches), and returns the report with its
+//! findings, verdict, banners and basis. The command line, the worksheets and `check` call
+//! this and render; none of them decides a hazard.
+//!
+//! Findings are decided on the most realistic result that ran ([`Governing::Model`]): the
+//! wall model where it ran, the bound where it did not, each finding naming its basis. A
+//! bound is then a result shown for comparison, never a contradicting banner.
+
+mod energy;
+pub mod finding;
+mod fill;
+mod gas;
+mod vent;
+
+pub use energy::{energy, EnergyAsk, Work};
+pub use fill::{fill, PlannedFill};
+pub use finding::{Decision, Finding, Hazard, Status, Verdict};
+pub use vent::{vent, WallVent};
+
+use crate::caution::{distinct, ordered, Caution, Note};
+
+/// Which result governs a hazard that both a bound and the wall model assess.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default, serde::Serialize, serde::Deserialize)]
+#[serde(rename_all = "lowercase")]
+pub enum Governing {
+    /// The wall model where it ran (the default); the bound otherwise.
+    #[default]
+    Model,
+    /// The bound (adiabatic fill, isentropic vent), even where the wall model ran.
+    Bound,
+}
+
+impl Governing {
+    /// The bound if either asks for it, else the model.
+    pub fn either(a: Option<Governing>, b: Option<Governing>) -> Governing {
+        if a == Some(Governing::Bound) || b == Some(Governing::Bound) {
+            Governing::Bound
+        } else {
+            Governing::Model
+        }
+    }
+
+    /// The basis note that says which governs.
+    fn note(self) -> Note {
+        Note::new(
+            "governing result",
+            match self {
+                Governing::Model => "The findings are decided on the most realistic result that ran: the wall heat-transfer model where it ran, the bound (adiabatic fill, isentropic vent) where it did not. The bounds are shown in the results for comparison.",
+                Governing::Bound => "The findings are decided on the bounds (adiabatic fill, isentropic vent), as the site or template asks (governing = \"bound\"); the wall model's results are shown for comparison.",
+            },
+        )
+    }
+}
+
+/// The banners of `verdict` and the results' own `cautions`, ordered, the deferral last.
+fn banners(verdict: &Verdict, cautions: Vec<Caution>) -> Vec<Caution> {
+    ordered(verdict.banners().into_iter().chain(cautions).collect())
+}
+
+/// `basis` without repeats, with the note on which result governs.
+fn basis(mut notes: Vec<Note>, governing: Governing) -> Vec<Note> {
+    notes.push(governing.note());
+    distinct(notes)
+}
+
+#[cfg(test)]
+mod tests;
