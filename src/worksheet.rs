@@ -177,6 +177,32 @@ fn kind_word(item: &Equipment) -> &'static str {
     }
 }
 
+/// Why `template` does not fit `item` (the wrong kind of equipment, or a value the template
+/// starts from that the item lacks), or `None` when it fits.
+pub fn misfit(item: &Equipment, template: &Template) -> Option<String> {
+    if item.kind() != template.equipment {
+        return Some(format!(
+            "template '{}' is for a {}, and '{}' is a {}",
+            template.name,
+            match template.equipment {
+                EquipmentKind::Vessel => "vessel",
+                EquipmentKind::Cylinder => "cylinder",
+            },
+            item.tag(),
+            kind_word(item)
+        ));
+    }
+    match item {
+        Equipment::Vessel(v) if template.pressure == PressureBasis::Test && v.test_pressure.is_none() => {
+            Some(format!(
+                "template '{}' starts from the test pressure, and '{}' has no test_pressure",
+                template.name, v.tag
+            ))
+        }
+        _ => None,
+    }
+}
+
 /// Builds the worksheet for `item` on `site` with `template`.
 pub fn build(
     model: &dyn GasModel,

@@ -227,3 +227,54 @@ proptest! {
         }
     }
 }
+
+/// Findings of random hazards and statuses.
+fn findings() -> impl Strategy<Value = Vec<pvhazard::assess::Finding>> {
+    use pvhazard::assess::{Finding, Hazard};
+    use pvhazard::caution::{Level, Part};
+    let hazards = [
+        Hazard::PressureRating,
+        Hazard::BlastZone,
+        Hazard::StoredEnergy,
+        Hazard::ColdMetal,
+        Hazard::FillTemperature,
+        Hazard::FillTo,
+        Hazard::VentTime,
+        Hazard::TwoPhase,
+    ];
+    prop::collection::vec((prop::sample::select(hazards.to_vec()), 0..3u8), 0..12).prop_map(
+        |v| {
+            v.into_iter()
+                .map(|(h, s)| {
+                    let result = vec![Part::from(format!("{h:?} {s}"))];
+                    let action = vec![Part::from("Act.")];
+                    match s {
+                        0 => Finding::ok(h, "test", result),
+                        1 => Finding::action(h, Level::Caution, "test", result, action),
+                        _ => Finding::stop(h, Level::Warning, "test", result, action),
+                    }
+                })
+                .collect()
+        },
+    )
+}
+
+proptest! {
+    /// The verdict is no-go exactly when some finding stops the work, go exactly when every
+    /// finding is ok; one finding per hazard, and one banner per finding not ok.
+    #[test]
+    fn the_verdict_follows_its_findings(found in findings()) {
+        use pvhazard::assess::{Decision, Status, Verdict};
+        let any_stop = found.iter().any(|f| f.status == Status::Stop);
+        let all_ok = found.iter().all(|f| f.status == Status::Ok);
+        let hazards: std::collections::HashSet<_> = found.iter().map(|f| f.hazard).collect();
+        let v = Verdict::new(found);
+        prop_assert_eq!(v.decision == Decision::NoGo, any_stop);
+        prop_assert_eq!(v.decision == Decision::Go, all_ok);
+        prop_assert_eq!(v.findings.len(), hazards.len());
+        prop_assert_eq!(
+            v.banners().len(),
+            v.findings.iter().filter(|f| f.status != Status::Ok).count()
+        );
+    }
+}

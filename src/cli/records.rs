@@ -149,6 +149,9 @@ pub(super) fn worksheet_command(a: WorksheetArgs) -> Result<String, Failure> {
     // no partial batch behind.
     let progress = a.all && std::io::stderr().is_terminal();
     let mut records = Vec::new();
+    // With --all, a template that does not fit an item skips it, with the reason; the batch
+    // fails only when it fits no item.
+    let mut skipped = Vec::new();
     for (i, item) in items.iter().enumerate() {
         if progress {
             eprint!("\r[{}/{}] {:<24}", i + 1, items.len(), item.tag());
@@ -157,6 +160,12 @@ pub(super) fn worksheet_command(a: WorksheetArgs) -> Result<String, Failure> {
             Some(t) => t.clone(),
             None => template::resolve(template::default_for(item.kind()))?,
         };
+        if a.all {
+            if let Some(why) = worksheet::misfit(item, &template) {
+                skipped.push(format!("{}: skipped ({why})\n", item.tag()));
+                continue;
+            }
+        }
         let model = super::gas_model(a.model, item.gas());
         let sheet = worksheet::build(model.as_ref(), &site, item, &template, &meta)?;
         let pdf =
@@ -169,10 +178,22 @@ pub(super) fn worksheet_command(a: WorksheetArgs) -> Result<String, Failure> {
             a.work_order.as_deref(),
             &date.format("%Y-%m-%d").to_string(),
         );
-        records.push((item.tag().to_string(), sheet.highest, stem, pdf, json));
+        records.push((
+            item.tag().to_string(),
+            (sheet.verdict.decision, sheet.highest),
+            stem,
+            pdf,
+            json,
+        ));
     }
     if progress {
         eprintln!();
+    }
+    if records.is_empty() && !skipped.is_empty() {
+        return Err(Failure::Refused(format!(
+            "the template fits no item on the site; nothing is written:\n{}",
+            skipped.concat().trim_end()
+        )));
     }
     std::fs::create_dir_all(&a.out).map_err(|e| {
         Failure::Internal(format!("cannot create the folder {}: {e}", a.out.display()))
@@ -194,18 +215,20 @@ pub(super) fn worksheet_command(a: WorksheetArgs) -> Result<String, Failure> {
         }
     }
     let mut text = String::new();
-    for ((tag, highest, _, _, _), batch) in records.iter().zip(&batches) {
+    for ((tag, (decision, highest), _, _, _), batch) in records.iter().zip(&batches) {
         let written = batch.write(a.force).map_err(|e| match e {
             record::RecordError::Exists(_) => Failure::Refused(e.to_string()),
             record::RecordError::Io { .. } => Failure::Internal(e.to_string()),
         })?;
         let names: Vec<String> = written.iter().map(|p| p.display().to_string()).collect();
         text.push_str(&format!(
-            "{tag}: {} (highest caution: {})\n",
+            "{tag}: {} ({}; highest caution: {})\n",
             names.join(", "),
+            decision.word(),
             highest.word()
         ));
     }
+    text.push_str(&skipped.concat());
     Ok(text)
 }
 
