@@ -14,9 +14,7 @@ use crate::assess::{
 };
 use crate::caution::{deferral, distinct, ordered, Caution, Level, Note, Part};
 use crate::gas::GasModel;
-use crate::report::{
-    Axis, AxisKind, Document, Entry, Plot, Section, Series, Value, TOOL_VERSION,
-};
+use crate::report::{Axis, AxisKind, Document, Entry, Plot, Section, Series, Value, TOOL_VERSION};
 use crate::rules::energy::{
     self, EnergyInput, DEFAULT_OVERPRESSURES_PA, DEFAULT_TNT_ENERGY_J_PER_KG,
 };
@@ -193,7 +191,9 @@ pub fn misfit(item: &Equipment, template: &Template) -> Option<String> {
         ));
     }
     match item {
-        Equipment::Vessel(v) if template.pressure == PressureBasis::Test && v.test_pressure.is_none() => {
+        Equipment::Vessel(v)
+            if template.pressure == PressureBasis::Test && v.test_pressure.is_none() =>
+        {
             Some(format!(
                 "template '{}' starts from the test pressure, and '{}' has no test_pressure",
                 template.name, v.tag
@@ -270,7 +270,13 @@ pub fn build(
             .map_err(|e| item_error(site, item, basis, e))?,
     }
     let verdict = sheet.verdict;
-    let cautions = ordered(verdict.banners().into_iter().chain(sheet.cautions).collect());
+    let cautions = ordered(
+        verdict
+            .banners()
+            .into_iter()
+            .chain(sheet.cautions)
+            .collect(),
+    );
     let basis = distinct(sheet.basis);
     let highest = cautions
         .iter()
@@ -795,7 +801,10 @@ fn cylinder_parts(
             t.result_entries(),
         );
     }
-    out.section("Fast fill, no heat to the wall (the adiabatic bound)", report.result_entries());
+    out.section(
+        "Fast fill, no heat to the wall (the adiabatic bound)",
+        report.result_entries(),
+    );
     out.section(
         "Fast fill on the ideal gas, for comparison",
         report.comparison_entries(),

@@ -285,14 +285,19 @@ fn assert_worksheet(dir: &Path, stem: &str, tag: &str, kind: &str, template: &st
         );
     };
     // The decision leads; every banner but the deferral (which is in the footer) is shown.
-    has(match rec["verdict"]["decision"].as_str().expect("a decision") {
-        "go" => "GO",
-        "go-with-actions" => "GO WITH ACTIONS",
-        _ => "NO-GO",
-    });
+    has(
+        match rec["verdict"]["decision"].as_str().expect("a decision") {
+            "go" => "GO",
+            "go-with-actions" => "GO WITH ACTIONS",
+            _ => "NO-GO",
+        },
+    );
     has("Basis and assumptions");
     for c in cautions {
-        if !c["message"].as_str().is_some_and(|m| m.contains("licensed or authorised inspector")) {
+        if !c["message"]
+            .as_str()
+            .is_some_and(|m| m.contains("licensed or authorised inspector"))
+        {
             has(c["level"].as_str().expect("a caution level"));
         }
     }
@@ -1491,9 +1496,10 @@ fn assert_decision_first(record: &Value) {
             .any(|f| f["hazard"] == hazard && f["status"] == "ok")
         {
             assert!(
-                !cautions.iter().any(|c| (c["level"] == "WARNING"
-                    || c["level"] == "DANGER")
-                    && c["message"].as_str().unwrap().contains(bound_words)),
+                !cautions
+                    .iter()
+                    .any(|c| (c["level"] == "WARNING" || c["level"] == "DANGER")
+                        && c["message"].as_str().unwrap().contains(bound_words)),
                 "a bound's WARNING on {hazard} while it is ok: {messages:?}"
             );
         }
@@ -1575,7 +1581,10 @@ fn check_tells_a_too_fast_fill_from_a_slow_one() {
     assert_eq!(assert_ranked(&summary), ["FAST", "SLOW"]);
     let text = pvhazard().arg("check").arg(&site).assert().code(0);
     let stdout = String::from_utf8(text.get_output().stdout.clone()).unwrap();
-    assert!(stdout.contains("NO-GO") && stdout.contains("Fill temperature"), "{stdout}");
+    assert!(
+        stdout.contains("NO-GO") && stdout.contains("Fill temperature"),
+        "{stdout}"
+    );
 }
 
 #[test]
@@ -1600,9 +1609,85 @@ fn a_site_that_asks_for_the_bound_to_govern_gets_it() {
         .iter()
         .find(|f| f["hazard"] == "cold-metal")
         .unwrap();
-    assert_eq!((cold["status"].as_str(), cold["basis"].as_str()), (Some("stop"), Some("isentropic bound")));
-    let bad = scratch.write("bad.toml", &edit(&text, "governing = \"bound\"", "governing = \"worst\""));
+    assert_eq!(
+        (cold["status"].as_str(), cold["basis"].as_str()),
+        (Some("stop"), Some("isentropic bound"))
+    );
+    let bad = scratch.write(
+        "bad.toml",
+        &edit(&text, "governing = \"bound\"", "governing = \"worst\""),
+    );
     let run = pvhazard().arg("check").arg(&bad).assert().code(2);
     let stderr = String::from_utf8(run.get_output().stderr.clone()).unwrap();
-    assert!(stderr.contains("site.governing") && stderr.contains("model, bound"), "{stderr}");
+    assert!(
+        stderr.contains("site.governing") && stderr.contains("model, bound"),
+        "{stderr}"
+    );
+}
+
+/// The text of a PDF's first page.
+fn first_page_text(path: &Path) -> String {
+    let bytes = std::fs::read(path).expect("the PDF is readable");
+    let doc = pdf_doc(&bytes);
+    doc.extract_text(&[1])
+        .expect("the first page's text can be extracted")
+}
+
+#[test]
+fn page_one_holds_the_decision_and_every_finding() {
+    for (site, template) in [
+        (LARKSPUR, None),
+        (LARKSPUR, Some("pressure-test")),
+        (KESTREL, None),
+    ] {
+        let scratch = Scratch::new(&format!(
+            "page-one-{site}-{}",
+            template.unwrap_or("default")
+        ));
+        let out = scratch.path("out");
+        let mut extra = vec!["--all"];
+        if let Some(t) = template {
+            extra.extend(["--template", t]);
+        }
+        worksheet(&sample(site), &out, &extra).assert().code(0);
+        for json in names(&out).iter().filter(|n| n.ends_with(".json")) {
+            let rec = json_file(&out.join(json));
+            let page = first_page_text(&out.join(json.replace(".json", ".pdf")));
+            let decision = match rec["verdict"]["decision"].as_str().unwrap() {
+                "go" => "GO",
+                "go-with-actions" => "GO WITH ACTIONS",
+                _ => "NO-GO",
+            };
+            assert!(
+                page.contains(decision),
+                "{json}: no {decision} on page 1:\n{page}"
+            );
+            for f in rec["verdict"]["findings"].as_array().unwrap() {
+                let title = hazard_title(f["hazard"].as_str().unwrap());
+                assert!(
+                    page.contains(title),
+                    "{json}: finding {title} is not on page 1:\n{page}"
+                );
+            }
+        }
+    }
+}
+
+/// A finding's name in the findings table.
+fn hazard_title(id: &str) -> &'static str {
+    match id {
+        "pressure-rating" => "Pressure rating",
+        "blast-zone" => "Keep-back distance",
+        "stored-energy" => "Energy before opening",
+        "cold-metal" => "Cold metal",
+        "fill-temperature" => "Fill temperature",
+        "fill-to" => "Fill-to pressure",
+        "vent-time" => "Vent time",
+        "two-phase" => "Liquid or frost",
+        "vent-jet" => "Vent jet",
+        "asphyxiant" => "Asphyxiant gas",
+        "oxidiser" => "Oxidising gas",
+        "flammable" => "Flammable gas",
+        _ => "Toxic gas",
+    }
 }

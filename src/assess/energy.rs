@@ -97,7 +97,8 @@ fn findings(
 ) -> Vec<Finding> {
     let mut out = Vec::new();
     if let Some(mawp) = input.mawp {
-        let against = |f: Finding| f.against(Value::Pressure(input.pressure), Some(Value::Pressure(mawp)));
+        let against =
+            |f: Finding| f.against(Value::Pressure(input.pressure), Some(Value::Pressure(mawp)));
         out.push(if input.pressure > mawp {
             against(Finding::stop(
                 Hazard::PressureRating,
@@ -151,7 +152,10 @@ fn zone(input: &EnergyInput, r: &EnergyResult, work: Work) -> Option<Finding> {
             vec![Part::from("The gas is at or below ambient pressure: it stores no expansion energy and needs no zone.")],
         ));
     }
-    let test = (r.exclusion_distance, "the pneumatic-test exclusion distance");
+    let test = (
+        r.exclusion_distance,
+        "the pneumatic-test exclusion distance",
+    );
     let (distance, what, basis) = match work {
         Work::PressureTest => (test.0, test.1, "ASME PCC-2 safe distance".to_string()),
         Work::InService { overpressure } => {

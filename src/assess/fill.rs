@@ -67,7 +67,10 @@ pub fn fill(
 }
 
 fn findings(r: &FillReport, max_rate: Option<MaxRate>, governing: Governing) -> Vec<Finding> {
-    let model = r.transient.as_ref().filter(|_| governing == Governing::Model);
+    let model = r
+        .transient
+        .as_ref()
+        .filter(|_| governing == Governing::Model);
     vec![temperature(r, model, max_rate), fill_to(r, model)]
 }
 
@@ -100,12 +103,7 @@ fn temperature(
         )
         .against(Value::Temperature(peak), None);
     };
-    let against = |f: Finding| {
-        f.against(
-            Value::Temperature(peak),
-            Some(Value::Temperature(rated)),
-        )
-    };
+    let against = |f: Finding| f.against(Value::Temperature(peak), Some(Value::Temperature(rated)));
     let result = |relation: &str| {
         vec![
             Part::from(lead),
@@ -152,7 +150,11 @@ fn fill_to(r: &FillReport, model: Option<&FillTransientReport>) -> Finding {
             t.settled_pressure_pa,
             "wall model at the planned rate",
         ),
-        None => (r.fill_to_pressure_pa, r.settled_pressure_pa, "adiabatic bound"),
+        None => (
+            r.fill_to_pressure_pa,
+            r.settled_pressure_pa,
+            "adiabatic bound",
+        ),
     };
     let limit_value = Some(Value::Pressure(limit));
     let Some(p) = stop_at else {
@@ -215,7 +217,9 @@ fn fill_to(r: &FillReport, model: Option<&FillTransientReport>) -> Finding {
         basis,
         [
             result,
-            vec![Part::from(", or fill to the target and top up after the cylinder cools.")],
+            vec![Part::from(
+                ", or fill to the target and top up after the cylinder cools.",
+            )],
         ]
         .concat(),
     ))

@@ -187,6 +187,19 @@ impl Finding {
         })
     }
 
+    /// One line for a list: the hazard, its value against its limit, and the basis, e.g.
+    /// `Cold metal: 14 °C, limit -29 °C [wall model]`.
+    pub fn headline(&self, display: &Display) -> String {
+        let mut head = self.hazard.title().to_string();
+        if let Some(value) = &self.value {
+            head.push_str(&format!(": {}", display.short(value)));
+            if let Some(limit) = &self.limit {
+                head.push_str(&format!(", limit {}", display.short(limit)));
+            }
+        }
+        format!("{head} [{}]", self.basis)
+    }
+
     /// The result in `display`'s units.
     pub fn result_text(&self, display: &Display) -> String {
         render_parts(&self.result, display)

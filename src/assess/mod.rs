@@ -8,8 +8,8 @@
 //! bound is then a result shown for comparison, never a contradicting banner.
 
 mod energy;
-pub mod finding;
 mod fill;
+pub mod finding;
 mod gas;
 mod vent;
 

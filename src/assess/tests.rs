@@ -106,12 +106,19 @@ fn the_wall_model_governs_cold_metal_where_it_ran() {
 
     let bound = vent(&model, &input, Some(&receiver_wall()), Governing::Bound).unwrap();
     let cold = bound.verdict.finding(Hazard::ColdMetal).unwrap();
-    assert_eq!((cold.status, cold.basis.as_str()), (Status::Stop, "isentropic bound"));
+    assert_eq!(
+        (cold.status, cold.basis.as_str()),
+        (Status::Stop, "isentropic bound")
+    );
     assert_eq!(bound.verdict.decision, Decision::NoGo);
 
     let alone = vent(&model, &input, None, Governing::Model).unwrap();
     let cold = alone.verdict.finding(Hazard::ColdMetal).unwrap();
-    assert_eq!(cold.status, Status::Stop, "without the wall model the bound governs");
+    assert_eq!(
+        cold.status,
+        Status::Stop,
+        "without the wall model the bound governs"
+    );
     assert!(cold
         .action_text(&crate::caution::si_display())
         .contains("--heat-transfer lumped"));
@@ -156,20 +163,33 @@ fn a_fill_within_its_rating_at_the_planned_rate_carries_no_adiabatic_warning() {
     // 118 °C, the planned 20 bar/min fill with heat to the wall stays well within 65 °C.
     let model = air();
     let (input, planned) = composite_fill(20.0);
-    let r = fill(&model, &input, pa(AMBIENT_PA), Some(&planned), Governing::Model).unwrap();
-    assert!(r.final_temperature_k > k(338.15), "the bound exceeds the rating");
+    let r = fill(
+        &model,
+        &input,
+        pa(AMBIENT_PA),
+        Some(&planned),
+        Governing::Model,
+    )
+    .unwrap();
+    assert!(
+        r.final_temperature_k > k(338.15),
+        "the bound exceeds the rating"
+    );
     let t = r.verdict.finding(Hazard::FillTemperature).unwrap();
-    assert_eq!((t.status, t.basis.as_str()), (Status::Ok, "wall model at the planned rate"));
-    assert!(!r
-        .cautions
-        .iter()
-        .any(|c| c.message().contains("adiabatic")));
+    assert_eq!(
+        (t.status, t.basis.as_str()),
+        (Status::Ok, "wall model at the planned rate")
+    );
+    assert!(!r.cautions.iter().any(|c| c.message().contains("adiabatic")));
     assert_banners_apply(&r.verdict, &r.cautions);
 
     // Without the planned rate the bound governs, and the action asks for the rate.
     let alone = fill(&model, &input, pa(AMBIENT_PA), None, Governing::Model).unwrap();
     let t = alone.verdict.finding(Hazard::FillTemperature).unwrap();
-    assert_eq!((t.status, t.basis.as_str()), (Status::Stop, "adiabatic bound"));
+    assert_eq!(
+        (t.status, t.basis.as_str()),
+        (Status::Stop, "adiabatic bound")
+    );
     assert_eq!(alone.verdict.decision, Decision::NoGo);
 }
 
@@ -177,7 +197,14 @@ fn a_fill_within_its_rating_at_the_planned_rate_carries_no_adiabatic_warning() {
 fn a_too_fast_fill_is_no_go_and_names_the_highest_safe_rate() {
     let model = air();
     let (input, planned) = composite_fill(3000.0);
-    let r = fill(&model, &input, pa(AMBIENT_PA), Some(&planned), Governing::Model).unwrap();
+    let r = fill(
+        &model,
+        &input,
+        pa(AMBIENT_PA),
+        Some(&planned),
+        Governing::Model,
+    )
+    .unwrap();
     let t = r.verdict.finding(Hazard::FillTemperature).unwrap();
     assert_eq!(t.status, Status::Stop);
     assert_eq!(r.verdict.decision, Decision::NoGo);
@@ -248,7 +275,10 @@ fn in_service_work_keeps_people_to_the_standoff_a_test_to_the_test_rule() {
     .unwrap();
     let zone = test.verdict.finding(Hazard::BlastZone).unwrap();
     assert_eq!((zone.status, zone.level), (Status::Stop, Level::Danger));
-    assert_eq!(zone.value, Some(crate::units::Value::Distance(Length::new::<meter>(30.0))));
+    assert_eq!(
+        zone.value,
+        Some(crate::units::Value::Distance(Length::new::<meter>(30.0)))
+    );
 }
 
 #[test]
@@ -270,5 +300,12 @@ fn one_banner_per_hazard_across_a_worksheets_calculations() {
     for h in [Hazard::TwoPhase, Hazard::Asphyxiant] {
         assert_eq!(merged.findings.iter().filter(|f| f.hazard == h).count(), 1);
     }
-    assert_eq!(merged.banners().len(), merged.findings.iter().filter(|f| f.status != Status::Ok).count());
+    assert_eq!(
+        merged.banners().len(),
+        merged
+            .findings
+            .iter()
+            .filter(|f| f.status != Status::Ok)
+            .count()
+    );
 }

@@ -61,8 +61,12 @@ pub fn vent(
             Hazard::VentJet,
             Level::Caution,
             "common practice",
-            vec![Part::from("A venting gas jet is loud and its reaction force can whip an unrestrained line.")],
-            vec![Part::from("Wear hearing protection, restrain the vent line, and keep out of the jet's path.")],
+            vec![Part::from(
+                "A venting gas jet is loud and its reaction force can whip an unrestrained line.",
+            )],
+            vec![Part::from(
+                "Wear hearing protection, restrain the vent line, and keep out of the jet's path.",
+            )],
         ));
     }
     found.extend(gas::released(model));
@@ -93,8 +97,14 @@ fn cold_metal(r: &VentReport, input: &VentInput, governing: Governing) -> Findin
             Hazard::ColdMetal,
             Level::Notice,
             basis,
-            vec![Part::from(what), Part::from(Value::Temperature(coldest)), Part::from(".")],
-            vec![Part::from("Compare it with the MDMT on the vessel's rating plate.")],
+            vec![
+                Part::from(what),
+                Part::from(Value::Temperature(coldest)),
+                Part::from("."),
+            ],
+            vec![Part::from(
+                "Compare it with the MDMT on the vessel's rating plate.",
+            )],
         )
         .against(Value::Temperature(coldest), None);
     };
@@ -125,11 +135,15 @@ fn cold_metal(r: &VentReport, input: &VentInput, governing: Governing) -> Findin
                     vec![
                         Part::from("The gas falls to "),
                         Part::from(Value::Temperature(gas)),
-                        Part::from(", below the MDMT, while the wall stays at or above it (lowest "),
+                        Part::from(
+                            ", below the MDMT, while the wall stays at or above it (lowest ",
+                        ),
                         Part::from(Value::Temperature(wall)),
                         Part::from(")."),
                     ],
-                    vec![Part::from("Keep to the vent rate assumed here and do not repeat vents back to back.")],
+                    vec![Part::from(
+                        "Keep to the vent rate assumed here and do not repeat vents back to back.",
+                    )],
                 )
             } else {
                 Finding::ok(

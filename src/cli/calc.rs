@@ -8,8 +8,8 @@ use uom::si::f64::{
 use uom::si::pressure::pascal;
 
 use super::Failure;
-use crate::atmosphere;
 use crate::assess::{self, EnergyAsk, Governing, PlannedFill, WallVent, Work};
+use crate::atmosphere;
 use crate::gas::{Gas, ModelKind};
 use crate::heat;
 use crate::record;

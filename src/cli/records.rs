@@ -323,23 +323,12 @@ pub(super) fn check_command(a: CheckArgs) -> Result<(String, i32), Failure> {
         ));
     }
     for i in items.iter().filter(|i| i.verdict.worst() > Status::Ok) {
-        text.push_str(&format!(
-            "\n{} ({}):\n",
-            i.tag,
-            i.verdict.decision.word()
-        ));
+        text.push_str(&format!("\n{} ({}):\n", i.tag, i.verdict.decision.word()));
         for f in i.verdict.findings.iter().filter(|f| f.status > Status::Ok) {
-            let mut head = format!("{}", f.hazard.title());
-            if let Some(v) = &f.value {
-                head.push_str(&format!(": {}", display.short(v)));
-                if let Some(l) = &f.limit {
-                    head.push_str(&format!(", limit {}", display.short(l)));
-                }
-            }
             text.push_str(&format!(
-                "  {:<7} {head} [{}]\n          {}\n",
+                "  {:<7} {}\n          {}\n",
                 f.status.word(),
-                f.basis,
+                f.headline(&display),
                 f.action_text(&display)
             ));
         }

@@ -42,7 +42,10 @@ pub fn render_text(sheet: &Worksheet, system: UnitSystem) -> String {
         }
     }
     out.push('\n');
-    out.push_str(&wrap(&format!("{:<8} ", last.level.word()), &last.render(&display)));
+    out.push_str(&wrap(
+        &format!("{:<8} ", last.level.word()),
+        &last.render(&display),
+    ));
     out
 }
 
@@ -63,15 +66,7 @@ fn verdict(out: &mut String, v: &Verdict, d: &Display) {
     }
     out.push_str("\nFindings\n");
     for f in &v.findings {
-        let mut head = f.hazard.title().to_string();
-        if let Some(value) = &f.value {
-            head.push_str(&format!(": {}", d.short(value)));
-            if let Some(limit) = &f.limit {
-                head.push_str(&format!(", limit {}", d.short(limit)));
-            }
-        }
-        head.push_str(&format!(" [{}]", f.basis));
-        out.push_str(&wrap(&format!("  {:<7} ", f.status.word()), &head));
+        out.push_str(&wrap(&format!("  {:<7} ", f.status.word()), &f.headline(d)));
         let then = if f.status == Status::Ok {
             f.result_text(d)
         } else {

@@ -12,8 +12,8 @@ use super::{
     MAX_VOLUME_M3,
 };
 use crate::caution::{self, Assessed, Note};
-use crate::note;
 use crate::gas::{GasModel, State};
+use crate::note;
 use crate::units::{fmt_sig, Value};
 use crate::InputError;
 

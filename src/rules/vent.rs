@@ -12,8 +12,7 @@ use uom::si::{
 };
 
 use super::{
-    check_positive, check_temperature, gas_cautions, gas_error, user_state,
-    MAX_VOLUME_M3,
+    check_positive, check_temperature, gas_cautions, gas_error, user_state, MAX_VOLUME_M3,
 };
 use crate::caution::{Assessed, Note};
 use crate::gas::{GasModel, State};
