@@ -157,20 +157,25 @@ fn composite_fill(rate_bar_per_min: f64) -> (FillInput, PlannedFill) {
     (input, planned)
 }
 
-#[test]
-fn a_fill_within_its_rating_at_the_planned_rate_carries_no_adiabatic_warning() {
-    // 6.8 L composite air cylinder, 20 → 300 bar(a): the adiabatic bound reaches about
-    // 118 °C, the planned 20 bar/min fill with heat to the wall stays well within 65 °C.
-    let model = air();
-    let (input, planned) = composite_fill(20.0);
+/// The composite fill at `rate_bar_per_min`, assessed with the wall model governing.
+fn planned_fill(rate_bar_per_min: f64) -> (FillInput, crate::report::FillReport) {
+    let (input, planned) = composite_fill(rate_bar_per_min);
     let r = fill(
-        &model,
+        &air(),
         &input,
         pa(AMBIENT_PA),
         Some(&planned),
         Governing::Model,
     )
     .unwrap();
+    (input, r)
+}
+
+#[test]
+fn a_fill_within_its_rating_at_the_planned_rate_carries_no_adiabatic_warning() {
+    // 6.8 L composite air cylinder, 20 → 300 bar(a): the adiabatic bound reaches about
+    // 118 °C, the planned 20 bar/min fill with heat to the wall stays well within 65 °C.
+    let (input, r) = planned_fill(20.0);
     assert!(
         r.final_temperature_k > k(338.15),
         "the bound exceeds the rating"
@@ -184,7 +189,7 @@ fn a_fill_within_its_rating_at_the_planned_rate_carries_no_adiabatic_warning() {
     assert_banners_apply(&r.verdict, &r.cautions);
 
     // Without the planned rate the bound governs, and the action asks for the rate.
-    let alone = fill(&model, &input, pa(AMBIENT_PA), None, Governing::Model).unwrap();
+    let alone = fill(&air(), &input, pa(AMBIENT_PA), None, Governing::Model).unwrap();
     let t = alone.verdict.finding(Hazard::FillTemperature).unwrap();
     assert_eq!(
         (t.status, t.basis.as_str()),
@@ -195,16 +200,7 @@ fn a_fill_within_its_rating_at_the_planned_rate_carries_no_adiabatic_warning() {
 
 #[test]
 fn a_too_fast_fill_is_no_go_and_names_the_highest_safe_rate() {
-    let model = air();
-    let (input, planned) = composite_fill(3000.0);
-    let r = fill(
-        &model,
-        &input,
-        pa(AMBIENT_PA),
-        Some(&planned),
-        Governing::Model,
-    )
-    .unwrap();
+    let (_, r) = planned_fill(3000.0);
     let t = r.verdict.finding(Hazard::FillTemperature).unwrap();
     assert_eq!(t.status, Status::Stop);
     assert_eq!(r.verdict.decision, Decision::NoGo);
