@@ -114,11 +114,16 @@ fn temperature(
         ]
     };
     if peak <= rated {
-        return against(Finding::ok(
-            Hazard::FillTemperature,
-            basis,
-            result(", within the rated temperature ("),
-        ));
+        let mut found = result(", within the rated temperature (");
+        // The rate a crew may go up to, on page one beside the decision.
+        if let (Some(_), Some(MaxRate::Ramp(m) | MaxRate::InletLimited(m))) = (model, max_rate) {
+            found.extend([
+                Part::from(" The highest rate within the rating is "),
+                Part::from(Value::PressureRate(m.per_second)),
+                Part::from("."),
+            ]);
+        }
+        return against(Finding::ok(Hazard::FillTemperature, basis, found));
     }
     let action = match (model, max_rate) {
         (None, _) => vec![Part::from("Give the planned fill rate for the fill with heat to the wall, or fill more slowly, in stages or with a cooled supply, and confirm by measurement.")],

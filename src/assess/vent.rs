@@ -203,26 +203,28 @@ fn vent_time(r: &VentReport, governing: Governing) -> Finding {
         .transient
         .as_ref()
         .filter(|_| governing == Governing::Model);
-    if let Some(d) = r.depressuring.as_ref() {
-        return depressuring(d);
-    }
     let (time, basis) = match (model, r.time_s) {
         (Some(t), _) => (Some(t.time_s), "wall model"),
         (None, t) => (t, "quasi-steady vent"),
     };
+    let whole = |t| {
+        vec![
+            Part::from("Venting to "),
+            Part::from(Value::Pressure(r.inputs.down_to_pa)),
+            Part::from(" takes "),
+            Part::from(Value::Time(t)),
+            Part::from(". "),
+        ]
+    };
+    if let Some(d) = r.depressuring.as_ref() {
+        let mut f = depressuring(d);
+        if let Some(t) = time {
+            f.result.splice(0..0, whole(t));
+        }
+        return f;
+    }
     match time {
-        Some(t) => Finding::ok(
-            Hazard::VentTime,
-            basis,
-            vec![
-                Part::from("Venting to "),
-                Part::from(Value::Pressure(r.inputs.down_to_pa)),
-                Part::from(" takes "),
-                Part::from(Value::Time(t)),
-                Part::from("."),
-            ],
-        )
-        .against(Value::Time(t), None),
+        Some(t) => Finding::ok(Hazard::VentTime, basis, whole(t)).against(Value::Time(t), None),
         None => Finding::ok(
             Hazard::VentTime,
             basis,

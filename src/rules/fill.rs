@@ -278,7 +278,7 @@ fn fill_basis(input: &FillInput, r: &FillResult) -> Note {
     };
     note!(
         "adiabatic fill",
-        "Adiabatic fill: no heat passes between the gas and the cylinder wall, so ",
+        "No heat passes between the gas and the cylinder wall, so ",
         Value::Temperature(r.final_temperature),
         bound,
         ". The settled pressure assumes the gas then",

@@ -58,6 +58,14 @@ fn gas_error(field: &'static str) -> impl Fn(GasError) -> InputError {
     }
 }
 
+/// `s` with its first letter in capitals, to open a sentence.
+fn capitalised(s: &str) -> String {
+    let mut c = s.chars();
+    c.next()
+        .map(|first| first.to_uppercase().chain(c).collect())
+        .unwrap_or_default()
+}
+
 /// The user's state, checked for range and phase. `fields` names the pressure and
 /// temperature inputs, for the error.
 fn user_state(
@@ -88,7 +96,7 @@ fn user_state(
 fn gas_cautions(model: &dyn GasModel, state: &State) -> (Vec<Caution>, Vec<Note>) {
     let basis = vec![Note::new(
         "gas model",
-        format!("Gas model: {} ({}).", model.describe(), model.gas().name),
+        format!("{} ({}).", capitalised(&model.describe()), model.gas().name),
     )];
     (model.limitations(state), basis)
 }

@@ -1118,7 +1118,7 @@ fn model_basis(basis: InnerBasis, exchange: &Exchange) -> Vec<Note> {
     if exchange.mode == HeatTransfer::None {
         return vec![Note::new(
             "heat transfer",
-            "Heat transfer: none. The gas exchanges no heat with the wall (the adiabatic bound).",
+            "None: the gas exchanges no heat with the wall (the adiabatic bound).",
         )];
     }
     let inner = match basis {
@@ -1130,7 +1130,7 @@ fn model_basis(basis: InnerBasis, exchange: &Exchange) -> Vec<Note> {
     };
     let wall = &exchange.wall;
     let mut parts = vec![
-        Part::from("Heat transfer: lumped gas and wall ("),
+        Part::from("Lumped gas and wall ("),
         Part::from(Value::Mass(wall.mass)),
         Part::from(format!(" of {}", wall.material.name())),
     ];
