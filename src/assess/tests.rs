@@ -305,3 +305,16 @@ fn one_banner_per_hazard_across_a_worksheets_calculations() {
             .count()
     );
 }
+
+#[test]
+fn a_wall_run_without_heat_exchange_is_the_bound_not_the_model() {
+    // With no heat exchanged the wall stays at its start: it says nothing of the metal.
+    let mut wall = receiver_wall();
+    wall.exchange.mode = HeatTransfer::None;
+    let r = vent(&air(), &receiver_vent(), Some(&wall), Governing::Model).unwrap();
+    let cold = r.verdict.finding(Hazard::ColdMetal).unwrap();
+    assert_eq!(
+        (cold.status, cold.basis.as_str()),
+        (Status::Stop, "isentropic bound")
+    );
+}

@@ -8,7 +8,7 @@ use super::{gas, Governing};
 use crate::caution::{Level, Part};
 use crate::gas::{ideal_twin, GasModel};
 use crate::report::{DepressuringReport, VentReport, VentTransientReport};
-use crate::rules::transient::{self, Depressuring, Exchange};
+use crate::rules::transient::{self, Depressuring, Exchange, HeatTransfer};
 use crate::rules::vent::{self, Process, VentInput};
 use crate::units::Value;
 use crate::InputError;
@@ -80,10 +80,11 @@ pub fn vent(
 /// The coldest metal against the MDMT: the wall model's wall where it ran, else the gas at
 /// the bound (the metal lags the gas but can approach it).
 fn cold_metal(r: &VentReport, input: &VentInput, governing: Governing) -> Finding {
+    // A run with no heat exchanged keeps its wall at the start: it is no wall model.
     let model = r
         .transient
         .as_ref()
-        .filter(|_| governing == Governing::Model);
+        .filter(|t| governing == Governing::Model && t.heat_transfer != HeatTransfer::None);
     let bound_basis = match input.process {
         Process::Isentropic => "isentropic bound",
         Process::Isothermal => "isothermal process",
@@ -176,7 +177,11 @@ fn cold_metal(r: &VentReport, input: &VentInput, governing: Governing) -> Findin
                         Part::from(Value::Temperature(mdmt)),
                         Part::from("); the metal lags the gas but can approach it in a long or repeated vent."),
                     ],
-                    vec![Part::from("Run the vent with heat from the wall (vent --heat-transfer lumped) for the wall's temperature, or vent more slowly or in stages; have an authorised inspector confirm the low-temperature rating.")],
+                    vec![Part::from(if r.transient.is_some() {
+                        "Vent more slowly or in stages, and have an authorised inspector confirm the low-temperature rating."
+                    } else {
+                        "Run the vent with heat from the wall (vent --heat-transfer lumped) for the wall's temperature, or vent more slowly or in stages; have an authorised inspector confirm the low-temperature rating."
+                    })],
                 )
             } else {
                 Finding::ok(
