@@ -11,6 +11,7 @@ use serde::Deserialize;
 use uom::si::f64::{Length, Mass, Pressure, ThermodynamicTemperature, Volume};
 use uom::si::pressure::pascal;
 
+use crate::assess::Governing;
 use crate::atmosphere;
 use crate::gas::Gas;
 use crate::source::{located, FileError, Source, Spanned};
@@ -41,7 +42,7 @@ pub struct Site {
     pub clearance: Option<Length>,
     /// Which result governs the findings the wall model and a bound both assess, if the
     /// site says.
-    pub governing: Option<crate::assess::Governing>,
+    pub governing: Option<Governing>,
     /// The equipment, in file order.
     pub equipment: Vec<Equipment>,
     /// Where the site's own values stood.
@@ -440,14 +441,7 @@ pub fn load(path: &Path) -> Result<Site, FileError> {
     let governing = s
         .governing
         .as_ref()
-        .map(|g| {
-            located(&src, "site.governing", g, |v| {
-                serde::Deserialize::deserialize(serde::de::value::StrDeserializer::<
-                    serde::de::value::Error,
-                >::new(v.trim()))
-                .map_err(|_| "unknown value; accepted: model, bound".to_string())
-            })
-        })
+        .map(|g| located(&src, "site.governing", g, parse_governing))
         .transpose()?;
 
     let ctx = Context {
@@ -778,6 +772,14 @@ fn parse_liner(s: &str) -> Result<Liner, String> {
         "aluminium" | "aluminum" => Ok(Liner::Aluminium),
         "plastic" => Ok(Liner::Plastic),
         _ => Err("unknown liner; accepted: aluminium, plastic".to_string()),
+    }
+}
+
+fn parse_governing(s: &str) -> Result<Governing, String> {
+    match s.trim() {
+        "model" => Ok(Governing::Model),
+        "bound" => Ok(Governing::Bound),
+        _ => Err("unknown value; accepted: model, bound".to_string()),
     }
 }
 

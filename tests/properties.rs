@@ -232,29 +232,21 @@ proptest! {
 fn findings() -> impl Strategy<Value = Vec<pvhazard::assess::Finding>> {
     use pvhazard::assess::{Finding, Hazard};
     use pvhazard::caution::{Level, Part};
-    let hazards = [
-        Hazard::PressureRating,
-        Hazard::BlastZone,
-        Hazard::StoredEnergy,
-        Hazard::ColdMetal,
-        Hazard::FillTemperature,
-        Hazard::FillTo,
-        Hazard::VentTime,
-        Hazard::TwoPhase,
-    ];
-    prop::collection::vec((prop::sample::select(hazards.to_vec()), 0..3u8), 0..12).prop_map(|v| {
-        v.into_iter()
-            .map(|(h, s)| {
-                let result = vec![Part::from(format!("{h:?} {s}"))];
-                let action = vec![Part::from("Act.")];
-                match s {
-                    0 => Finding::ok(h, "test", result),
-                    1 => Finding::action(h, Level::Caution, "test", result, action),
-                    _ => Finding::stop(h, Level::Warning, "test", result, action),
-                }
-            })
-            .collect()
-    })
+    prop::collection::vec((prop::sample::select(Hazard::ALL.to_vec()), 0..3u8), 0..12).prop_map(
+        |v| {
+            v.into_iter()
+                .map(|(h, s)| {
+                    let result = vec![Part::from(format!("{h:?} {s}"))];
+                    let action = vec![Part::from("Act.")];
+                    match s {
+                        0 => Finding::ok(h, "test", result),
+                        1 => Finding::action(h, Level::Caution, "test", result, action),
+                        _ => Finding::stop(h, Level::Warning, "test", result, action),
+                    }
+                })
+                .collect()
+        },
+    )
 }
 
 proptest! {

@@ -11,6 +11,7 @@ use std::path::{Path, PathBuf};
 
 use assert_cmd::Command;
 use predicates::prelude::*;
+use pvhazard::assess::Hazard;
 use serde_json::Value;
 
 type TestResult = Result<(), Box<dyn std::error::Error>>;
@@ -1433,19 +1434,29 @@ fn check_output_is_the_same_on_every_run() {
 // Decision first: verdicts, findings and banners that apply.
 // ---------------------------------------------------------------------------------------
 
-/// Every record `worksheet --all` writes for `site` with `template` (or the defaults).
-fn records(site: &str, template: Option<&str>) -> Vec<Value> {
-    let scratch = Scratch::new(&format!("records-{site}-{}", template.unwrap_or("default")));
+/// Runs `worksheet --all` on `site` with `template` (or the defaults) in a scratch folder
+/// named for `test`; returns the folder and the names of the records written.
+fn write_all(test: &str, site: &str, template: Option<&str>) -> (Scratch, Vec<String>) {
+    let scratch = Scratch::new(&format!("{test}-{site}-{}", template.unwrap_or("default")));
     let out = scratch.path("out");
     let mut extra = vec!["--all"];
     if let Some(t) = template {
         extra.extend(["--template", t]);
     }
     worksheet(&sample(site), &out, &extra).assert().code(0);
-    names(&out)
-        .iter()
+    let records = names(&out)
+        .into_iter()
         .filter(|n| n.ends_with(".json"))
-        .map(|n| serde_json::from_str(&read_text(&out.join(n))).expect("a JSON record"))
+        .collect();
+    (scratch, records)
+}
+
+/// Every record `worksheet --all` writes for `site` with `template` (or the defaults).
+fn records(site: &str, template: Option<&str>) -> Vec<Value> {
+    let (scratch, names) = write_all("records", site, template);
+    names
+        .iter()
+        .map(|n| json_file(&scratch.path("out").join(n)))
         .collect()
 }
 
@@ -1640,17 +1651,9 @@ fn page_one_holds_the_decision_and_every_finding() {
         (LARKSPUR, Some("pressure-test")),
         (KESTREL, None),
     ] {
-        let scratch = Scratch::new(&format!(
-            "page-one-{site}-{}",
-            template.unwrap_or("default")
-        ));
+        let (scratch, jsons) = write_all("page-one", site, template);
         let out = scratch.path("out");
-        let mut extra = vec!["--all"];
-        if let Some(t) = template {
-            extra.extend(["--template", t]);
-        }
-        worksheet(&sample(site), &out, &extra).assert().code(0);
-        for json in names(&out).iter().filter(|n| n.ends_with(".json")) {
+        for json in &jsons {
             let rec = json_file(&out.join(json));
             let page = first_page_text(&out.join(json.replace(".json", ".pdf")));
             let decision = match rec["verdict"]["decision"].as_str().unwrap() {
@@ -1663,31 +1666,17 @@ fn page_one_holds_the_decision_and_every_finding() {
                 "{json}: no {decision} on page 1:\n{page}"
             );
             for f in rec["verdict"]["findings"].as_array().unwrap() {
-                let title = hazard_title(f["hazard"].as_str().unwrap());
+                let id = f["hazard"].as_str().unwrap();
+                let title = Hazard::ALL
+                    .iter()
+                    .find(|h| h.id() == id)
+                    .unwrap_or_else(|| panic!("unknown hazard {id}"))
+                    .title();
                 assert!(
                     page.contains(title),
                     "{json}: finding {title} is not on page 1:\n{page}"
                 );
             }
         }
-    }
-}
-
-/// A finding's name in the findings table.
-fn hazard_title(id: &str) -> &'static str {
-    match id {
-        "pressure-rating" => "Pressure rating",
-        "blast-zone" => "Keep-back distance",
-        "stored-energy" => "Energy before opening",
-        "cold-metal" => "Cold metal",
-        "fill-temperature" => "Fill temperature",
-        "fill-to" => "Fill-to pressure",
-        "vent-time" => "Vent time",
-        "two-phase" => "Liquid or frost",
-        "vent-jet" => "Vent jet",
-        "asphyxiant" => "Asphyxiant gas",
-        "oxidiser" => "Oxidising gas",
-        "flammable" => "Flammable gas",
-        _ => "Toxic gas",
     }
 }

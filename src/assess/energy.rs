@@ -4,7 +4,7 @@
 use uom::si::f64::{Length, Pressure};
 use uom::si::{length::meter, pressure::pascal};
 
-use super::finding::{Finding, Hazard, Verdict};
+use super::finding::{Finding, Hazard};
 use super::gas;
 use crate::caution::{Level, Note, Part};
 use crate::gas::{ideal_twin, GasModel};
@@ -58,19 +58,21 @@ pub fn energy(
         }
     }
     let out = energy::stored_energy(model, &input)?;
-    let verdict = Verdict::new(findings(model, &input, &out.value, ask));
-    let mut basis = out.basis.clone();
-    basis.push(zone_note(ask.work));
-    let cautions = out.cautions.clone();
+    let found = findings(model, &input, &out.value, ask);
     let mut report = EnergyReport::new(model, &input, out);
     if let Some(ideal) = ideal_twin(model) {
         if let Ok(out) = energy::stored_energy(&ideal, &input) {
             report.compare_with(&EnergyReport::new(&ideal, &input, out));
         }
     }
-    report.cautions = super::banners(&verdict, cautions);
-    report.basis = super::basis(basis, super::Governing::Model);
-    report.verdict = verdict;
+    let mut basis = std::mem::take(&mut report.basis);
+    basis.push(zone_note(ask.work));
+    (report.verdict, report.cautions, report.basis) = super::conclude(
+        found,
+        std::mem::take(&mut report.cautions),
+        basis,
+        super::Governing::Model,
+    );
     Ok(report)
 }
 

@@ -4,7 +4,7 @@
 
 use uom::si::f64::{Length, Pressure};
 
-use super::finding::{Finding, Hazard, Verdict};
+use super::finding::{Finding, Hazard};
 use super::{gas, Governing};
 use crate::caution::{Level, Part};
 use crate::gas::{ideal_twin, GasModel};
@@ -35,9 +35,9 @@ pub fn fill(
     governing: Governing,
 ) -> Result<FillReport, InputError> {
     let out = fill::adiabatic_fill(model, input)?;
-    let mut cautions = out.cautions.clone();
-    let mut basis = out.basis.clone();
     let mut report = FillReport::new(model, input, ambient, out);
+    let mut cautions = std::mem::take(&mut report.cautions);
+    let mut basis = std::mem::take(&mut report.basis);
     if let Some(ideal) = ideal_twin(model) {
         if let Ok(out) = fill::adiabatic_fill(&ideal, input) {
             report.compare_with(&FillReport::new(&ideal, input, ambient, out));
@@ -59,10 +59,8 @@ pub fn fill(
     }
     let mut found = findings(&report, max_rate, governing);
     found.extend(gas::released(model));
-    let verdict = Verdict::new(found);
-    report.cautions = super::banners(&verdict, cautions);
-    report.basis = super::basis(basis, governing);
-    report.verdict = verdict;
+    (report.verdict, report.cautions, report.basis) =
+        super::conclude(found, cautions, basis, governing);
     Ok(report)
 }
 

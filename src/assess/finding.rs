@@ -39,6 +39,23 @@ pub enum Hazard {
 }
 
 impl Hazard {
+    /// Every hazard, in the order of the enum.
+    pub const ALL: [Hazard; 13] = [
+        Hazard::PressureRating,
+        Hazard::BlastZone,
+        Hazard::StoredEnergy,
+        Hazard::ColdMetal,
+        Hazard::FillTemperature,
+        Hazard::FillTo,
+        Hazard::VentTime,
+        Hazard::TwoPhase,
+        Hazard::VentJet,
+        Hazard::Asphyxiant,
+        Hazard::Oxidiser,
+        Hazard::Flammable,
+        Hazard::Toxic,
+    ];
+
     /// The fixed id, as in JSON.
     pub fn id(self) -> &'static str {
         match self {
@@ -353,6 +370,13 @@ mod tests {
         );
         assert_eq!(v.decision, Decision::NoGo);
         assert_eq!(v.banners().len(), 2);
+    }
+
+    #[test]
+    fn every_hazard_id_is_its_json_name() {
+        for h in Hazard::ALL {
+            assert_eq!(serde_json::to_value(h).unwrap(), h.id());
+        }
     }
 
     #[test]

@@ -53,15 +53,18 @@ impl Governing {
     }
 }
 
-/// The banners of `verdict` and the results' own `cautions`, ordered, the deferral last.
-fn banners(verdict: &Verdict, cautions: Vec<Caution>) -> Vec<Caution> {
-    ordered(verdict.banners().into_iter().chain(cautions).collect())
-}
-
-/// `basis` without repeats, with the note on which result governs.
-fn basis(mut notes: Vec<Note>, governing: Governing) -> Vec<Note> {
-    notes.push(governing.note());
-    distinct(notes)
+/// The verdict on `findings`; its banners with the results' own `cautions`, ordered, the
+/// deferral last; and `basis` without repeats, with the note on which result governs.
+fn conclude(
+    findings: Vec<Finding>,
+    cautions: Vec<Caution>,
+    mut basis: Vec<Note>,
+    governing: Governing,
+) -> (Verdict, Vec<Caution>, Vec<Note>) {
+    let verdict = Verdict::new(findings);
+    let cautions = ordered(verdict.banners().into_iter().chain(cautions).collect());
+    basis.push(governing.note());
+    (verdict, cautions, distinct(basis))
 }
 
 #[cfg(test)]

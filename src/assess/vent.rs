@@ -3,7 +3,7 @@
 //! check, and the findings on cold metal, the vent time, liquid in the vent path and the
 //! jet.
 
-use super::finding::{Finding, Hazard, Verdict};
+use super::finding::{Finding, Hazard};
 use super::{gas, Governing};
 use crate::caution::{Level, Part};
 use crate::gas::{ideal_twin, GasModel};
@@ -32,9 +32,9 @@ pub fn vent(
 ) -> Result<VentReport, InputError> {
     let out = vent::blow_down(model, input)?;
     let end = out.value.end;
-    let mut cautions = out.cautions.clone();
-    let mut basis = out.basis.clone();
     let mut report = VentReport::new(model, input, out);
+    let mut cautions = std::mem::take(&mut report.cautions);
+    let mut basis = std::mem::take(&mut report.basis);
     if let Some(ideal) = ideal_twin(model) {
         if let Ok(o) = vent::blow_down(&ideal, input) {
             report.compare_with(&VentReport::new(&ideal, input, o));
@@ -70,10 +70,8 @@ pub fn vent(
         ));
     }
     found.extend(gas::released(model));
-    let verdict = Verdict::new(found);
-    report.cautions = super::banners(&verdict, cautions);
-    report.basis = super::basis(basis, governing);
-    report.verdict = verdict;
+    (report.verdict, report.cautions, report.basis) =
+        super::conclude(found, cautions, basis, governing);
     Ok(report)
 }
 
