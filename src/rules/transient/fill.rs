@@ -1,0 +1,331 @@
+//! The fill at a planned rate, and the searches on it: the highest safe rate, the fill-to
+//! pressure.
+
+use super::*;
+
+/// The fill from `initial` to `to` with enthalpy `h_in` arriving at `rate`, in SI.
+#[allow(clippy::too_many_arguments)]
+pub(super) fn fill_run(
+    setup: &Setup,
+    initial: &State,
+    wall_t0: f64,
+    h_in: f64,
+    to: f64,
+    rate: FillRate,
+    inlet: f64,
+) -> Result<Run, InputError> {
+    let m0 = initial.density.get::<kilogram_per_cubic_meter>() * setup.volume;
+    let u0 = setup
+        .model
+        .internal_energy(initial)
+        .get::<joule_per_kilogram>()
+        * m0;
+    let p0 = initial.pressure.get::<pascal>();
+    let nominal = match rate {
+        FillRate::Ramp(r) => (to - p0) / r.per_second.get::<pascal>(),
+        FillRate::MassFlow(f) => {
+            // Mass to reach `to` at the supply temperature's density, as a time scale.
+            let full = setup
+                .model
+                .state_pt(Pressure::new::<pascal>(to), initial.temperature)
+                .map(|s| s.density.get::<kilogram_per_cubic_meter>() * setup.volume)
+                .unwrap_or(m0 * to / p0);
+            (full - m0).max(0.0) / f.get::<kilogram_per_second>()
+        }
+    };
+    let nodes = Nodes::new(&setup.exchange.wall, setup.area, nominal, setup.grid);
+    let mut basis = InnerBasis::FillConstant;
+    let flow_at = |y: &[f64], q: f64| -> Option<f64> {
+        match rate {
+            FillRate::MassFlow(f) => Some(f.get::<kilogram_per_second>()),
+            FillRate::Ramp(r) => {
+                // The inflow that keeps dp/dt on the ramp: from p(ρ, u),
+                // dp/dt = p_ρ·ṁ/V + p_u·(ṁ·(h_in − u) − Q)/m.
+                let (m, u) = (y[0], y[1] / y[0]);
+                let (p_rho, p_u) = setup.model.pressure_partials(&setup.gas(m, y[1])?)?;
+                let denom = p_rho / setup.volume + p_u * (h_in - u) / m;
+                Some((r.per_second.get::<pascal>() + p_u * q / m) / denom)
+            }
+        }
+    };
+    let flows = |y: &[f64]| -> Option<(Vec<f64>, f64)> {
+        let st = setup.gas(y[0], y[1])?;
+        let tg = st.temperature.get::<kelvin>();
+        // On a ramp the inflow depends on the heat to the wall, and the jet's coefficient on
+        // the inflow: one fixed-point pass from the no-jet coefficient settles both.
+        let (h_guess, h_out, _) = setup.coefficients(&st, y[INNER], Some((0.0, inlet)));
+        let guess = setup.wall_flows(&nodes, (h_guess, h_out), tg, y);
+        let flow_guess = flow_at(y, guess.into_wall)?;
+        let (h_inner, h_out, _) = setup.coefficients(&st, y[INNER], Some((flow_guess, inlet)));
+        let wall = setup.wall_flows(&nodes, (h_inner, h_out), tg, y);
+        let flow = flow_at(y, wall.into_wall)?;
+        Some(setup.derivatives(flow, h_in, &wall))
+    };
+    let rhs = |_: f64, y: &[f64]| flows(y).map(|(d, _)| d);
+    if let Some(st) = setup.gas(m0, u0) {
+        basis = setup.coefficients(&st, wall_t0, Some((1.0, inlet))).2;
+    }
+    let (y0, scale) = setup.start(&nodes, m0, u0, wall_t0);
+    let event = |_: f64, y: &[f64]| {
+        setup
+            .gas(y[0], y[1])
+            .map_or(-1.0, |s| to - s.pressure.get::<pascal>())
+    };
+    let run = ode::integrate(
+        rhs,
+        (0.0, &y0),
+        3.0 * nominal.max(1e-3),
+        event,
+        &scale,
+        &options(nominal.max(1e-3), setup.rtol),
+    )
+    .map_err(|e| model_failure(&e.to_string()))?;
+    if !run.stopped_at_event {
+        return Err(InputError::new(
+            "rate",
+            "(given)",
+            "the fill does not reach --to within three times its nominal duration; accepted: a rate that fills the cylinder",
+        ));
+    }
+    setup.finish(&nodes, run, basis, |y| flows(y).map(|(_, face)| face))
+}
+
+/// A fill with heat exchanged with the wall, and what it means for the cylinder.
+#[derive(Debug, Clone, PartialEq)]
+pub struct FillTransient {
+    /// The run at the planned rate.
+    pub run: Run,
+    /// Pressure once the gas has cooled to ambient at constant mass.
+    pub settled_pressure: Pressure,
+    /// Stop pressure at the planned rate that settles at the target, if one is found.
+    pub fill_to_pressure: Option<Pressure>,
+    /// The highest pressure-ramp rate that keeps the gas at or below the rated temperature,
+    /// if a rating was given.
+    pub max_rate: Option<MaxRate>,
+    /// The wall used.
+    pub wall: Wall,
+}
+
+/// A fill to run: the cylinder's volume and starting state (the wall starts at the gas's
+/// temperature), the supply gas, the stop pressure and the drive.
+#[derive(Debug, Clone, Copy)]
+pub struct FillCase<'a> {
+    /// Internal volume.
+    pub volume: Volume,
+    /// The gas before the fill.
+    pub initial: &'a State,
+    /// The gas arriving.
+    pub supply: &'a State,
+    /// Absolute pressure at which the fill stops.
+    pub to: Pressure,
+    /// How the fill is driven.
+    pub rate: FillRate,
+    /// Inlet bore, for the jet correlation.
+    pub inlet_diameter: Option<Length>,
+}
+
+/// One fill run: the time series alone, without the searches of [`fill`].
+pub fn fill_once(
+    model: &dyn GasModel,
+    case: &FillCase,
+    exchange: &Exchange,
+) -> Result<Run, InputError> {
+    let setup = Setup::new(model, case.volume, exchange);
+    fill_run(
+        &setup,
+        case.initial,
+        case.initial.temperature.get::<kelvin>(),
+        model.enthalpy(case.supply).get::<joule_per_kilogram>(),
+        case.to.get::<pascal>(),
+        case.rate,
+        case.inlet_diameter.map_or(0.0, |d| d.get::<meter>()),
+    )
+}
+
+/// The fastest fill that keeps the gas within its rating.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum MaxRate {
+    /// This pressure ramp brings the peak gas temperature to the rating.
+    Ramp(PressureRate),
+    /// Even the adiabatic bound stays within the rating: no rate is too fast.
+    Unlimited,
+    /// Even a fill over a day exceeds the rating (a supply hotter than the rating).
+    NoneSafe,
+    /// Even the fastest fill the inlet can pass (this mean ramp, inlet choked from the
+    /// supply throughout) stays within the rating.
+    InletLimited(PressureRate),
+    /// The search failed: a fill it tried did not complete on the model (it left the gas
+    /// model's range, or a very light wall, following the gas within milliseconds, ran a
+    /// slow fill past the integrator's step budget).
+    Unresolved,
+}
+
+/// The mean pressure ramp of the fastest fill an inlet of bore `d` can pass, Pa/s: the
+/// choked flow from the supply (Cd = 1) throughout, an upper bound, since the flow falls once
+/// the cylinder passes the critical pressure ratio. It keeps the search for the highest safe
+/// rate among fills the connection can deliver, where the jet correlation is meaningful.
+fn fastest_ramp(model: &dyn GasModel, case: &FillCase, d: Length) -> Option<f64> {
+    let area = std::f64::consts::PI / 4.0 * d.get::<meter>().powi(2);
+    let flow = model
+        .nozzle(case.supply, case.initial.pressure)
+        .mass_flux
+        .get::<kilogram_per_square_meter_second>()
+        * area;
+    let full = model
+        .state_pt(case.to, case.supply.temperature)
+        .ok()?
+        .density
+        .get::<kilogram_per_cubic_meter>();
+    let added = (full - case.initial.density.get::<kilogram_per_cubic_meter>())
+        * case.volume.get::<cubic_meter>();
+    let span = (case.to - case.initial.pressure).get::<pascal>();
+    (flow > 0.0 && added > 0.0).then(|| span * flow / added)
+}
+
+/// The fill of `case` with heat exchanged as `exchange` says: the run, the settled and
+/// fill-to pressures, and (given a rating) the highest safe pressure ramp.
+pub fn fill(
+    model: &dyn GasModel,
+    case: &FillCase,
+    rated: Option<ThermodynamicTemperature>,
+    exchange: &Exchange,
+) -> Result<Assessed<FillTransient>, InputError> {
+    let FillCase {
+        volume,
+        initial,
+        supply,
+        to,
+        rate,
+        inlet_diameter,
+    } = *case;
+    let setup = Setup::new(model, volume, exchange);
+    let h_in = model.enthalpy(supply).get::<joule_per_kilogram>();
+    let inlet = inlet_diameter.map_or(0.0, |d| d.get::<meter>());
+    let wall_t0 = initial.temperature.get::<kelvin>();
+    let to_pa = to.get::<pascal>();
+    let run = fill_run(&setup, initial, wall_t0, h_in, to_pa, rate, inlet)?;
+    let settled = model
+        .state_rho_t(run.end.density, exchange.ambient_temperature)
+        .map_err(|e| model_failure(&e.to_string()))?
+        .pressure;
+    // Without heat transfer the peak does not depend on the rate: no rate to solve for.
+    let max_rate = rated
+        .filter(|_| exchange.mode == HeatTransfer::Lumped)
+        .map(|rated| {
+            let excess = |rate_pa_s: f64| {
+                let r = FillRate::Ramp(PressureRate {
+                    per_second: Pressure::new::<pascal>(rate_pa_s),
+                });
+                fill_run(&setup, initial, wall_t0, h_in, to_pa, r, inlet)
+                    .map(|run| run.peak_gas().get::<kelvin>() - rated.get::<kelvin>())
+                    .unwrap_or(f64::NAN)
+            };
+            // Between a fill over a day and one over a second, or, with the inlet's bore
+            // known, the fastest fill it can pass: the peak rises with the rate.
+            let span = to_pa - initial.pressure.get::<pascal>();
+            let inlet_limit = inlet_diameter
+                .and_then(|d| fastest_ramp(model, case, d))
+                .filter(|r| *r < span);
+            let (slow, fast) = (span / 86_400.0, inlet_limit.unwrap_or(span));
+            let at_fast = excess(fast);
+            if at_fast.is_nan() {
+                return MaxRate::Unresolved;
+            }
+            if at_fast <= 0.0 {
+                return match inlet_limit {
+                    Some(r) => MaxRate::InletLimited(PressureRate {
+                        per_second: Pressure::new::<pascal>(r),
+                    }),
+                    None => MaxRate::Unlimited,
+                };
+            }
+            // A run that fails is no answer: never read it as "no rate is safe".
+            match excess(slow) {
+                e if e.is_nan() => MaxRate::Unresolved,
+                e if e > 0.0 => MaxRate::NoneSafe,
+                _ => crate::solve::root(|ln_r| excess(ln_r.exp()), slow.ln(), fast.ln(), 1e-7)
+                    .map_or(MaxRate::Unresolved, |ln_r| {
+                        MaxRate::Ramp(PressureRate {
+                            per_second: Pressure::new::<pascal>(ln_r.exp()),
+                        })
+                    }),
+            }
+        });
+    // The stop pressure whose mass, cooled to ambient, settles at the target.
+    let target_density = model
+        .state_pt(to, exchange.ambient_temperature)
+        .map_err(|e| model_failure(&e.to_string()))?
+        .density
+        .get::<kilogram_per_cubic_meter>();
+    let gap = |p_stop: f64| {
+        fill_run(&setup, initial, wall_t0, h_in, p_stop, rate, inlet)
+            .map(|r| r.end.density.get::<kilogram_per_cubic_meter>() / target_density - 1.0)
+            .unwrap_or(f64::NAN)
+    };
+    let fill_to_pressure = crate::solve::root(gap, to_pa * 0.8, to_pa * 1.6, to_pa * 1e-9)
+        .ok()
+        .map(Pressure::new::<pascal>);
+    let result = FillTransient {
+        run,
+        settled_pressure: settled,
+        fill_to_pressure,
+        max_rate,
+        wall: exchange.wall,
+    };
+    let (cautions, basis) = fill_cautions(&result, exchange);
+    Ok(Assessed {
+        value: result,
+        cautions,
+        basis,
+    })
+}
+
+/// The fill a [`FillInput`] describes, at `rate`, with heat exchanged as `exchange` says.
+pub fn fill_from(
+    model: &dyn GasModel,
+    input: &FillInput,
+    rate: FillRate,
+    inlet_diameter: Option<Length>,
+    exchange: &Exchange,
+) -> Result<Assessed<FillTransient>, InputError> {
+    let initial = model
+        .state_pt(input.from, input.initial_temperature)
+        .map_err(gas_error("from"))?;
+    let supply = model
+        .state_pt(
+            input.supply_pressure.unwrap_or(input.to),
+            input.supply_temperature,
+        )
+        .map_err(gas_error("supply-temperature"))?;
+    let case = FillCase {
+        volume: input.volume,
+        initial: &initial,
+        supply: &supply,
+        to: input.to,
+        rate,
+        inlet_diameter,
+    };
+    fill(model, &case, input.rated_temperature, exchange)
+}
+
+/// A fill's cautions (a highest rate not resolved) and basis. Its hazards (the peak against
+/// the rating, the fill-to pressure) are the assessment's findings.
+pub(super) fn fill_cautions(r: &FillTransient, exchange: &Exchange) -> (Vec<Caution>, Vec<Note>) {
+    let mut basis = model_basis(r.run.basis, exchange);
+    let mut out = Vec::new();
+    if let Some(MaxRate::InletLimited(rate)) = r.max_rate {
+        basis.push(crate::note!(
+            "highest rate",
+            "Even the fastest fill the inlet bore can pass (choked from the supply, about ",
+            Value::PressureRate(rate.per_second),
+            " on average) keeps the gas within the rated temperature: the connection, not the heating, limits the rate.",
+        ));
+    }
+    if r.max_rate == Some(MaxRate::Unresolved) {
+        out.push(Caution::new(
+            Level::Caution,
+            "The highest fill rate within the rating is not resolved: a fill the search tried did not complete on the model. A very light wall (check the wall's mass as given, and its unit) follows the gas so closely that a slow fill exceeds the integration's step budget. Do not rely on a highest rate; the planned rate's result stands.",
+        ));
+    }
+    (out, basis)
+}

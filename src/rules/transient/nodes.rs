@@ -1,0 +1,142 @@
+//! The wall's temperature nodes: metal layers as one node, insulating ones cut into slices.
+
+use super::*;
+
+/// Where the wall's temperature nodes sit in the integrated state: the innermost node, and
+/// any further ones after the two audit totals.
+pub(super) const INNER: usize = 2;
+const FURTHER: usize = 5;
+
+/// An insulating layer thinner than this, m, is lumped with its neighbour: ρ·c·t²/(2k) is
+/// then about a second, and a node of its own would only make the integration stiff.
+const MIN_SLICED_THICKNESS: f64 = 1e-3;
+
+/// How an insulating layer is cut into slices: the innermost this fraction of the depth
+/// heat reaches over the run, √(α·duration), and each one outwards this many times
+/// thicker. The slices are finest where the heat goes, and no finer than the run needs: a
+/// thinner slice only shortens the integrator's steps. The tests hold the peak gas
+/// temperature within 0.1 K of a grid twice as fine; a coarser grid errs hot.
+pub(super) const SLICE_GRID: (f64, f64) = (0.1, 1.08);
+
+/// Bounds on the innermost slice, m.
+const SLICE_BOUNDS: (f64, f64) = (2e-5, 3e-3);
+
+/// The wall's nodes in SI, a chain from the gas outwards: heat capacities (J/K) and
+/// conduction resistances (K/W).
+///
+/// A metal layer is one node. An insulating one (a composite wrap, a plastic liner) is cut
+/// through its thickness into slices, each lumped at its mid-thickness: conduction through
+/// a few millimetres of it takes minutes, as long as a fill, so one lumped node would put
+/// all its heat capacity behind half its thickness.
+pub(super) struct Nodes {
+    /// Heat capacities, innermost first.
+    pub(super) capacities: Vec<f64>,
+    /// From the inner face to the first node.
+    pub(super) r_inner: f64,
+    /// From each node to the next.
+    pub(super) r_links: Vec<f64>,
+    /// From the last node to the outer face.
+    pub(super) r_outer: f64,
+    /// The composite wrap's innermost node, whose temperature is reported.
+    pub(super) wrap_first: Option<usize>,
+}
+
+/// One layer's nodes over a run of `duration` s: (heat capacity, resistance from its
+/// mid-thickness to either face).
+fn layer(
+    mass: f64,
+    material: Material,
+    area: f64,
+    duration: f64,
+    (fraction, growth): (f64, f64),
+) -> Vec<(f64, f64)> {
+    let thickness = mass / (material.density() * area);
+    if thickness.is_nan() || thickness <= 0.0 {
+        // No wall at all (an estimate at zero gauge pressure): no capacity, no resistance.
+        return vec![(0.0, 0.0)];
+    }
+    let diffusivity = material.conductivity() / (material.density() * material.specific_heat());
+    let first = (fraction * (diffusivity * duration).sqrt()).clamp(SLICE_BOUNDS.0, SLICE_BOUNDS.1);
+    let node = |width: f64| {
+        (
+            mass * width / thickness * material.specific_heat(),
+            width / 2.0 / (material.conductivity() * area),
+        )
+    };
+    // A metal layer, and an insulating one too thin to slice, is one node.
+    if !material.insulating() || thickness <= first.max(MIN_SLICED_THICKNESS) {
+        return vec![node(thickness)];
+    }
+    // The fewest slices, growing geometrically, whose innermost is at most `first`.
+    let innermost = |n: i32| thickness * (growth - 1.0) / (growth.powi(n) - 1.0);
+    let n = (2..64).find(|&n| innermost(n) <= first).unwrap_or(64);
+    (0..n)
+        .map(|i| node(innermost(n) * growth.powi(i)))
+        .collect()
+}
+
+impl Nodes {
+    /// The nodes of `wall` over a run of `duration` s, insulating layers cut by `grid`
+    /// (see [`SLICE_GRID`]).
+    pub(super) fn new(wall: &Wall, area: f64, duration: f64, grid: (f64, f64)) -> Nodes {
+        // (capacity, resistance from the node to its inner face, and to its outer face).
+        let nodes_of = |mass: f64, material: Material| -> Vec<(f64, f64, f64)> {
+            layer(mass, material, area, duration, grid)
+                .into_iter()
+                .map(|(c, r)| (c, r, r))
+                .collect()
+        };
+        let thin = |mass: f64, material: Material| {
+            material.insulating() && mass / (material.density() * area) < MIN_SLICED_THICKNESS
+        };
+        let (m, material) = (wall.mass.get::<kilogram>(), wall.material);
+        let mut nodes = nodes_of(m, material);
+        let mut wrap_first = None;
+        if let Some(w) = wall.wrap {
+            let mw = w.mass.get::<kilogram>();
+            let wrap = nodes_of(mw, Material::Composite);
+            // A too-thin insulating layer (one node, see `layer`) is lumped with its
+            // neighbour: the capacities add, its whole resistance stays on its side.
+            if thin(mw, Material::Composite) {
+                let last = nodes.len() - 1;
+                nodes[last].0 += wrap[0].0;
+                nodes[last].2 += 2.0 * wrap[0].1;
+                wrap_first = Some(last);
+            } else if thin(m, material) {
+                let liner = nodes[0];
+                nodes = wrap;
+                nodes[0].0 += liner.0;
+                nodes[0].1 += 2.0 * liner.1;
+                wrap_first = Some(0);
+            } else {
+                wrap_first = Some(nodes.len());
+                nodes.extend(wrap);
+            }
+        }
+        Nodes {
+            capacities: nodes.iter().map(|n| n.0).collect(),
+            r_inner: nodes[0].1,
+            r_links: nodes.windows(2).map(|p| p[0].2 + p[1].1).collect(),
+            r_outer: nodes[nodes.len() - 1].2,
+            wrap_first,
+        }
+    }
+
+    /// Where node `i` sits in the integrated state.
+    pub(super) fn index(i: usize) -> usize {
+        if i == 0 {
+            INNER
+        } else {
+            FURTHER + i - 1
+        }
+    }
+
+    /// The heat stored in the wall between two integrated states, J.
+    pub(super) fn stored(&self, first: &[f64], last: &[f64]) -> f64 {
+        self.capacities
+            .iter()
+            .enumerate()
+            .map(|(i, c)| c * (last[Nodes::index(i)] - first[Nodes::index(i)]))
+            .sum()
+    }
+}

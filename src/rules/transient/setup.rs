@@ -1,0 +1,254 @@
+//! One run's fixed numbers and the integrated state's derivatives: gas state, wall flows,
+//! start and finish.
+
+use super::*;
+
+/// The fixed numbers of a run, in SI.
+pub(super) struct Setup<'a> {
+    pub(super) model: &'a dyn GasModel,
+    pub(super) volume: f64,
+    pub(super) diameter: f64,
+    pub(super) area: f64,
+    /// How insulating wall layers are sliced (see [`SLICE_GRID`]).
+    pub(super) grid: (f64, f64),
+    pub(super) ambient: f64,
+    pub(super) exchange: &'a Exchange,
+    /// Relative tolerance per step of the integration.
+    pub(super) rtol: f64,
+    /// The gas temperature last found, where the next state search starts.
+    pub(super) last_temperature: std::cell::Cell<ThermodynamicTemperature>,
+    /// The last state found, by its mass and internal energy.
+    pub(super) last_state: std::cell::Cell<Option<((f64, f64), State)>>,
+}
+
+/// The integration's relative tolerance per step: results change by less than 1e-6 when it
+/// is tightened a hundredfold (see the tests).
+pub(super) const RTOL: f64 = 1e-7;
+
+/// The wall's heat flows at one moment.
+pub(super) struct Flows {
+    /// From the gas into the wall, W.
+    pub(super) into_wall: f64,
+    /// From the wall to the surroundings, W.
+    pub(super) to_ambient: f64,
+    /// Rates of change of the nodes' temperatures, K/s, innermost first.
+    pub(super) rates: Vec<f64>,
+    /// Temperature of the wall's inner face, K.
+    pub(super) face: f64,
+}
+
+impl<'a> Setup<'a> {
+    pub(super) fn new(
+        model: &'a dyn GasModel,
+        volume: Volume,
+        exchange: &'a Exchange,
+    ) -> Setup<'a> {
+        let v = volume.get::<cubic_meter>();
+        let (diameter, area) = heat::geometry(v, exchange.aspect);
+        Setup {
+            model,
+            volume: v,
+            diameter,
+            area,
+            grid: SLICE_GRID,
+            ambient: exchange.ambient_temperature.get::<kelvin>(),
+            exchange,
+            rtol: RTOL,
+            last_temperature: std::cell::Cell::new(exchange.ambient_temperature),
+            last_state: std::cell::Cell::new(None),
+        }
+    }
+
+    /// The gas state from its mass and internal energy, the search started from the last
+    /// state found (the integrator asks for neighbouring states in turn).
+    pub(super) fn gas(&self, m: f64, u_total: f64) -> Option<State> {
+        // The step's end state is asked for again by the stopping test: answer from memory.
+        if let Some((key, st)) = self.last_state.get() {
+            if key == (m, u_total) {
+                return Some(st);
+            }
+        }
+        let st = self
+            .model
+            .state_rho_u_near(
+                MassDensity::new::<kilogram_per_cubic_meter>(m / self.volume),
+                AvailableEnergy::new::<joule_per_kilogram>(u_total / m),
+                self.last_temperature.get(),
+            )
+            .ok()?;
+        self.last_temperature.set(st.temperature);
+        self.last_state.set(Some(((m, u_total), st)));
+        Some(st)
+    }
+
+    pub(super) fn film(&self, st: &State) -> Film {
+        let (viscosity, conductivity) = self.model.gas().transport(st.temperature, st.density);
+        let t = st.temperature.get::<kelvin>();
+        let cp = self.model.isobaric_heat_capacity(st).map_or(1000.0, |c| {
+            c.get::<uom::si::specific_heat_capacity::joule_per_kilogram_kelvin>()
+        });
+        Film {
+            density: st.density.get::<kilogram_per_cubic_meter>(),
+            viscosity,
+            conductivity,
+            cp,
+            temperature: t,
+        }
+    }
+
+    /// (inner coefficient W/(m²·K), outer coefficient, basis) for the gas at `st`.
+    pub(super) fn coefficients(
+        &self,
+        st: &State,
+        wall_t: f64,
+        fill_flow: Option<(f64, f64)>,
+    ) -> (f64, f64, InnerBasis) {
+        if self.exchange.mode == HeatTransfer::None {
+            return (0.0, 0.0, InnerBasis::None);
+        }
+        let h_out = heat::OUTSIDE_COEFFICIENT;
+        if let Some(h) = self.exchange.inner_coefficient {
+            return (h, h_out, InnerBasis::Given);
+        }
+        let dt = st.temperature.get::<kelvin>() - wall_t;
+        match fill_flow {
+            Some((flow, inlet)) if inlet > 0.0 => (
+                heat::jet(&self.film(st), flow, inlet, dt, self.diameter),
+                h_out,
+                InnerBasis::JetCorrelation,
+            ),
+            Some(_) => (heat::FILL_CONSTANT, h_out, InnerBasis::FillConstant),
+            None => (
+                heat::natural(&self.film(st), dt, self.diameter),
+                h_out,
+                InnerBasis::NaturalConvection,
+            ),
+        }
+    }
+
+    /// The wall's heat flows with the gas at `t_gas` and the coefficients inside and out.
+    pub(super) fn wall_flows(
+        &self,
+        n: &Nodes,
+        (h_inner, h_outer): (f64, f64),
+        t_gas: f64,
+        y: &[f64],
+    ) -> Flows {
+        // A convective film in series with half a layer: the conductance between them.
+        let series = |h: f64, r: f64| {
+            let ha = h * self.area;
+            ha / (1.0 + ha * r)
+        };
+        let t: Vec<f64> = (0..n.capacities.len())
+            .map(|i| y[Nodes::index(i)])
+            .collect();
+        let into_wall = series(h_inner, n.r_inner) * (t_gas - t[0]);
+        let to_ambient = series(h_outer, n.r_outer) * (t[t.len() - 1] - self.ambient);
+        // Heat into each node from inside, then the heat leaving the last to ambient.
+        let inflow: Vec<f64> = std::iter::once(into_wall)
+            .chain(t.windows(2).zip(&n.r_links).map(|(p, r)| (p[0] - p[1]) / r))
+            .chain(std::iter::once(to_ambient))
+            .collect();
+        let rates = n
+            .capacities
+            .iter()
+            .zip(inflow.windows(2))
+            .map(|(&c, q)| if c > 0.0 { (q[0] - q[1]) / c } else { 0.0 })
+            .collect();
+        Flows {
+            into_wall,
+            to_ambient,
+            rates,
+            face: t[0] + into_wall * n.r_inner,
+        }
+    }
+
+    /// The integrated state's derivatives for a gas gaining `flow` (kg/s, negative when
+    /// venting) of enthalpy `h` (J/kg), with the wall's flows: (derivatives, inner face).
+    pub(super) fn derivatives(&self, flow: f64, h: f64, f: &Flows) -> (Vec<f64>, f64) {
+        let mut d = vec![
+            flow,
+            flow * h - f.into_wall,
+            f.rates[0],
+            flow * h,
+            f.to_ambient,
+        ];
+        d.extend(&f.rates[1..]);
+        (d, f.face)
+    }
+
+    /// The starting state: gas mass and internal energy, the wall at `wall_t0` throughout,
+    /// the audit totals at zero.
+    pub(super) fn start(&self, n: &Nodes, m0: f64, u0: f64, wall_t0: f64) -> (Vec<f64>, Vec<f64>) {
+        let energy = u0.abs().max(1.0);
+        let mut y0 = vec![m0, u0, wall_t0, 0.0, 0.0];
+        let mut scale = vec![m0.max(1e-6), energy, wall_t0, energy, energy];
+        for _ in 1..n.capacities.len() {
+            y0.push(wall_t0);
+            scale.push(wall_t0);
+        }
+        (y0, scale)
+    }
+
+    pub(super) fn sample(&self, n: &Nodes, t: f64, y: &[f64], face: f64) -> Option<Sample> {
+        let st = self.gas(y[0], y[1])?;
+        Some(Sample {
+            time: Time::new::<second>(t),
+            pressure: st.pressure,
+            gas_temperature: st.temperature,
+            wall_temperature: ThermodynamicTemperature::new::<kelvin>(face),
+            wrap_temperature: n
+                .wrap_first
+                .map(|i| ThermodynamicTemperature::new::<kelvin>(y[Nodes::index(i)])),
+        })
+    }
+
+    /// The run from its trajectory; `face` gives the wall's inner-face temperature of a
+    /// state.
+    pub(super) fn finish(
+        &self,
+        n: &Nodes,
+        run: ode::Trajectory,
+        basis: InnerBasis,
+        face: impl Fn(&[f64]) -> Option<f64>,
+    ) -> Result<Run, InputError> {
+        let samples = run
+            .t
+            .iter()
+            .zip(&run.y)
+            .map(|(&t, y)| self.sample(n, t, y, face(y)?))
+            .collect::<Option<Vec<_>>>()
+            .ok_or_else(|| model_failure("the transient left the gas model's range"))?;
+        let (first, last) = (&run.y[0], &run.y[run.y.len() - 1]);
+        let end = self
+            .gas(last[0], last[1])
+            .ok_or_else(|| model_failure("the final state is outside the gas model's range"))?;
+        // Energy audit: ΔU_gas + ΔU_wall = enthalpy in (or −out) − heat to ambient.
+        let stored = (last[1] - first[1]) + n.stored(first, last);
+        let moved = last[3] - last[4];
+        let scale = last[3].abs().max(last[4].abs()).max(stored.abs()).max(1e-9);
+        Ok(Run {
+            samples,
+            end,
+            energy_residual: (stored - moved).abs() / scale,
+            basis,
+        })
+    }
+}
+
+pub(super) fn model_failure(what: &str) -> InputError {
+    InputError::new(
+        "heat-transfer",
+        "lumped",
+        format!("{what}; accepted: inputs that keep the gas within the model's range"),
+    )
+}
+
+pub(super) fn options(duration: f64, rtol: f64) -> Options {
+    Options {
+        rtol,
+        atol: rtol,
+        max_step: duration / 10.0,
+        max_steps: 200_000,
+    }
+}

@@ -1,0 +1,448 @@
+//! Tests of the transient runs: energy audits, limits, grids and tolerances.
+
+use super::fill::{fill_cautions, fill_run};
+use super::*;
+use crate::gas::{Gas, IdealGas};
+use crate::rules::fill::{adiabatic_fill, FillInput};
+use crate::rules::vent::{blow_down, Process, VentInput};
+use approx::assert_relative_eq;
+
+fn kelvin_of(t: ThermodynamicTemperature) -> f64 {
+    t.get::<kelvin>()
+}
+
+fn k(t: f64) -> ThermodynamicTemperature {
+    ThermodynamicTemperature::new::<kelvin>(t)
+}
+
+fn pa(p: f64) -> Pressure {
+    Pressure::new::<pascal>(p)
+}
+
+fn exchange(mode: HeatTransfer, wall_kg: f64, inner: Option<f64>) -> Exchange {
+    Exchange {
+        mode,
+        wall: Wall {
+            mass: Mass::new::<kilogram>(wall_kg),
+            material: Material::CarbonSteel,
+            estimated: false,
+            wrap: None,
+        },
+        inner_coefficient: inner,
+        ambient_temperature: k(293.15),
+        aspect: heat::CYLINDER_ASPECT,
+    }
+}
+
+fn air() -> IdealGas {
+    IdealGas::new(Gas::find("air").unwrap())
+}
+
+fn ramp(bar_per_min: f64) -> FillRate {
+    FillRate::Ramp(PressureRate {
+        per_second: pa(bar_per_min * 1e5 / 60.0),
+    })
+}
+
+/// Air at 20 bar(a) in the cylinder and the 300 bar(a) supply, both at 20 °C, and the
+/// supply's enthalpy, J/kg.
+fn air_fill_states() -> (State, State, f64) {
+    let model = air();
+    let initial = model.state_pt(pa(20e5), k(293.15)).unwrap();
+    let supply = model.state_pt(pa(300e5), k(293.15)).unwrap();
+    let h_in = model.enthalpy(&supply).get::<joule_per_kilogram>();
+    (initial, supply, h_in)
+}
+
+/// 50 L of air from 20 to 300 bar(a) at 20 °C, supply at 20 °C.
+fn cylinder_fill(rate: FillRate, ex: &Exchange) -> FillTransient {
+    let model = air();
+    let (initial, supply, _) = air_fill_states();
+    let case = FillCase {
+        volume: Volume::new::<cubic_meter>(0.05),
+        initial: &initial,
+        supply: &supply,
+        to: pa(300e5),
+        rate,
+        inlet_diameter: None,
+    };
+    fill(&model, &case, Some(k(338.15)), ex).unwrap().value
+}
+
+#[test]
+fn without_heat_transfer_the_fill_is_the_adiabatic_closed_form() {
+    let r = cylinder_fill(ramp(25.0), &exchange(HeatTransfer::None, 60.0, None));
+    let closed = adiabatic_fill(
+        &air(),
+        &FillInput {
+            volume: Volume::new::<cubic_meter>(0.05),
+            from: pa(20e5),
+            to: pa(300e5),
+            initial_temperature: k(293.15),
+            supply_temperature: k(293.15),
+            supply_pressure: None,
+            ambient_temperature: k(293.15),
+            rated_temperature: None,
+        },
+    )
+    .unwrap()
+    .value;
+    assert_relative_eq!(
+        kelvin_of(r.run.peak_gas()),
+        kelvin_of(closed.final_temperature),
+        max_relative = 1e-6
+    );
+    assert_relative_eq!(
+        r.run.end.pressure.get::<pascal>(),
+        300e5,
+        max_relative = 1e-9
+    );
+    // 280 bar at 25 bar/min: 672 s.
+    assert_relative_eq!(r.run.duration().get::<second>(), 672.0, max_relative = 1e-6);
+}
+
+#[test]
+fn energy_is_conserved_over_a_fill_and_a_vent() {
+    let r = cylinder_fill(ramp(25.0), &exchange(HeatTransfer::Lumped, 60.0, None));
+    assert!(r.run.energy_residual < 1e-6, "{}", r.run.energy_residual);
+    let v = receiver_vent(&exchange(HeatTransfer::Lumped, 500.0, None), 0.01);
+    assert!(v.run.energy_residual < 1e-6, "{}", v.run.energy_residual);
+}
+
+#[test]
+fn results_do_not_depend_on_the_step_size() {
+    let model = air();
+    let ex = exchange(HeatTransfer::Lumped, 60.0, None);
+    let v = Volume::new::<cubic_meter>(0.05);
+    let (initial, _, h_in) = air_fill_states();
+    let peak = |rtol: f64| {
+        let mut setup = Setup::new(&model, v, &ex);
+        setup.rtol = rtol;
+        kelvin_of(
+            fill_run(&setup, &initial, 293.15, h_in, 300e5, ramp(25.0), 0.0)
+                .unwrap()
+                .peak_gas(),
+        )
+    };
+    assert_relative_eq!(peak(1e-7), peak(1e-11), max_relative = 1e-6);
+}
+
+#[test]
+fn the_wall_lowers_the_peak_and_a_slower_or_heavier_fill_lowers_it_more() {
+    let peak = |bar_per_min: f64, mode: HeatTransfer, wall_kg: f64| {
+        kelvin_of(
+            cylinder_fill(ramp(bar_per_min), &exchange(mode, wall_kg, None))
+                .run
+                .peak_gas(),
+        )
+    };
+    let adiabatic = peak(25.0, HeatTransfer::None, 60.0);
+    let fast = peak(100.0, HeatTransfer::Lumped, 60.0);
+    let planned = peak(25.0, HeatTransfer::Lumped, 60.0);
+    let slow = peak(5.0, HeatTransfer::Lumped, 60.0);
+    let heavy = peak(25.0, HeatTransfer::Lumped, 200.0);
+    assert!(
+        adiabatic > fast && fast > planned && planned > slow,
+        "{adiabatic} {fast} {planned} {slow}"
+    );
+    assert!(heavy < planned, "{heavy} {planned}");
+    assert!(slow > 293.15);
+}
+
+#[test]
+fn a_search_that_fails_on_the_model_is_unresolved_not_none_safe() {
+    // A 10 g wall follows the gas within milliseconds: the planned fill completes, but
+    // the day-long fill at the slow end of the search runs out of steps. That is no
+    // answer, not "no rate is safe".
+    let ex = exchange(HeatTransfer::Lumped, 0.01, None);
+    let r = cylinder_fill(ramp(100.0), &ex);
+    assert_eq!(r.max_rate, Some(MaxRate::Unresolved));
+    let (cautions, _) = fill_cautions(&r, &ex);
+    assert!(cautions
+        .iter()
+        .any(|c| c.message().contains("not resolved")));
+}
+
+#[test]
+fn filling_at_the_maximum_rate_reaches_the_rating() {
+    let ex = exchange(HeatTransfer::Lumped, 60.0, None);
+    let r = cylinder_fill(ramp(25.0), &ex);
+    let Some(MaxRate::Ramp(max)) = r.max_rate else {
+        panic!("expected a finite maximum rate, got {:?}", r.max_rate);
+    };
+    let at_max = cylinder_fill(FillRate::Ramp(max), &ex);
+    assert!((kelvin_of(at_max.run.peak_gas()) - 338.15).abs() < 1.0);
+}
+
+/// A 6.8 L composite cylinder rated for 300 bar: liner and wrap by the estimates, or
+/// the liner alone (`wrap` false).
+fn composite(wrap: bool) -> Exchange {
+    lined(Liner::Aluminium, wrap)
+}
+
+/// The same cylinder with the given liner.
+fn lined(liner: Liner, wrap: bool) -> Exchange {
+    let mut wall = Wall::cylinder(
+        (Construction::Composite, Some(liner)),
+        Volume::new::<cubic_meter>(0.0068),
+        pa(300e5),
+        CylinderMass::Layers(None, None),
+    );
+    if !wrap {
+        wall.wrap = None;
+    }
+    Exchange {
+        wall,
+        ..exchange(HeatTransfer::Lumped, 1.0, None)
+    }
+}
+
+fn composite_fill(ex: &Exchange) -> Run {
+    let model = air();
+    let (initial, supply, _) = air_fill_states();
+    let case = FillCase {
+        volume: Volume::new::<cubic_meter>(0.0068),
+        initial: &initial,
+        supply: &supply,
+        to: pa(300e5),
+        rate: ramp(100.0),
+        inlet_diameter: None,
+    };
+    fill_once(&model, &case, ex).unwrap()
+}
+
+#[test]
+fn a_composite_wrap_is_a_second_node_behind_the_liner() {
+    let two = composite_fill(&composite(true));
+    let liner_only = composite_fill(&composite(false));
+    assert!(two.energy_residual < 1e-6, "{}", two.energy_residual);
+    // The wrap takes up some heat, so the gas peaks lower than with the liner alone, but
+    // it lags the liner throughout the fill.
+    let (peak, alone) = (kelvin_of(two.peak_gas()), kelvin_of(liner_only.peak_gas()));
+    assert!(peak < alone && peak > 293.15, "{peak} {alone}");
+    for s in &two.samples[1..] {
+        let wrap = kelvin_of(s.wrap_temperature.unwrap());
+        assert!(wrap < kelvin_of(s.wall_temperature) && wrap >= 293.15 - 1e-9);
+    }
+    assert!(liner_only
+        .samples
+        .iter()
+        .all(|s| s.wrap_temperature.is_none()));
+    assert!(two.peak_wrap().unwrap() < two.peak_wall());
+}
+
+#[test]
+fn a_vanishing_wrap_leaves_the_liner_alone() {
+    let mut ex = composite(true);
+    ex.wall.wrap = ex.wall.wrap.map(|w| Wrap {
+        mass: Mass::new::<kilogram>(1e-6),
+        ..w
+    });
+    // Lumped with the liner, it adds its tiny heat capacity there.
+    let (thin, alone) = (composite_fill(&ex), composite_fill(&composite(false)));
+    assert!(thin.peak_wrap().is_some());
+    assert_relative_eq!(
+        kelvin_of(thin.peak_gas()),
+        kelvin_of(alone.peak_gas()),
+        max_relative = 1e-6
+    );
+}
+
+#[test]
+fn a_plastic_liner_runs_hotter_and_its_heat_is_accounted_for() {
+    let plastic = composite_fill(&lined(Liner::Plastic, true));
+    let metal = composite_fill(&composite(true));
+    assert!(
+        plastic.energy_residual < 1e-6,
+        "{}",
+        plastic.energy_residual
+    );
+    assert!(kelvin_of(plastic.peak_gas()) > kelvin_of(metal.peak_gas()) + 1.0);
+    // The plastic holds the heat at the gas side: the wrap stays cooler behind it.
+    assert!(plastic.peak_wrap().unwrap() < metal.peak_wrap().unwrap());
+    // Whatever the layers, the inner face lies between the gas and the wrap.
+    for s in &plastic.samples[1..] {
+        let (g, w) = (kelvin_of(s.gas_temperature), kelvin_of(s.wall_temperature));
+        assert!(g > w && w > kelvin_of(s.wrap_temperature.unwrap()));
+    }
+}
+
+#[test]
+fn the_composite_fill_does_not_depend_on_the_step_size() {
+    let model = air();
+    let ex = composite(true);
+    let v = Volume::new::<cubic_meter>(0.0068);
+    let (initial, _, h_in) = air_fill_states();
+    let peaks = |rtol: f64| {
+        let mut setup = Setup::new(&model, v, &ex);
+        setup.rtol = rtol;
+        let run = fill_run(&setup, &initial, 293.15, h_in, 300e5, ramp(100.0), 0.0).unwrap();
+        (
+            kelvin_of(run.peak_gas()),
+            kelvin_of(run.peak_wrap().unwrap()),
+        )
+    };
+    let (coarse, fine) = (peaks(1e-7), peaks(1e-11));
+    assert_relative_eq!(coarse.0, fine.0, max_relative = 1e-6);
+    assert_relative_eq!(coarse.1, fine.1, max_relative = 1e-6);
+}
+
+#[test]
+fn the_wall_nodes_keep_every_layers_heat_capacity_and_resistance() {
+    let area = 0.25;
+    for liner in [Liner::Aluminium, Liner::Plastic] {
+        for wrap_kg in [1e-4, 0.3, 2.7, 20.0] {
+            for duration in [0.1, 10.0, 600.0, 86_400.0] {
+                let mut wall = lined(liner, true).wall;
+                wall.wrap = wall.wrap.map(|w| Wrap {
+                    mass: Mass::new::<kilogram>(wrap_kg),
+                    ..w
+                });
+                // A plastic liner under 1 mm is lumped with the wrap.
+                if liner == Liner::Plastic && wrap_kg > 1.0 {
+                    wall.mass = Mass::new::<kilogram>(0.1);
+                }
+                let n = Nodes::new(&wall, area, duration, SLICE_GRID);
+                let (ml, l, c) = (
+                    wall.mass.get::<kilogram>(),
+                    wall.material,
+                    Material::Composite,
+                );
+                let capacity = ml * l.specific_heat() + wrap_kg * c.specific_heat();
+                let resistance = (ml / (l.density() * area) / l.conductivity()
+                    + wrap_kg / (c.density() * area) / c.conductivity())
+                    / area;
+                let total_r = n.r_inner + n.r_links.iter().sum::<f64>() + n.r_outer;
+                let what = format!("{liner:?} {wrap_kg} kg {duration} s");
+                assert_relative_eq!(
+                    n.capacities.iter().sum::<f64>(),
+                    capacity,
+                    max_relative = 1e-12
+                );
+                assert_relative_eq!(total_r, resistance, max_relative = 1e-12);
+                assert_eq!(n.r_links.len() + 1, n.capacities.len(), "{what}");
+                assert!(
+                    n.wrap_first.is_some_and(|i| i < n.capacities.len()),
+                    "{what}"
+                );
+            }
+        }
+    }
+}
+
+#[test]
+fn a_finer_slice_grid_moves_the_peak_by_less_than_a_tenth_of_a_kelvin() {
+    let model = air();
+    let ex = composite(true);
+    let v = Volume::new::<cubic_meter>(0.0068);
+    let (initial, _, h_in) = air_fill_states();
+    let plastic = lined(Liner::Plastic, true);
+    let peak = |ex: &Exchange, grid: (f64, f64), bar_per_min: f64| {
+        let mut setup = Setup::new(&model, v, ex);
+        setup.grid = grid;
+        let r = ramp(bar_per_min);
+        kelvin_of(
+            fill_run(&setup, &initial, 293.15, h_in, 300e5, r, 0.0)
+                .unwrap()
+                .peak_gas(),
+        )
+    };
+    for bar_per_min in [20.0, 100.0, 500.0] {
+        let (used, fine) = (
+            peak(&ex, SLICE_GRID, bar_per_min),
+            peak(&ex, (0.05, 1.04), bar_per_min),
+        );
+        assert!((used - fine).abs() < 0.1, "{bar_per_min}: {used} {fine}");
+        let (used, fine) = (
+            peak(&plastic, SLICE_GRID, bar_per_min),
+            peak(&plastic, (0.05, 1.04), bar_per_min),
+        );
+        assert!(
+            (used - fine).abs() < 0.1,
+            "plastic {bar_per_min}: {used} {fine}"
+        );
+    }
+}
+
+/// 2 m³ of air at 10 barg vented through `d` (Cd 1) to 1.01 atm.
+fn receiver_vent(ex: &Exchange, d: f64) -> VentTransient {
+    let model = air();
+    let start = model.state_pt(pa(11.01325e5), k(293.15)).unwrap();
+    let area = std::f64::consts::PI / 4.0 * d * d;
+    vent(
+        &model,
+        Volume::new::<cubic_meter>(2.0),
+        &start,
+        area,
+        pa(101_325.0),
+        pa(1.01 * 101_325.0),
+        Some(Depressuring {
+            target: pa(5e5),
+            limit: Time::new::<second>(900.0),
+        }),
+        ex,
+    )
+    .unwrap()
+    .value
+}
+
+fn quasi_steady(process: Process, d: f64) -> (f64, f64) {
+    let r = blow_down(
+        &air(),
+        &VentInput {
+            volume: Volume::new::<cubic_meter>(2.0),
+            pressure: pa(11.01325e5),
+            temperature: k(293.15),
+            ambient: pa(101_325.0),
+            orifice: Some(Length::new::<meter>(d)),
+            cd: 1.0,
+            down_to: pa(1.01 * 101_325.0),
+            process,
+            min_metal_temperature: None,
+            within: None,
+        },
+    )
+    .unwrap()
+    .value;
+    (
+        r.time.unwrap().get::<second>(),
+        kelvin_of(r.end.temperature),
+    )
+}
+
+#[test]
+fn without_heat_transfer_the_vent_is_isentropic() {
+    let r = receiver_vent(&exchange(HeatTransfer::None, 500.0, None), 0.01);
+    let (t, end) = quasi_steady(Process::Isentropic, 0.01);
+    assert_relative_eq!(r.run.duration().get::<second>(), t, max_relative = 1e-6);
+    assert_relative_eq!(kelvin_of(r.run.end.temperature), end, max_relative = 1e-6);
+}
+
+#[test]
+fn a_huge_coefficient_and_wall_make_the_vent_isothermal() {
+    // A heavy wall of a good conductor. The wall's own conduction (half its thickness
+    // over k) bounds what any inner coefficient can deliver: a lighter wall cools more,
+    // a heavier, thicker one passes its heat more slowly; 3 t of aluminium keeps the gas
+    // within 1 K of ambient.
+    let mut ex = exchange(HeatTransfer::Lumped, 3.0e3, Some(1.0e5));
+    ex.wall.material = Material::Aluminium;
+    let r = receiver_vent(&ex, 0.01);
+    let (t, _) = quasi_steady(Process::Isothermal, 0.01);
+    assert_relative_eq!(r.run.duration().get::<second>(), t, max_relative = 2e-3);
+    let min = kelvin_of(r.run.min_gas());
+    assert!((min - 293.15).abs() < 1.0, "{min}");
+}
+
+#[test]
+fn the_coldest_gas_lies_between_the_isentropic_end_and_ambient() {
+    let r = receiver_vent(&exchange(HeatTransfer::Lumped, 500.0, None), 0.01);
+    let (_, isentropic_end) = quasi_steady(Process::Isentropic, 0.01);
+    let min = kelvin_of(r.run.min_gas());
+    assert!(
+        min > isentropic_end && min < 293.15,
+        "{isentropic_end} < {min} < 293.15"
+    );
+    assert!(kelvin_of(r.run.min_wall()) > min);
+    let t = r.depressuring_time.unwrap().get::<second>();
+    assert!(t > 0.0 && t < r.run.duration().get::<second>());
+}
