@@ -184,15 +184,32 @@ pub enum InnerBasis {
     None,
     /// A coefficient the user gave.
     Given,
-    /// Jet-driven forced plus natural convection (fill with a known inlet diameter).
+    /// Jet-driven forced plus natural convection, with the inlet bore given.
     JetCorrelation,
-    /// The constant fitted to fill experiments.
-    FillConstant,
+    /// Jet-driven forced plus natural convection, with the inlet bore taken as
+    /// [`DEFAULT_INLET_BORE`] (none given).
+    JetCorrelationAssumedInlet,
     /// Natural convection in the enclosure (vent).
     NaturalConvection,
 }
 
-/// The inner coefficient measured while filling, W/(m²·K).
+/// The inlet bore the jet correlation takes when none is given, m.
+///
+/// Cylinder valves and fill connections pass gas through bores of about 2–8 mm (common
+/// practice, no source). The forced term falls as the bore widens (Re_d = 4ṁ/(π·d·μ)), so
+/// the widest end of that range gives the lowest coefficient and the hottest fill.
+pub const DEFAULT_INLET_BORE: f64 = 8.0e-3;
+
+/// The relative scatter taken on a correlation's coefficient for the conservative edge of a
+/// result: the edge runs with the coefficient scaled by 1 ∓ this.
+///
+/// Convection correlations of this kind carry errors of up to about 25 % (Incropera &
+/// DeWitt, Fundamentals of Heat and Mass Transfer, ch. 7–9, from memory); the fill
+/// correlation was fitted to hydrogen tanks alone, so the edge takes a wider 30 % (a
+/// conservative choice, no source).
+pub const CORRELATION_SCATTER: f64 = 0.3;
+
+/// The inner coefficient measured while filling, W/(m²·K): the cap on the jet correlation.
 ///
 /// source: Woodfield, Monde & Takano (2008): about 500 W/(m²·K) during the fill of 39–205 L
 /// hydrogen tanks at 35 and 70 MPa (from memory).
@@ -256,6 +273,42 @@ mod tests {
         // A slow fill through a wide inlet: below the cap; a very fast one: at the cap.
         assert!(jet(&film, 1e-4, 0.01, 30.0, 0.2) < FILL_CONSTANT);
         assert_eq!(jet(&film, 2.0, 0.004, 30.0, 0.2), FILL_CONSTANT);
+    }
+
+    /// Properties at 300 K and 1 atm: Incropera & DeWitt, Fundamentals of Heat and Mass
+    /// Transfer, table A.4 (from memory): air μ 184.6e-7 Pa·s, k 0.0263 W/(m·K), cp 1007
+    /// J/(kg·K); hydrogen μ 89.6e-7, k 0.183, cp 14 310; densities from the ideal gas.
+    fn film_at_300_k(gas: &str) -> Film {
+        let (density, viscosity, conductivity, cp) = match gas {
+            "air" => (1.177, 184.6e-7, 0.0263, 1007.0),
+            _ => (0.0819, 89.6e-7, 0.183, 14_310.0),
+        };
+        Film {
+            density,
+            viscosity,
+            conductivity,
+            cp,
+            temperature: 300.0,
+        }
+    }
+
+    #[test]
+    fn the_jet_coefficient_follows_the_gas_and_the_flow() {
+        let (air, hydrogen) = (film_at_300_k("air"), film_at_300_k("hydrogen"));
+        // The same 1 g/s through the default bore into a 0.13 m cylinder, 20 K warmer
+        // than its wall: hydrogen, seven times as conductive and half as viscous, takes
+        // up heat several times faster than air.
+        let h = |f: &Film, flow: f64| jet(f, flow, DEFAULT_INLET_BORE, 20.0, 0.13);
+        assert!(h(&hydrogen, 1e-3) > 4.0 * h(&air, 1e-3));
+        // A slower fill drives a weaker jet; with no flow, natural convection is left.
+        assert!(h(&air, 1e-4) < h(&air, 1e-3));
+        assert_relative_eq!(
+            h(&air, 0.0),
+            natural(&air, 20.0, 0.13),
+            max_relative = 1e-12
+        );
+        // A wider bore slows the jet: the default, the widest usual bore, cools least.
+        assert!(jet(&air, 1e-3, 2e-3, 20.0, 0.13) > h(&air, 1e-3));
     }
 
     #[test]

@@ -86,13 +86,62 @@ fn without_heat_transfer_the_transient_is_the_adiabatic_fill() {
 }
 
 #[test]
-fn filling_at_the_reported_maximum_rate_reaches_the_rating_within_a_kelvin() {
+fn filling_at_the_reported_maximum_rate_brings_the_conservative_edge_to_the_rating() {
     let v = fill(&["--rate", "25 bar/min"]);
     let max = num(&v["transient"], "max_rate_pa_per_s");
     let rate = format!("{} bar/min", max * 60.0 / 1e5);
     let at_max = fill(&["--rate", &rate]);
-    let peak = num(&at_max["transient"], "peak_gas_temperature_k");
-    assert!((peak - 338.15).abs() < 1.0, "{peak}");
+    let t = &at_max["transient"];
+    let edge = num(t, "peak_gas_temperature_upper_k");
+    assert!((edge - 338.15).abs() < 1.0, "{edge}");
+    assert!(num(t, "peak_gas_temperature_k") < edge);
+    assert_eq!(
+        t["inner_coefficient_basis"],
+        "jet-correlation-assumed-inlet"
+    );
+    assert_eq!(t["go"], true);
+}
+
+/// The 6.8 L type 3 (aluminium liner) and type 4 (0.6 mm plastic liner) hydrogen
+/// cylinders cycled between 2 and 45 MPa, filled at 0.15 MPa/s, of a published study
+/// (Int. J. Hydrogen Energy, 2021; abstract only): gas temperatures over the cycles up to
+/// 70 °C, the type 4 hotter than the type 3 but not above 85 °C. The abstract does not
+/// state the starting temperature: taken as 20 °C, with 10 K either way allowed for it;
+/// the fill must heat the gas well above its start (at least 25 K). The wrap by the
+/// estimate (4.08 kg); the 0.6 mm liner as 0.135 kg of plastic over the inner area.
+#[test]
+fn hydrogen_cylinder_cycles_peak_where_the_published_measurements_did() {
+    let peak = |liner: &[&str]| {
+        let mut args = vec![
+            "fill",
+            "--gas",
+            "hydrogen",
+            "--volume",
+            "6.8 L",
+            "--from",
+            "2 MPag",
+            "--to",
+            "45 MPag",
+            "--rate",
+            "9 MPa/min",
+            "--construction",
+            "composite",
+        ];
+        args.extend(liner);
+        num(&run(&args)["transient"], "peak_gas_temperature_k") - 273.15
+    };
+    let type3 = peak(&["--liner", "aluminium"]);
+    let type4 = peak(&[
+        "--liner",
+        "plastic",
+        "--wall-mass",
+        "0.135 kg",
+        "--wrap-mass",
+        "4.08 kg",
+    ]);
+    assert!((45.0..=80.0).contains(&type3), "type 3: {type3} °C");
+    assert!(type4 > type3, "type 4 {type4} °C, type 3 {type3} °C");
+    assert!(type4 <= 95.0, "type 4: {type4} °C");
 }
 
 #[test]
@@ -251,9 +300,9 @@ fn wall_options_without_a_wall_run_are_refused() {
 }
 
 #[test]
-fn the_inlet_jet_never_promises_a_faster_safe_fill_and_the_inputs_are_echoed() {
-    // The jet correlation is capped at the fill constant (heat.rs), so giving the inlet bore
-    // can only lower the highest safe rate, however fast the search tries.
+fn the_assumed_inlet_bore_cools_least_and_the_inputs_are_echoed() {
+    // Without a bore the jet enters through the widest usual one (heat.rs), which gives the
+    // lowest coefficient: a narrower bore given can only raise the highest safe rate.
     let mut plain = FILL.to_vec();
     plain.extend(["--rate", "25 bar/min"]);
     let mut jet = plain.clone();
@@ -261,12 +310,20 @@ fn the_inlet_jet_never_promises_a_faster_safe_fill_and_the_inputs_are_echoed() {
     let (plain, jet) = (run(&plain), run(&jet));
     assert_eq!(num(&jet, "inputs.inlet_diameter_m"), 0.004);
     assert!(plain["inputs"]["inlet_diameter_m"].is_null());
+    assert_eq!(
+        jet["transient"]["inner_coefficient_basis"],
+        "jet-correlation"
+    );
     let max = |v: &Value| num(v, "transient.max_rate_pa_per_s");
     assert!(
-        max(&jet) <= max(&plain) * (1.0 + 1e-6),
-        "{} > {}",
+        max(&jet) >= max(&plain) * (1.0 - 1e-6),
+        "{} < {}",
         max(&jet),
         max(&plain)
+    );
+    assert!(
+        num(&jet, "transient.peak_gas_temperature_upper_k")
+            <= num(&plain, "transient.peak_gas_temperature_upper_k")
     );
     let args: Vec<&str> = RECEIVER_VENT
         .iter()
@@ -275,6 +332,10 @@ fn the_inlet_jet_never_promises_a_faster_safe_fill_and_the_inputs_are_echoed() {
         .collect();
     let v = run(&args);
     assert_eq!(num(&v, "inputs.design_pressure_pa"), 13.01325e5);
+    // The vent's conservative edges lie on the cold side of its central results.
+    let t = &v["transient"];
+    assert!(num(t, "min_gas_temperature_lower_k") < num(t, "min_gas_temperature_k"));
+    assert!(num(t, "min_wall_temperature_lower_k") < num(t, "min_wall_temperature_k"));
 }
 
 /// A small cylinder of air filled from 20 to 300 bar(a) at 100 bar/min.

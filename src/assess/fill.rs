@@ -5,7 +5,7 @@
 use uom::si::f64::{Length, Pressure};
 
 use super::finding::{Finding, Hazard};
-use super::{gas, Governing};
+use super::{edge_and_central, gas, Governing};
 use crate::caution::{Level, Part};
 use crate::gas::{ideal_twin, GasModel};
 use crate::report::{FillReport, FillTransientReport};
@@ -79,13 +79,16 @@ fn temperature(
     model: Option<&FillTransientReport>,
     max_rate: Option<MaxRate>,
 ) -> Finding {
-    let (peak, basis, lead) = match model {
+    // Decided on the conservative edge; the central peak is shown beside it.
+    let (peak, central, basis, lead) = match model {
         Some(t) => (
+            t.peak_gas_temperature_upper_k,
             t.peak_gas_temperature_k,
             "wall model at the planned rate",
             "At the planned rate the gas peaks at ",
         ),
         None => (
+            r.final_temperature_k,
             r.final_temperature_k,
             "adiabatic bound",
             "With no heat to the wall (the adiabatic bound) the gas reaches ",
@@ -96,20 +99,23 @@ fn temperature(
             Hazard::FillTemperature,
             Level::Notice,
             basis,
-            vec![Part::from(lead), Part::from(Value::Temperature(peak)), Part::from(".")],
+            [vec![Part::from(lead)], edge_and_central(peak, central), vec![Part::from(".")]].concat(),
             vec![Part::from("Compare it with the maximum marked on the cylinder or in its standard (often 65 °C).")],
         )
         .against(Value::Temperature(peak), None);
     };
     let against = |f: Finding| f.against(Value::Temperature(peak), Some(Value::Temperature(rated)));
     let result = |relation: &str| {
-        vec![
-            Part::from(lead),
-            Part::from(Value::Temperature(peak)),
-            Part::from(relation),
-            Part::from(Value::Temperature(rated)),
-            Part::from(")."),
+        [
+            vec![Part::from(lead)],
+            edge_and_central(peak, central),
+            vec![
+                Part::from(relation),
+                Part::from(Value::Temperature(rated)),
+                Part::from(")."),
+            ],
         ]
+        .concat()
     };
     if peak <= rated {
         let mut found = result(", within the rated temperature (");

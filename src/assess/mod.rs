@@ -69,3 +69,22 @@ fn conclude(
 
 #[cfg(test)]
 mod tests;
+
+/// A governing temperature in words: its conservative edge, with the central result beside
+/// it where the two differ.
+fn edge_and_central(
+    edge: uom::si::f64::ThermodynamicTemperature,
+    central: uom::si::f64::ThermodynamicTemperature,
+) -> Vec<crate::caution::Part> {
+    use crate::caution::Part;
+    use crate::units::Value;
+    if edge == central {
+        return vec![Part::from(Value::Temperature(edge))];
+    }
+    vec![
+        Part::from(Value::Temperature(edge)),
+        Part::from(" (conservative edge; central "),
+        Part::from(Value::Temperature(central)),
+        Part::from(")"),
+    ]
+}

@@ -4,7 +4,7 @@
 //! jet.
 
 use super::finding::{Finding, Hazard};
-use super::{gas, Governing};
+use super::{edge_and_central, gas, Governing};
 use crate::caution::{Level, Part};
 use crate::gas::{ideal_twin, GasModel};
 use crate::report::{DepressuringReport, VentReport, VentTransientReport};
@@ -89,18 +89,26 @@ fn cold_metal(r: &VentReport, input: &VentInput, governing: Governing) -> Findin
     };
     let Some(mdmt) = input.min_metal_temperature else {
         let (coldest, basis, what) = match model {
-            Some(t) => (t.min_wall_temperature_k, "wall model", "The wall cools to "),
-            None => (r.final_temperature_k, bound_basis, "The gas falls to "),
+            Some(t) => (
+                (t.min_wall_temperature_lower_k, t.min_wall_temperature_k),
+                "wall model",
+                "The wall cools to ",
+            ),
+            None => (
+                (r.final_temperature_k, r.final_temperature_k),
+                bound_basis,
+                "The gas falls to ",
+            ),
         };
+        let mut result = vec![Part::from(what)];
+        result.extend(edge_and_central(coldest.0, coldest.1));
+        result.push(Part::from("."));
+        let coldest = coldest.0;
         return Finding::action(
             Hazard::ColdMetal,
             Level::Notice,
             basis,
-            vec![
-                Part::from(what),
-                Part::from(Value::Temperature(coldest)),
-                Part::from("."),
-            ],
+            result,
             vec![Part::from(
                 "Compare it with the MDMT on the vessel's rating plate.",
             )],
@@ -110,20 +118,24 @@ fn cold_metal(r: &VentReport, input: &VentInput, governing: Governing) -> Findin
     let limit = Some(Value::Temperature(mdmt));
     match model {
         Some(t) => {
-            let wall = t.min_wall_temperature_k;
-            let gas = t.min_gas_temperature_k;
+            // Decided on the conservative edges; the central results are shown beside them.
+            let wall = t.min_wall_temperature_lower_k;
+            let gas = t.min_gas_temperature_lower_k;
+            let wall_words = edge_and_central(wall, t.min_wall_temperature_k);
+            let gas_words = edge_and_central(gas, t.min_gas_temperature_k);
             let found = if wall < mdmt {
                 Finding::stop(
                     Hazard::ColdMetal,
                     Level::Warning,
                     "wall model",
-                    vec![
-                        Part::from("The wall cools to "),
-                        Part::from(Value::Temperature(wall)),
-                        Part::from(", below the MDMT ("),
+                    [
+                        vec![Part::from("The wall cools to ")],
+                        wall_words,
+                        vec![Part::from(", below the MDMT ("),
                         Part::from(Value::Temperature(mdmt)),
                         Part::from("): brittle fracture is possible while the vessel is still under pressure."),
-                    ],
+                    ]]
+                    .concat(),
                     vec![Part::from("Vent more slowly or in stages, and have an authorised inspector confirm the low-temperature rating.")],
                 )
             } else if gas < mdmt {
@@ -131,15 +143,16 @@ fn cold_metal(r: &VentReport, input: &VentInput, governing: Governing) -> Findin
                     Hazard::ColdMetal,
                     Level::Caution,
                     "wall model",
-                    vec![
-                        Part::from("The gas falls to "),
-                        Part::from(Value::Temperature(gas)),
-                        Part::from(
+                    [
+                        vec![Part::from("The gas falls to ")],
+                        gas_words,
+                        vec![Part::from(
                             ", below the MDMT, while the wall stays at or above it (lowest ",
-                        ),
-                        Part::from(Value::Temperature(wall)),
-                        Part::from(")."),
-                    ],
+                        )],
+                        wall_words,
+                        vec![Part::from(").")],
+                    ]
+                    .concat(),
                     vec![Part::from(
                         "Keep to the vent rate assumed here and do not repeat vents back to back.",
                     )],
@@ -148,15 +161,18 @@ fn cold_metal(r: &VentReport, input: &VentInput, governing: Governing) -> Findin
                 Finding::ok(
                     Hazard::ColdMetal,
                     "wall model",
-                    vec![
-                        Part::from("The wall stays at "),
-                        Part::from(Value::Temperature(wall)),
-                        Part::from(" or warmer and the gas at "),
-                        Part::from(Value::Temperature(gas)),
-                        Part::from(" or warmer, above the MDMT ("),
-                        Part::from(Value::Temperature(mdmt)),
-                        Part::from(")."),
-                    ],
+                    [
+                        vec![Part::from("The wall stays at ")],
+                        wall_words,
+                        vec![Part::from(" or warmer and the gas at ")],
+                        gas_words,
+                        vec![
+                            Part::from(" or warmer, above the MDMT ("),
+                            Part::from(Value::Temperature(mdmt)),
+                            Part::from(")."),
+                        ],
+                    ]
+                    .concat(),
                 )
             };
             found.against(Value::Temperature(wall), limit)

@@ -203,8 +203,12 @@ pub struct FillTransientReport {
     pub planned_rate_pa_per_s: Option<Pressure>,
     /// The planned mass flow, kg/s (null for a pressure-ramp fill).
     pub planned_mass_flow_kg_per_s: Option<MassRate>,
-    /// Highest gas temperature, K.
+    /// Highest gas temperature, K: the central result.
     pub peak_gas_temperature_k: ThermodynamicTemperature,
+    /// The conservative edge of the highest gas temperature, K: with the correlation's
+    /// coefficient at the low end of its scatter (the central value where the coefficient
+    /// was given). The go/no-go and the highest safe rate are decided on it.
+    pub peak_gas_temperature_upper_k: ThermodynamicTemperature,
     /// Highest wall temperature at its inner face (a composite's liner), K.
     pub peak_wall_temperature_k: ThermodynamicTemperature,
     /// Highest temperature of a composite cylinder's wrap, K (absent for metal cylinders).
@@ -226,7 +230,8 @@ pub struct FillTransientReport {
     /// is within it), `none-safe` (even a day-long fill exceeds it), `unresolved` (the search
     /// failed on the model), or null without a rating.
     pub max_rate: Option<&'static str>,
-    /// Whether the planned fill keeps the gas within the rating (null without a rating).
+    /// Whether the planned fill keeps the gas within the rating on the conservative edge
+    /// (null without a rating).
     pub go: Option<bool>,
     /// Energy not accounted for over the run, relative.
     pub energy_residual: f64,
@@ -262,6 +267,7 @@ impl FillTransientReport {
             planned_rate_pa_per_s,
             planned_mass_flow_kg_per_s,
             peak_gas_temperature_k: t.run.peak_gas(),
+            peak_gas_temperature_upper_k: t.peak_gas_upper,
             peak_wall_temperature_k: t.run.peak_wall(),
             peak_wrap_temperature_k: t.run.peak_wrap(),
             end_pressure_pa: t.run.end.pressure,
@@ -270,7 +276,7 @@ impl FillTransientReport {
             fill_to_pressure_pa: t.fill_to_pressure,
             max_rate_pa_per_s,
             max_rate,
-            go: rated.map(|r| t.run.peak_gas() <= r),
+            go: rated.map(|r| t.peak_gas_upper <= r),
             energy_residual: t.run.energy_residual,
             samples: t.run.samples.clone(),
         }
@@ -285,6 +291,13 @@ impl FillTransientReport {
             Value::Temperature(self.peak_gas_temperature_k),
             method,
         ));
+        if self.peak_gas_temperature_upper_k != self.peak_gas_temperature_k {
+            out.push(result(
+                "Peak gas temperature, conservative edge",
+                Value::Temperature(self.peak_gas_temperature_upper_k),
+                "inner coefficient 30 % lower (the correlation's scatter): the go/no-go is decided on it",
+            ));
+        }
         out.push(result(
             "Peak wall temperature",
             Value::Temperature(self.peak_wall_temperature_k),
@@ -467,10 +480,16 @@ pub struct VentTransientReport {
     pub inner_coefficient_basis: InnerBasis,
     /// Time to the target, s.
     pub time_s: Time,
-    /// Lowest gas temperature, K.
+    /// Lowest gas temperature, K: the central result.
     pub min_gas_temperature_k: ThermodynamicTemperature,
-    /// Lowest wall temperature, K.
+    /// The conservative edge of the lowest gas temperature, K: the lowest over the inner
+    /// coefficient's scatter (the central value where the coefficient was given).
+    pub min_gas_temperature_lower_k: ThermodynamicTemperature,
+    /// Lowest wall temperature at its inner face, K: the central result.
     pub min_wall_temperature_k: ThermodynamicTemperature,
+    /// The conservative edge of the lowest wall temperature, K: the cold-metal finding is
+    /// decided on it.
+    pub min_wall_temperature_lower_k: ThermodynamicTemperature,
     /// Energy not accounted for over the run, relative.
     pub energy_residual: f64,
     /// The time series.
@@ -504,7 +523,9 @@ impl VentTransientReport {
             inner_coefficient_basis: t.run.basis,
             time_s: t.run.duration(),
             min_gas_temperature_k: t.run.min_gas(),
+            min_gas_temperature_lower_k: t.min_gas_lower,
             min_wall_temperature_k: t.run.min_wall(),
+            min_wall_temperature_lower_k: t.min_wall_lower,
             energy_residual: t.run.energy_residual,
             samples: t.run.samples.clone(),
         };
@@ -537,6 +558,20 @@ impl VentTransientReport {
                 "at the inner face",
             ),
         ];
+        if self.min_gas_temperature_lower_k != self.min_gas_temperature_k
+            || self.min_wall_temperature_lower_k != self.min_wall_temperature_k
+        {
+            out.push(result(
+                "Lowest gas temperature, conservative edge",
+                Value::Temperature(self.min_gas_temperature_lower_k),
+                "inner coefficient 30 % lower or higher (the correlation's scatter)",
+            ));
+            out.push(result(
+                "Lowest wall temperature, conservative edge",
+                Value::Temperature(self.min_wall_temperature_lower_k),
+                "the same runs: the cold-metal finding is decided on it",
+            ));
+        }
         if let Some(d) = dep {
             out.push(result(
                 "Depressuring check",

@@ -13,8 +13,8 @@ pub(super) fn model_basis(basis: InnerBasis, exchange: &Exchange) -> Vec<Note> {
     let inner = match basis {
         InnerBasis::Given => "a coefficient given by the user",
         InnerBasis::None => "no heat transfer",
-        InnerBasis::JetCorrelation => "the inlet jet and natural convection, Nu = 0.56·Re_d^0.67 + 0.104·Ra^0.352 (Woodfield, Monde & Takano 2008), capped at the 500 W/(m²·K) measured in fills so that it is not extrapolated to faster ones (a conservative choice, no source)",
-        InnerBasis::FillConstant => "500 W/(m²·K) while filling, as measured in fill experiments (Woodfield, Monde & Takano 2008); give --inlet-diameter for the jet correlation",
+        InnerBasis::JetCorrelation => "the inlet jet (through the inlet bore given) and natural convection, Nu = 0.56·Re_d^0.67 + 0.104·Ra^0.352 with the gas's own properties at each step (Woodfield, Monde & Takano 2008), capped at the 500 W/(m²·K) measured in fills so that it is not extrapolated to faster ones (a conservative choice, no source)",
+        InnerBasis::JetCorrelationAssumedInlet => "the inlet jet and natural convection, Nu = 0.56·Re_d^0.67 + 0.104·Ra^0.352 with the gas's own properties at each step (Woodfield, Monde & Takano 2008), capped at the 500 W/(m²·K) measured in fills; no inlet bore was given, so the jet enters through 8 mm, the widest of the usual 2–8 mm valve bores and the one that cools least (common practice, no source); give --inlet-diameter for the real one",
         InnerBasis::NaturalConvection => "natural convection in the vessel, Nu = 0.104·Ra^0.352 (Woodfield, Monde & Takano 2008)",
     };
     let wall = &exchange.wall;
@@ -43,6 +43,19 @@ pub(super) fn model_basis(basis: InnerBasis, exchange: &Exchange) -> Vec<Note> {
         topic: "heat transfer",
         parts,
     }];
+    let edge = match basis {
+        InnerBasis::JetCorrelation | InnerBasis::JetCorrelationAssumedInlet => Some(
+            "The fill is run again with the correlation's coefficient 30 % lower, the scatter taken on it (convection correlations carry errors of up to about 25 %, Incropera & DeWitt, from memory; the fill correlation was fitted to hydrogen alone). The go/no-go and the highest safe rate are decided on that conservative edge; the central peak is shown beside it.",
+        ),
+        InnerBasis::NaturalConvection => Some(
+            "The vent is run again with the correlation's coefficient 30 % lower and 30 % higher, the scatter taken on it (convection correlations carry errors of up to about 25 %, Incropera & DeWitt, from memory). The lowest gas and wall temperatures' conservative edges are the lowest of the three runs (less heat from the wall leaves the gas colder, more leaves the wall colder); the cold-metal finding is decided on the wall's edge.",
+        ),
+        InnerBasis::Given => Some(
+            "The inner coefficient was given: it has no stated scatter, so the results' conservative edges are the central values.",
+        ),
+        InnerBasis::None => None,
+    };
+    out.extend(edge.map(|text| Note::new("conservative edge", text)));
     if wall.any_estimated() {
         out.push(Note::new(
             "wall mass",

@@ -33,8 +33,8 @@ pub(super) fn fill_run(
             (full - m0).max(0.0) / f.get::<kilogram_per_second>()
         }
     };
-    let nodes = Nodes::new(&setup.exchange.wall, setup.area, nominal, setup.grid);
-    let mut basis = InnerBasis::FillConstant;
+    let nodes = setup.nodes(nominal);
+    let basis = setup.inner_basis(Some(inlet));
     let flow_at = |y: &[f64], q: f64| -> Option<f64> {
         match rate {
             FillRate::MassFlow(f) => Some(f.get::<kilogram_per_second>()),
@@ -53,18 +53,15 @@ pub(super) fn fill_run(
         let tg = st.temperature.get::<kelvin>();
         // On a ramp the inflow depends on the heat to the wall, and the jet's coefficient on
         // the inflow: one fixed-point pass from the no-jet coefficient settles both.
-        let (h_guess, h_out, _) = setup.coefficients(&st, y[INNER], Some((0.0, inlet)));
+        let (h_guess, h_out) = setup.coefficients(&st, y[INNER], Some((0.0, inlet)));
         let guess = setup.wall_flows(&nodes, (h_guess, h_out), tg, y);
         let flow_guess = flow_at(y, guess.into_wall)?;
-        let (h_inner, h_out, _) = setup.coefficients(&st, y[INNER], Some((flow_guess, inlet)));
+        let (h_inner, h_out) = setup.coefficients(&st, y[INNER], Some((flow_guess, inlet)));
         let wall = setup.wall_flows(&nodes, (h_inner, h_out), tg, y);
         let flow = flow_at(y, wall.into_wall)?;
         Some(setup.derivatives(flow, h_in, &wall))
     };
     let rhs = |_: f64, y: &[f64]| flows(y).map(|(d, _)| d);
-    if let Some(st) = setup.gas(m0, u0) {
-        basis = setup.coefficients(&st, wall_t0, Some((1.0, inlet))).2;
-    }
     let (y0, scale) = setup.start(&nodes, m0, u0, wall_t0);
     let event = |_: f64, y: &[f64]| {
         setup
@@ -95,6 +92,10 @@ pub(super) fn fill_run(
 pub struct FillTransient {
     /// The run at the planned rate.
     pub run: Run,
+    /// The conservative edge of the peak gas temperature: the planned run again with a
+    /// correlation's inner coefficient scaled down by [`heat::CORRELATION_SCATTER`]; the
+    /// central peak where the coefficient was given or no heat is exchanged.
+    pub peak_gas_upper: ThermodynamicTemperature,
     /// Pressure once the gas has cooled to ambient at constant mass.
     pub settled_pressure: Pressure,
     /// Stop pressure at the planned rate that settles at the target, if one is found.
@@ -160,6 +161,35 @@ pub enum MaxRate {
     Unresolved,
 }
 
+/// The highest safe ramp, Pa/s, from `excess` (the peak's excess over the rating at a
+/// ramp, K; NaN where the run failed), searched between a `slow` and a `fast` ramp, or up
+/// to the inlet's fastest where its bore is known: the peak rises with the rate.
+pub(super) fn highest_rate(
+    excess: impl Fn(f64) -> f64,
+    slow: f64,
+    fast: f64,
+    inlet_limit: Option<f64>,
+) -> MaxRate {
+    let ramp = |r: f64| PressureRate {
+        per_second: Pressure::new::<pascal>(r),
+    };
+    let fast = inlet_limit.unwrap_or(fast);
+    let at_fast = excess(fast);
+    if at_fast.is_nan() {
+        return MaxRate::Unresolved;
+    }
+    if at_fast <= 0.0 {
+        return inlet_limit.map_or(MaxRate::Unlimited, |r| MaxRate::InletLimited(ramp(r)));
+    }
+    // A run that fails is no answer: never read it as "no rate is safe".
+    match excess(slow) {
+        e if e.is_nan() => MaxRate::Unresolved,
+        e if e > 0.0 => MaxRate::NoneSafe,
+        _ => crate::solve::root(|ln_r| excess(ln_r.exp()), slow.ln(), fast.ln(), 1e-7)
+            .map_or(MaxRate::Unresolved, |ln_r| MaxRate::Ramp(ramp(ln_r.exp()))),
+    }
+}
+
 /// The mean pressure ramp of the fastest fill an inlet of bore `d` can pass, Pa/s: the
 /// choked flow from the supply (Cd = 1) throughout, an upper bound, since the flow falls once
 /// the cylinder passes the critical pressure ratio. It keeps the search for the highest safe
@@ -204,6 +234,19 @@ pub fn fill(
     let wall_t0 = initial.temperature.get::<kelvin>();
     let to_pa = to.get::<pascal>();
     let run = fill_run(&setup, initial, wall_t0, h_in, to_pa, rate, inlet)?;
+    // The go/no-go and the highest safe rate are decided on the conservative edge: the
+    // correlation's coefficient at the low end of its scatter, so the gas runs hotter.
+    let correlated = matches!(
+        run.basis,
+        InnerBasis::JetCorrelation | InnerBasis::JetCorrelationAssumedInlet
+    );
+    let edge = setup.scaled(1.0 - heat::CORRELATION_SCATTER);
+    let decide = if correlated { &edge } else { &setup };
+    let peak_gas_upper = if correlated {
+        fill_run(&edge, initial, wall_t0, h_in, to_pa, rate, inlet)?.peak_gas()
+    } else {
+        run.peak_gas()
+    };
     let settled = model
         .state_rho_t(run.end.density, exchange.ambient_temperature)
         .map_err(|e| model_failure(&e.to_string()))?
@@ -216,7 +259,7 @@ pub fn fill(
                 let r = FillRate::Ramp(PressureRate {
                     per_second: Pressure::new::<pascal>(rate_pa_s),
                 });
-                fill_run(&setup, initial, wall_t0, h_in, to_pa, r, inlet)
+                fill_run(decide, initial, wall_t0, h_in, to_pa, r, inlet)
                     .map(|run| run.peak_gas().get::<kelvin>() - rated.get::<kelvin>())
                     .unwrap_or(f64::NAN)
             };
@@ -226,30 +269,7 @@ pub fn fill(
             let inlet_limit = inlet_diameter
                 .and_then(|d| fastest_ramp(model, case, d))
                 .filter(|r| *r < span);
-            let (slow, fast) = (span / 86_400.0, inlet_limit.unwrap_or(span));
-            let at_fast = excess(fast);
-            if at_fast.is_nan() {
-                return MaxRate::Unresolved;
-            }
-            if at_fast <= 0.0 {
-                return match inlet_limit {
-                    Some(r) => MaxRate::InletLimited(PressureRate {
-                        per_second: Pressure::new::<pascal>(r),
-                    }),
-                    None => MaxRate::Unlimited,
-                };
-            }
-            // A run that fails is no answer: never read it as "no rate is safe".
-            match excess(slow) {
-                e if e.is_nan() => MaxRate::Unresolved,
-                e if e > 0.0 => MaxRate::NoneSafe,
-                _ => crate::solve::root(|ln_r| excess(ln_r.exp()), slow.ln(), fast.ln(), 1e-7)
-                    .map_or(MaxRate::Unresolved, |ln_r| {
-                        MaxRate::Ramp(PressureRate {
-                            per_second: Pressure::new::<pascal>(ln_r.exp()),
-                        })
-                    }),
-            }
+            highest_rate(excess, span / 86_400.0, span, inlet_limit)
         });
     // The stop pressure whose mass, cooled to ambient, settles at the target.
     let target_density = model
@@ -267,6 +287,7 @@ pub fn fill(
         .map(Pressure::new::<pascal>);
     let result = FillTransient {
         run,
+        peak_gas_upper,
         settled_pressure: settled,
         fill_to_pressure,
         max_rate,

@@ -15,6 +15,9 @@ pub(super) struct Setup<'a> {
     pub(super) exchange: &'a Exchange,
     /// Relative tolerance per step of the integration.
     pub(super) rtol: f64,
+    /// The factor on a correlation's inner coefficient: 1 for the central result, 1 ∓
+    /// [`heat::CORRELATION_SCATTER`] for its conservative edges.
+    pub(super) edge: f64,
     /// The gas temperature last found, where the next state search starts.
     pub(super) last_temperature: std::cell::Cell<ThermodynamicTemperature>,
     /// The last state found, by its mass and internal energy.
@@ -54,6 +57,7 @@ impl<'a> Setup<'a> {
             ambient: exchange.ambient_temperature.get::<kelvin>(),
             exchange,
             rtol: RTOL,
+            edge: 1.0,
             last_temperature: std::cell::Cell::new(exchange.ambient_temperature),
             last_state: std::cell::Cell::new(None),
         }
@@ -96,34 +100,59 @@ impl<'a> Setup<'a> {
         }
     }
 
-    /// (inner coefficient W/(m²·K), outer coefficient, basis) for the gas at `st`.
+    /// The wall's nodes over a run of `duration` s.
+    pub(super) fn nodes(&self, duration: f64) -> Nodes {
+        Nodes::new(&self.exchange.wall, self.area, duration, self.grid)
+    }
+
+    /// The same run with a correlation's inner coefficient scaled by `edge`.
+    pub(super) fn scaled(&self, edge: f64) -> Setup<'a> {
+        Setup {
+            edge,
+            last_temperature: self.last_temperature.clone(),
+            last_state: self.last_state.clone(),
+            ..*self
+        }
+    }
+
+    /// Where the inner coefficient comes from: for a fill, `inlet` is the inlet bore, m (0
+    /// when not given); `None` for a vent.
+    pub(super) fn inner_basis(&self, inlet: Option<f64>) -> InnerBasis {
+        match (self.exchange.mode, self.exchange.inner_coefficient, inlet) {
+            (HeatTransfer::None, _, _) => InnerBasis::None,
+            (_, Some(_), _) => InnerBasis::Given,
+            (_, None, Some(d)) if d > 0.0 => InnerBasis::JetCorrelation,
+            (_, None, Some(_)) => InnerBasis::JetCorrelationAssumedInlet,
+            (_, None, None) => InnerBasis::NaturalConvection,
+        }
+    }
+
+    /// (inner coefficient W/(m²·K), outer coefficient) for the gas at `st` and the wall's
+    /// inner node at `wall_t`; `fill_flow` is a fill's (inflow kg/s, inlet bore m).
     pub(super) fn coefficients(
         &self,
         st: &State,
         wall_t: f64,
         fill_flow: Option<(f64, f64)>,
-    ) -> (f64, f64, InnerBasis) {
-        if self.exchange.mode == HeatTransfer::None {
-            return (0.0, 0.0, InnerBasis::None);
-        }
-        let h_out = heat::OUTSIDE_COEFFICIENT;
-        if let Some(h) = self.exchange.inner_coefficient {
-            return (h, h_out, InnerBasis::Given);
-        }
+    ) -> (f64, f64) {
         let dt = st.temperature.get::<kelvin>() - wall_t;
-        match fill_flow {
-            Some((flow, inlet)) if inlet > 0.0 => (
-                heat::jet(&self.film(st), flow, inlet, dt, self.diameter),
-                h_out,
-                InnerBasis::JetCorrelation,
-            ),
-            Some(_) => (heat::FILL_CONSTANT, h_out, InnerBasis::FillConstant),
-            None => (
-                heat::natural(&self.film(st), dt, self.diameter),
-                h_out,
-                InnerBasis::NaturalConvection,
-            ),
-        }
+        let h = match self.inner_basis(fill_flow.map(|f| f.1)) {
+            InnerBasis::None => return (0.0, 0.0),
+            InnerBasis::Given => self.exchange.inner_coefficient.unwrap_or(0.0),
+            InnerBasis::JetCorrelation | InnerBasis::JetCorrelationAssumedInlet => {
+                let (flow, inlet) = fill_flow.unwrap_or((0.0, 0.0));
+                let bore = if inlet > 0.0 {
+                    inlet
+                } else {
+                    heat::DEFAULT_INLET_BORE
+                };
+                self.edge * heat::jet(&self.film(st), flow, bore, dt, self.diameter)
+            }
+            InnerBasis::NaturalConvection => {
+                self.edge * heat::natural(&self.film(st), dt, self.diameter)
+            }
+        };
+        (h, heat::OUTSIDE_COEFFICIENT)
     }
 
     /// The wall's heat flows with the gas at `t_gas` and the coefficients inside and out.

@@ -151,12 +151,37 @@ fn the_wall_lowers_the_peak_and_a_slower_or_heavier_fill_lowers_it_more() {
 
 #[test]
 fn a_search_that_fails_on_the_model_is_unresolved_not_none_safe() {
-    // A 10 g wall follows the gas within milliseconds: the planned fill completes, but
-    // the day-long fill at the slow end of the search runs out of steps. That is no
-    // answer, not "no rate is safe".
-    let ex = exchange(HeatTransfer::Lumped, 0.01, None);
-    let r = cylinder_fill(ramp(100.0), &ex);
-    assert_eq!(r.max_rate, Some(MaxRate::Unresolved));
+    use super::fill::highest_rate;
+    // The peak's excess over the rating rises with the ramp and crosses zero at 10 Pa/s.
+    let smooth = |r: f64| (r / 10.0).ln();
+    let Some(MaxRate::Ramp(r)) = Some(highest_rate(smooth, 0.01, 1000.0, None)) else {
+        panic!("a smooth excess has a root");
+    };
+    assert_relative_eq!(r.per_second.get::<pascal>(), 10.0, max_relative = 1e-6);
+    // A run that fails at either end is no answer, never "no rate is safe".
+    let fails_slow = |r: f64| if r < 1.0 { f64::NAN } else { smooth(r) };
+    assert_eq!(
+        highest_rate(fails_slow, 0.01, 1000.0, None),
+        MaxRate::Unresolved
+    );
+    let fails_fast = |r: f64| if r > 100.0 { f64::NAN } else { smooth(r) };
+    assert_eq!(
+        highest_rate(fails_fast, 0.01, 1000.0, None),
+        MaxRate::Unresolved
+    );
+    assert_eq!(highest_rate(|_| 5.0, 0.01, 1000.0, None), MaxRate::NoneSafe);
+    assert_eq!(
+        highest_rate(|_| -5.0, 0.01, 1000.0, None),
+        MaxRate::Unlimited
+    );
+    assert!(matches!(
+        highest_rate(smooth, 0.01, 1000.0, Some(5.0)),
+        MaxRate::InletLimited(_)
+    ));
+    // And the fill says so, in a caution.
+    let ex = exchange(HeatTransfer::Lumped, 60.0, None);
+    let mut r = cylinder_fill(ramp(100.0), &ex);
+    r.max_rate = Some(MaxRate::Unresolved);
     let (cautions, _) = fill_cautions(&r, &ex);
     assert!(cautions
         .iter()
@@ -164,14 +189,31 @@ fn a_search_that_fails_on_the_model_is_unresolved_not_none_safe() {
 }
 
 #[test]
-fn filling_at_the_maximum_rate_reaches_the_rating() {
+fn filling_at_the_maximum_rate_brings_the_conservative_edge_to_the_rating() {
     let ex = exchange(HeatTransfer::Lumped, 60.0, None);
     let r = cylinder_fill(ramp(25.0), &ex);
     let Some(MaxRate::Ramp(max)) = r.max_rate else {
         panic!("expected a finite maximum rate, got {:?}", r.max_rate);
     };
     let at_max = cylinder_fill(FillRate::Ramp(max), &ex);
-    assert!((kelvin_of(at_max.run.peak_gas()) - 338.15).abs() < 1.0);
+    assert!((kelvin_of(at_max.peak_gas_upper) - 338.15).abs() < 1.0);
+    // The central peak lies below the edge the decision is made on.
+    assert!(at_max.run.peak_gas() < at_max.peak_gas_upper);
+}
+
+#[test]
+fn the_conservative_edges_lie_on_the_hazards_side_of_the_central_results() {
+    let r = cylinder_fill(ramp(100.0), &exchange(HeatTransfer::Lumped, 60.0, None));
+    assert!(r.peak_gas_upper > r.run.peak_gas());
+    // A given coefficient has no stated scatter: the edge is the central value.
+    let given = cylinder_fill(
+        ramp(100.0),
+        &exchange(HeatTransfer::Lumped, 60.0, Some(500.0)),
+    );
+    assert_eq!(given.peak_gas_upper, given.run.peak_gas());
+    let v = receiver_vent(&exchange(HeatTransfer::Lumped, 500.0, None), 0.01);
+    assert!(v.min_gas_lower < v.run.min_gas());
+    assert!(v.min_wall_lower < v.run.min_wall());
 }
 
 /// A 6.8 L composite cylinder rated for 300 bar: liner and wrap by the estimates, or

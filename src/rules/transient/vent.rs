@@ -38,10 +38,25 @@ pub fn vent_from(
 pub struct VentTransient {
     /// The run to the target.
     pub run: Run,
+    /// The conservative edge of the lowest gas temperature: the lowest of the central run
+    /// and the runs with the correlation's coefficient scaled by 1 ∓
+    /// [`heat::CORRELATION_SCATTER`] (less heat from the wall leaves the gas colder).
+    pub min_gas_lower: ThermodynamicTemperature,
+    /// The conservative edge of the lowest wall temperature, from the same runs (more heat
+    /// drawn from the wall leaves it colder).
+    pub min_wall_lower: ThermodynamicTemperature,
     /// Time to reach the depressuring check's pressure, if asked and reached.
     pub depressuring_time: Option<Time>,
     /// The wall used.
     pub wall: Wall,
+}
+
+/// Where a vent discharges: its start, the orifice's effective area Cd·A (m²) and the
+/// pressure outside.
+struct Outlet<'a> {
+    start: &'a State,
+    effective_area_m2: f64,
+    ambient: Pressure,
 }
 
 /// The vent of `volume` from `start` (wall at its temperature) through an effective area
@@ -58,81 +73,98 @@ pub fn vent(
     exchange: &Exchange,
 ) -> Result<Assessed<VentTransient>, InputError> {
     let setup = Setup::new(model, volume, exchange);
+    let outlet = Outlet {
+        start,
+        effective_area_m2,
+        ambient,
+    };
+    let run = vent_run(&setup, &outlet, down_to)?.ok_or_else(|| {
+        InputError::new(
+            "down-to",
+            "(given)",
+            "the vent does not reach the target in a reasonable time; accepted: a target above ambient",
+        )
+    })?;
+    let depressuring_time = match check.map(|c| c.target) {
+        Some(p) if p < start.pressure => vent_run(&setup, &outlet, p)
+            .ok()
+            .flatten()
+            .map(|r| r.duration()),
+        Some(_) => Some(Time::new::<second>(0.0)),
+        None => None,
+    };
+    let (mut min_gas_lower, mut min_wall_lower) = (run.min_gas(), run.min_wall());
+    if run.basis == InnerBasis::NaturalConvection {
+        for edge in [
+            1.0 - heat::CORRELATION_SCATTER,
+            1.0 + heat::CORRELATION_SCATTER,
+        ] {
+            let other = vent_run(&setup.scaled(edge), &outlet, down_to)?
+                .ok_or_else(|| model_failure("a conservative-edge run did not reach the target"))?;
+            min_gas_lower = min_gas_lower.min(other.min_gas());
+            min_wall_lower = min_wall_lower.min(other.min_wall());
+        }
+    }
+    let basis = model_basis(run.basis, exchange);
+    Ok(Assessed {
+        value: VentTransient {
+            run,
+            min_gas_lower,
+            min_wall_lower,
+            depressuring_time,
+            wall: exchange.wall,
+        },
+        cautions: Vec::new(),
+        basis,
+    })
+}
+
+/// One vent run from the outlet's start to `p_end` (Pa absolute); `None` when the vent
+/// does not get there within fifty of its time constants.
+fn vent_run(setup: &Setup, outlet: &Outlet, p_end: Pressure) -> Result<Option<Run>, InputError> {
+    let (model, start, area) = (setup.model, outlet.start, outlet.effective_area_m2);
     let m0 = start.density.get::<kilogram_per_cubic_meter>() * setup.volume;
     let u0 = model.internal_energy(start).get::<joule_per_kilogram>() * m0;
     let wall_t0 = start.temperature.get::<kelvin>();
     // Time scale: the isothermal choked time constant V/(Cd·A·√(R·T)) times a few.
     let flux0 = model
-        .nozzle(start, ambient)
+        .nozzle(start, outlet.ambient)
         .mass_flux
         .get::<kilogram_per_square_meter_second>();
-    let tau = m0 / (flux0 * effective_area_m2).max(1e-30);
-    let horizon = 50.0 * tau.max(1e-3);
-    let nodes = Nodes::new(&exchange.wall, setup.area, tau.max(1e-3), setup.grid);
+    let tau = m0 / (flux0 * area).max(1e-30);
+    let nodes = setup.nodes(tau.max(1e-3));
     let flows = |y: &[f64]| -> Option<(Vec<f64>, f64)> {
         let st = setup.gas(y[0], y[1])?;
         let flow = model
-            .nozzle(&st, ambient)
+            .nozzle(&st, outlet.ambient)
             .mass_flux
             .get::<kilogram_per_square_meter_second>()
-            * effective_area_m2;
+            * area;
         let h = model.enthalpy(&st).get::<joule_per_kilogram>();
-        let (h_i, h_o, _) = setup.coefficients(&st, y[INNER], None);
-        let wall = setup.wall_flows(&nodes, (h_i, h_o), st.temperature.get::<kelvin>(), y);
+        let h_io = setup.coefficients(&st, y[INNER], None);
+        let wall = setup.wall_flows(&nodes, h_io, st.temperature.get::<kelvin>(), y);
         Some(setup.derivatives(-flow, h, &wall))
     };
-    let rhs = |_: f64, y: &[f64]| flows(y).map(|(d, _)| d);
-    let basis = setup.coefficients(start, wall_t0, None).2;
     let (y0, scale) = setup.start(&nodes, m0, u0, wall_t0);
-    let setup = &setup;
-    let until = |p_end: f64| {
-        move |_: f64, y: &[f64]| {
+    let p_end = p_end.get::<pascal>();
+    let run = ode::integrate(
+        |_: f64, y: &[f64]| flows(y).map(|(d, _)| d),
+        (0.0, &y0),
+        50.0 * tau.max(1e-3),
+        |_: f64, y: &[f64]| {
             setup
                 .gas(y[0], y[1])
                 .map_or(-1.0, |s| s.pressure.get::<pascal>() - p_end)
-        }
-    };
-    let opts = options(tau.max(1e-3), setup.rtol);
-    let run = ode::integrate(
-        rhs,
-        (0.0, &y0),
-        horizon,
-        until(down_to.get::<pascal>()),
+        },
         &scale,
-        &opts,
+        &options(tau.max(1e-3), setup.rtol),
     )
     .map_err(|e| model_failure(&e.to_string()))?;
     if !run.stopped_at_event {
-        return Err(InputError::new(
-            "down-to",
-            "(given)",
-            "the vent does not reach the target in a reasonable time; accepted: a target above ambient",
-        ));
+        return Ok(None);
     }
-    let depressuring_time = match check.map(|c| c.target) {
-        Some(p) if p < start.pressure => ode::integrate(
-            rhs,
-            (0.0, &y0),
-            horizon,
-            until(p.get::<pascal>()),
-            &scale,
-            &opts,
-        )
-        .ok()
-        .filter(|r| r.stopped_at_event)
-        .and_then(|r| r.t.last().copied())
-        .map(Time::new::<second>),
-        Some(_) => Some(Time::new::<second>(0.0)),
-        None => None,
-    };
-    let result = VentTransient {
-        run: setup.finish(&nodes, run, basis, |y| flows(y).map(|(_, face)| face))?,
-        depressuring_time,
-        wall: exchange.wall,
-    };
-    Ok(Assessed {
-        value: result,
-        cautions: Vec::new(),
-        basis: model_basis(basis, exchange),
-    })
+    let basis = setup.inner_basis(None);
+    setup
+        .finish(&nodes, run, basis, |y| flows(y).map(|(_, face)| face))
+        .map(Some)
 }
