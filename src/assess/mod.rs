@@ -71,14 +71,15 @@ fn conclude(
 mod tests;
 
 /// A governing temperature in words: its conservative edge, with the central result beside
-/// it where the two differ.
+/// it where the two differ by half a kelvin or more (findings show whole degrees).
 fn edge_and_central(
     edge: uom::si::f64::ThermodynamicTemperature,
     central: uom::si::f64::ThermodynamicTemperature,
 ) -> Vec<crate::caution::Part> {
     use crate::caution::Part;
     use crate::units::Value;
-    if edge == central {
+    use uom::si::thermodynamic_temperature::kelvin;
+    if (edge.get::<kelvin>() - central.get::<kelvin>()).abs() < 0.5 {
         return vec![Part::from(Value::Temperature(edge))];
     }
     vec![
