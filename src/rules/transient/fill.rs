@@ -3,6 +3,10 @@
 
 use super::*;
 
+/// The longest fill run, s: a month. A slower "fill" is storage, and its run would only
+/// spend steps (the search for the highest safe rate starts at a fill over a day).
+const MAX_FILL_DURATION: f64 = 30.0 * 86_400.0;
+
 /// The fill from `initial` to `to` with enthalpy `h_in` arriving at `rate`, in SI.
 #[allow(clippy::too_many_arguments)]
 pub(super) fn fill_run(
@@ -21,19 +25,39 @@ pub(super) fn fill_run(
         .get::<joule_per_kilogram>()
         * m0;
     let p0 = initial.pressure.get::<pascal>();
+    // The mass at `to` at the starting temperature: the time scale of a mass-flow fill, and
+    // the gas's heat capacity where its peak is.
+    let full = setup
+        .model
+        .state_pt(Pressure::new::<pascal>(to), initial.temperature)
+        .map(|s| s.density.get::<kilogram_per_cubic_meter>() * setup.volume)
+        .unwrap_or(m0 * to / p0);
     let nominal = match rate {
         FillRate::Ramp(r) => (to - p0) / r.per_second.get::<pascal>(),
-        FillRate::MassFlow(f) => {
-            // Mass to reach `to` at the supply temperature's density, as a time scale.
-            let full = setup
-                .model
-                .state_pt(Pressure::new::<pascal>(to), initial.temperature)
-                .map(|s| s.density.get::<kilogram_per_cubic_meter>() * setup.volume)
-                .unwrap_or(m0 * to / p0);
-            (full - m0).max(0.0) / f.get::<kilogram_per_second>()
-        }
+        FillRate::MassFlow(f) => (full - m0).max(0.0) / f.get::<kilogram_per_second>(),
     };
-    let nodes = setup.nodes(nominal);
+    if nominal.is_nan() || nominal > MAX_FILL_DURATION {
+        let given = match rate {
+            FillRate::Ramp(r) => format!(
+                "{} bar/min",
+                crate::units::fmt_sig(r.per_second.get::<pascal>() * 60.0 / 1e5, 3)
+            ),
+            FillRate::MassFlow(f) => format!(
+                "{} kg/s",
+                crate::units::fmt_sig(f.get::<kilogram_per_second>(), 3)
+            ),
+        };
+        return Err(InputError::new(
+            "rate",
+            given,
+            format!(
+                "the fill would take {} days; accepted: a rate that fills the cylinder within {} days",
+                crate::units::fmt_sig(nominal / 86_400.0, 3),
+                MAX_FILL_DURATION / 86_400.0
+            ),
+        ));
+    }
+    let nodes = setup.nodes(nominal, full.max(m0));
     let basis = setup.inner_basis(Some(inlet));
     let flow_at = |y: &[f64], q: f64| -> Option<f64> {
         match rate {
@@ -48,16 +72,13 @@ pub(super) fn fill_run(
             }
         }
     };
-    let flows = |y: &[f64]| -> Option<(Vec<f64>, f64)> {
+    let flows = |y: &[f64]| -> Option<(Vec<f64>, Faces)> {
         let st = setup.gas(y[0], y[1])?;
-        let tg = st.temperature.get::<kelvin>();
         // On a ramp the inflow depends on the heat to the wall, and the jet's coefficient on
         // the inflow: one fixed-point pass from the no-jet coefficient settles both.
-        let (h_guess, h_out) = setup.coefficients(&st, y[INNER], Some((0.0, inlet)));
-        let guess = setup.wall_flows(&nodes, (h_guess, h_out), tg, y);
+        let guess = setup.exchange_flows(&nodes, &st, y, Some((0.0, inlet)));
         let flow_guess = flow_at(y, guess.into_wall)?;
-        let (h_inner, h_out) = setup.coefficients(&st, y[INNER], Some((flow_guess, inlet)));
-        let wall = setup.wall_flows(&nodes, (h_inner, h_out), tg, y);
+        let wall = setup.exchange_flows(&nodes, &st, y, Some((flow_guess, inlet)));
         let flow = flow_at(y, wall.into_wall)?;
         Some(setup.derivatives(flow, h_in, &wall))
     };
@@ -76,7 +97,7 @@ pub(super) fn fill_run(
         &scale,
         &options(nominal.max(1e-3), setup.rtol),
     )
-    .map_err(|e| model_failure(&e.to_string()))?;
+    .map_err(integration_failure)?;
     if !run.stopped_at_event {
         return Err(InputError::new(
             "rate",

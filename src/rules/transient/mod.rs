@@ -43,7 +43,7 @@ pub use vent::{vent, vent_from, VentTransient};
 
 use basis::model_basis;
 use nodes::{Nodes, INNER, SLICE_GRID};
-use setup::{model_failure, options, Setup};
+use setup::{integration_failure, model_failure, options, Faces, Setup};
 
 /// Whether heat passes between the gas and the wall.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, clap::ValueEnum)]

@@ -18,6 +18,12 @@ const MIN_SLICED_THICKNESS: f64 = 1e-3;
 /// temperature within 0.1 K of a grid twice as fine; a coarser grid errs hot.
 pub(super) const SLICE_GRID: (f64, f64) = (0.1, 1.08);
 
+/// A wall node is massless below this share of the gas's heat capacity and this fraction
+/// of the run for its time constant (see [`Nodes::massless_below`]): the heat it leaves out
+/// moves the gas by under a thousandth of its rise (the tests hold a 1 g wall within
+/// 0.1 K of the same wall stored).
+pub(super) const MASSLESS: (f64, f64) = (1e-3, 1e-3);
+
 /// Bounds on the innermost slice, m.
 const SLICE_BOUNDS: (f64, f64) = (2e-5, 3e-3);
 
@@ -119,6 +125,106 @@ impl Nodes {
             r_links: nodes.windows(2).map(|p| p[0].2 + p[1].1).collect(),
             r_outer: nodes[nodes.len() - 1].2,
             wrap_first,
+        }
+    }
+
+    /// The nodes with those set massless (heat capacity zero) that hold less than
+    /// [`MASSLESS`]`.0` of `gas_capacity` (J/K) and follow their neighbours within
+    /// [`MASSLESS`]`.1` of the run's `duration` (s), with the inner film at `h_inner`
+    /// W/(m²·K).
+    ///
+    /// Such a node (a wall of a few grams, a liner of a nanogram in a site file, any wall in
+    /// a fill over weeks) would make the integration stiff, millions of steps for nothing:
+    /// massless, it takes its temperature from its neighbours at each moment (see
+    /// [`Nodes::place_massless`]), and the heat it would have held, under a thousandth of
+    /// the gas's, is left out.
+    pub(super) fn massless_below(
+        mut self,
+        gas_capacity: f64,
+        area: f64,
+        h_inner: f64,
+        duration: f64,
+    ) -> Nodes {
+        let film = |h: f64, r: f64| {
+            let ha = h * area;
+            ha / (1.0 + ha * r)
+        };
+        let last = self.capacities.len() - 1;
+        for i in 0..=last {
+            let inward = if i == 0 {
+                film(h_inner, self.r_inner)
+            } else {
+                1.0 / self.r_links[i - 1]
+            };
+            let outward = if i == last {
+                film(heat::OUTSIDE_COEFFICIENT, self.r_outer)
+            } else {
+                1.0 / self.r_links[i]
+            };
+            let c = self.capacities[i];
+            if c < MASSLESS.0 * gas_capacity && c < MASSLESS.1 * duration * (inward + outward) {
+                self.capacities[i] = 0.0;
+            }
+        }
+        self
+    }
+
+    /// Places the massless nodes of `t` (node temperatures, K, innermost first) between
+    /// their neighbours: each gains as much heat as it loses. The chain runs from the gas
+    /// (temperature, conductance to the first node) to the surroundings (temperature,
+    /// conductance from the last), and the stored nodes hold their temperatures: a
+    /// tridiagonal system, solved by the Thomas algorithm.
+    pub(super) fn place_massless(
+        &self,
+        t: &mut [f64],
+        (t_gas, g_in): (f64, f64),
+        (t_out, g_out): (f64, f64),
+    ) {
+        if self.capacities.iter().all(|&c| c > 0.0) {
+            return;
+        }
+        let n = t.len();
+        let g = |i: usize| -> f64 {
+            // Conductance between node i − 1 and node i (i = 0: the gas; i = n: outside).
+            match i {
+                0 => g_in,
+                _ if i == n => g_out,
+                _ => 1.0 / self.r_links[i - 1],
+            }
+        };
+        // Row i: −lower·T[i−1] + diag·T[i] − upper·T[i+1] = rhs.
+        let (mut upper, mut rhs) = (vec![0.0; n], vec![0.0; n]);
+        for i in 0..n {
+            let (diag, lower, up, mut b) = if self.capacities[i] > 0.0 {
+                (1.0, 0.0, 0.0, t[i])
+            } else {
+                (g(i) + g(i + 1), g(i), g(i + 1), 0.0)
+            };
+            let (lower, up) = (
+                if i == 0 { 0.0 } else { lower },
+                if i == n - 1 { 0.0 } else { up },
+            );
+            if self.capacities[i] == 0.0 {
+                if i == 0 {
+                    b += g_in * t_gas;
+                }
+                if i == n - 1 {
+                    b += g_out * t_out;
+                }
+            }
+            // Forward sweep.
+            let prev = if i == 0 {
+                (0.0, 0.0)
+            } else {
+                (upper[i - 1], rhs[i - 1])
+            };
+            let d = diag - lower * prev.0;
+            upper[i] = up / d;
+            rhs[i] = (b + lower * prev.1) / d;
+        }
+        t[n - 1] = rhs[n - 1];
+        for i in (0..n - 1).rev() {
+            t[i] = rhs[i] + upper[i] * t[i + 1];
         }
     }
 

@@ -18,6 +18,9 @@ pub(super) struct Setup<'a> {
     /// The factor on a correlation's inner coefficient: 1 for the central result, 1 ∓
     /// [`heat::CORRELATION_SCATTER`] for its conservative edges.
     pub(super) edge: f64,
+    /// Whether wall nodes too light to matter are made massless (see [`Setup::nodes`]);
+    /// the tests compare with them stored.
+    pub(super) massless: bool,
     /// The gas temperature last found, where the next state search starts.
     pub(super) last_temperature: std::cell::Cell<ThermodynamicTemperature>,
     /// The last state found, by its mass and internal energy.
@@ -27,6 +30,10 @@ pub(super) struct Setup<'a> {
 /// The integration's relative tolerance per step: results change by less than 1e-6 when it
 /// is tightened a hundredfold (see the tests).
 pub(super) const RTOL: f64 = 1e-7;
+
+/// The wall's temperatures a sample reports, K: its inner face, and a composite's wrap next
+/// to the liner.
+pub(super) type Faces = (f64, Option<f64>);
 
 /// The wall's heat flows at one moment.
 pub(super) struct Flows {
@@ -38,6 +45,8 @@ pub(super) struct Flows {
     pub(super) rates: Vec<f64>,
     /// Temperature of the wall's inner face, K.
     pub(super) face: f64,
+    /// Temperature of a composite's wrap next to the liner, K.
+    pub(super) wrap: Option<f64>,
 }
 
 impl<'a> Setup<'a> {
@@ -58,6 +67,7 @@ impl<'a> Setup<'a> {
             exchange,
             rtol: RTOL,
             edge: 1.0,
+            massless: true,
             last_temperature: std::cell::Cell::new(exchange.ambient_temperature),
             last_state: std::cell::Cell::new(None),
         }
@@ -100,9 +110,22 @@ impl<'a> Setup<'a> {
         }
     }
 
-    /// The wall's nodes over a run of `duration` s.
-    pub(super) fn nodes(&self, duration: f64) -> Nodes {
-        Nodes::new(&self.exchange.wall, self.area, duration, self.grid)
+    /// The wall's nodes over a run of `duration` s, those that neither hold nor delay
+    /// heat beside `gas_mass` kg of gas made massless (see [`Nodes::massless_below`]).
+    pub(super) fn nodes(&self, duration: f64, gas_mass: f64) -> Nodes {
+        let gas = self.model.gas();
+        let cv = gas.specific_gas_constant() / (gas.gamma_300k() - 1.0);
+        let h_max = match (self.exchange.mode, self.exchange.inner_coefficient) {
+            (HeatTransfer::None, _) => 0.0,
+            (_, Some(h)) => h,
+            (_, None) => heat::FILL_CONSTANT,
+        };
+        let nodes = Nodes::new(&self.exchange.wall, self.area, duration, self.grid);
+        if self.massless {
+            nodes.massless_below(gas_mass * cv, self.area, h_max, duration)
+        } else {
+            nodes
+        }
     }
 
     /// The same run with a correlation's inner coefficient scaled by `edge`.
@@ -168,11 +191,13 @@ impl<'a> Setup<'a> {
             let ha = h * self.area;
             ha / (1.0 + ha * r)
         };
-        let t: Vec<f64> = (0..n.capacities.len())
+        let (g_in, g_out) = (series(h_inner, n.r_inner), series(h_outer, n.r_outer));
+        let mut t: Vec<f64> = (0..n.capacities.len())
             .map(|i| y[Nodes::index(i)])
             .collect();
-        let into_wall = series(h_inner, n.r_inner) * (t_gas - t[0]);
-        let to_ambient = series(h_outer, n.r_outer) * (t[t.len() - 1] - self.ambient);
+        n.place_massless(&mut t, (t_gas, g_in), (self.ambient, g_out));
+        let into_wall = g_in * (t_gas - t[0]);
+        let to_ambient = g_out * (t[t.len() - 1] - self.ambient);
         // Heat into each node from inside, then the heat leaving the last to ambient.
         let inflow: Vec<f64> = std::iter::once(into_wall)
             .chain(t.windows(2).zip(&n.r_links).map(|(p, r)| (p[0] - p[1]) / r))
@@ -189,12 +214,34 @@ impl<'a> Setup<'a> {
             to_ambient,
             rates,
             face: t[0] + into_wall * n.r_inner,
+            wrap: n.wrap_first.map(|i| t[i]),
         }
+    }
+
+    /// The wall's heat flows with the gas at `st`, the inner coefficient taken at the wall's
+    /// inner node; `fill_flow` as for [`Setup::coefficients`]. A massless inner node (see
+    /// [`Nodes::new`]) has no stored temperature: it is first placed with the coefficient at
+    /// the gas's temperature less a kelvin, then the coefficient is taken again at it (one
+    /// fixed-point pass).
+    pub(super) fn exchange_flows(
+        &self,
+        n: &Nodes,
+        st: &State,
+        y: &[f64],
+        fill_flow: Option<(f64, f64)>,
+    ) -> Flows {
+        let t_gas = st.temperature.get::<kelvin>();
+        let mut wall_t = y[INNER];
+        if n.capacities[0] == 0.0 {
+            let first = self.coefficients(st, t_gas - 1.0, fill_flow);
+            wall_t = self.wall_flows(n, first, t_gas, y).face;
+        }
+        self.wall_flows(n, self.coefficients(st, wall_t, fill_flow), t_gas, y)
     }
 
     /// The integrated state's derivatives for a gas gaining `flow` (kg/s, negative when
     /// venting) of enthalpy `h` (J/kg), with the wall's flows: (derivatives, inner face).
-    pub(super) fn derivatives(&self, flow: f64, h: f64, f: &Flows) -> (Vec<f64>, f64) {
+    pub(super) fn derivatives(&self, flow: f64, h: f64, f: &Flows) -> (Vec<f64>, Faces) {
         let mut d = vec![
             flow,
             flow * h - f.into_wall,
@@ -203,7 +250,7 @@ impl<'a> Setup<'a> {
             f.to_ambient,
         ];
         d.extend(&f.rates[1..]);
-        (d, f.face)
+        (d, (f.face, f.wrap))
     }
 
     /// The starting state: gas mass and internal energy, the wall at `wall_t0` throughout,
@@ -219,16 +266,14 @@ impl<'a> Setup<'a> {
         (y0, scale)
     }
 
-    pub(super) fn sample(&self, n: &Nodes, t: f64, y: &[f64], face: f64) -> Option<Sample> {
+    pub(super) fn sample(&self, t: f64, y: &[f64], (face, wrap): Faces) -> Option<Sample> {
         let st = self.gas(y[0], y[1])?;
         Some(Sample {
             time: Time::new::<second>(t),
             pressure: st.pressure,
             gas_temperature: st.temperature,
             wall_temperature: ThermodynamicTemperature::new::<kelvin>(face),
-            wrap_temperature: n
-                .wrap_first
-                .map(|i| ThermodynamicTemperature::new::<kelvin>(y[Nodes::index(i)])),
+            wrap_temperature: wrap.map(ThermodynamicTemperature::new::<kelvin>),
         })
     }
 
@@ -239,13 +284,13 @@ impl<'a> Setup<'a> {
         n: &Nodes,
         run: ode::Trajectory,
         basis: InnerBasis,
-        face: impl Fn(&[f64]) -> Option<f64>,
+        face: impl Fn(&[f64]) -> Option<Faces>,
     ) -> Result<Run, InputError> {
         let samples = run
             .t
             .iter()
             .zip(&run.y)
-            .map(|(&t, y)| self.sample(n, t, y, face(y)?))
+            .map(|(&t, y)| self.sample(t, y, face(y)?))
             .collect::<Option<Vec<_>>>()
             .ok_or_else(|| model_failure("the transient left the gas model's range"))?;
         let (first, last) = (&run.y[0], &run.y[run.y.len() - 1]);
@@ -271,6 +316,17 @@ pub(super) fn model_failure(what: &str) -> InputError {
         "lumped",
         format!("{what}; accepted: inputs that keep the gas within the model's range"),
     )
+}
+
+/// An integration that did not finish, in words: not resolved, and why.
+pub(super) fn integration_failure(e: ode::OdeError) -> InputError {
+    let why = match e {
+        ode::OdeError::TooManySteps(n) => format!(
+            "not resolved: the run needs more than {n} integration steps, a wall node responding far faster than the run lasts (check the wall's mass and its unit) or a run far longer than a fill or vent takes"
+        ),
+        other => format!("not resolved: {other}"),
+    };
+    model_failure(&why)
 }
 
 pub(super) fn options(duration: f64, rtol: f64) -> Options {

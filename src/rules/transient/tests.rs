@@ -189,6 +189,90 @@ fn a_search_that_fails_on_the_model_is_unresolved_not_none_safe() {
 }
 
 #[test]
+fn a_wall_of_a_few_grams_resolves_in_a_bounded_number_of_steps() {
+    // A 1 g wall follows the gas within milliseconds; stored, it makes the integration
+    // stiff and a slow fill runs out of steps. Massless, it resolves at any rate.
+    let ex = exchange(HeatTransfer::Lumped, 0.001, None);
+    let model = air();
+    let (initial, _, h_in) = air_fill_states();
+    let setup = Setup::new(&model, Volume::new::<cubic_meter>(0.05), &ex);
+    for bar_per_min in [0.01, 1.0, 100.0, 1e4] {
+        let run = fill_run(
+            &setup,
+            &initial,
+            293.15,
+            h_in,
+            300e5,
+            ramp(bar_per_min),
+            0.0,
+        )
+        .unwrap_or_else(|e| panic!("{bar_per_min} bar/min: {e}"));
+        assert!(
+            run.samples.len() < 20_000,
+            "{bar_per_min} bar/min: {} steps",
+            run.samples.len()
+        );
+        assert!(run.energy_residual < 1e-6, "{bar_per_min} bar/min");
+    }
+    let r = cylinder_fill(ramp(100.0), &ex);
+    assert!(
+        matches!(r.max_rate, Some(MaxRate::Ramp(_))),
+        "{:?}",
+        r.max_rate
+    );
+    // A "fill" over half a year is refused for its rate, not run.
+    let e = fill_run(&setup, &initial, 293.15, h_in, 300e5, ramp(1e-3), 0.0).unwrap_err();
+    assert_eq!(e.field, "rate", "{e}");
+    assert!(e.to_string().contains("within 30 days"), "{e}");
+}
+
+#[test]
+fn a_massless_wall_node_moves_the_gas_by_under_a_tenth_of_a_kelvin() {
+    let model = air();
+    let (initial, _, h_in) = air_fill_states();
+    for wall_kg in [0.001, 0.005] {
+        let ex = exchange(HeatTransfer::Lumped, wall_kg, None);
+        let peak = |massless: bool| {
+            let setup = Setup {
+                massless,
+                ..Setup::new(&model, Volume::new::<cubic_meter>(0.05), &ex)
+            };
+            let run = fill_run(&setup, &initial, 293.15, h_in, 300e5, ramp(100.0), 0.0).unwrap();
+            (kelvin_of(run.peak_gas()), kelvin_of(run.peak_wall()))
+        };
+        let (light, stored) = (peak(true), peak(false));
+        assert!(
+            (light.0 - stored.0).abs() < 0.1,
+            "{wall_kg} kg: {light:?} {stored:?}"
+        );
+        assert!(
+            (light.1 - stored.1).abs() < 0.1,
+            "{wall_kg} kg: {light:?} {stored:?}"
+        );
+    }
+}
+
+#[test]
+fn massless_nodes_pass_the_same_heat_through_every_layer() {
+    // A composite wall with every node massless is a chain of resistances: the same heat
+    // crosses each link, and the temperatures fall by the resistances.
+    let ex = lined(Liner::Plastic, true);
+    let (_, area) = heat::geometry(0.0068, heat::CYLINDER_ASPECT);
+    let mut n = Nodes::new(&ex.wall, area, 100.0, SLICE_GRID);
+    n.capacities.iter_mut().for_each(|c| *c = 0.0);
+    let mut t = vec![0.0; n.capacities.len()];
+    let ((t_gas, g_in), (t_out, g_out)) = ((400.0, 10.0), (300.0, 5.0));
+    n.place_massless(&mut t, (t_gas, g_in), (t_out, g_out));
+    let total = 1.0 / g_in + n.r_links.iter().sum::<f64>() + 1.0 / g_out;
+    let q = (t_gas - t_out) / total;
+    assert_relative_eq!(g_in * (t_gas - t[0]), q, max_relative = 1e-9);
+    for (i, r) in n.r_links.iter().enumerate() {
+        assert_relative_eq!((t[i] - t[i + 1]) / r, q, max_relative = 1e-9);
+    }
+    assert_relative_eq!(g_out * (t[t.len() - 1] - t_out), q, max_relative = 1e-9);
+}
+
+#[test]
 fn filling_at_the_maximum_rate_brings_the_conservative_edge_to_the_rating() {
     let ex = exchange(HeatTransfer::Lumped, 60.0, None);
     let r = cylinder_fill(ramp(25.0), &ex);

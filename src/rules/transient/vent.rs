@@ -132,8 +132,11 @@ fn vent_run(setup: &Setup, outlet: &Outlet, p_end: Pressure) -> Result<Option<Ru
         .mass_flux
         .get::<kilogram_per_square_meter_second>();
     let tau = m0 / (flux0 * area).max(1e-30);
-    let nodes = setup.nodes(tau.max(1e-3));
-    let flows = |y: &[f64]| -> Option<(Vec<f64>, f64)> {
+    // The gas's mass at the end, where its lowest temperature is: at least the isothermal
+    // vent's.
+    let m_end = m0 * (p_end / start.pressure).value.clamp(0.0, 1.0);
+    let nodes = setup.nodes(tau.max(1e-3), m_end);
+    let flows = |y: &[f64]| -> Option<(Vec<f64>, Faces)> {
         let st = setup.gas(y[0], y[1])?;
         let flow = model
             .nozzle(&st, outlet.ambient)
@@ -141,8 +144,7 @@ fn vent_run(setup: &Setup, outlet: &Outlet, p_end: Pressure) -> Result<Option<Ru
             .get::<kilogram_per_square_meter_second>()
             * area;
         let h = model.enthalpy(&st).get::<joule_per_kilogram>();
-        let h_io = setup.coefficients(&st, y[INNER], None);
-        let wall = setup.wall_flows(&nodes, h_io, st.temperature.get::<kelvin>(), y);
+        let wall = setup.exchange_flows(&nodes, &st, y, None);
         Some(setup.derivatives(-flow, h, &wall))
     };
     let (y0, scale) = setup.start(&nodes, m0, u0, wall_t0);
@@ -159,7 +161,7 @@ fn vent_run(setup: &Setup, outlet: &Outlet, p_end: Pressure) -> Result<Option<Ru
         &scale,
         &options(tau.max(1e-3), setup.rtol),
     )
-    .map_err(|e| model_failure(&e.to_string()))?;
+    .map_err(integration_failure)?;
     if !run.stopped_at_event {
         return Ok(None);
     }
