@@ -12,6 +12,11 @@ use uom::si::{
 
 use super::{J_PER_FT_LBF, KG_PER_LB, M3_PER_US_GAL, M_PER_FT, PA_PER_PSI};
 
+/// A fraction as a percentage to three significant figures: `17.3 %`.
+pub fn percent(x: f64) -> String {
+    format!("{} %", fmt_sig(x * 100.0, 3))
+}
+
 /// A value to show a person (on a worksheet or in a caution), typed so that each renderer chooses its own units.
 #[derive(Debug, Clone, PartialEq)]
 pub enum Value {
@@ -41,6 +46,8 @@ pub enum Value {
     MassFlow(MassRate),
     /// A rate of pressure change, as the pressure gained in one second.
     PressureRate(Pressure),
+    /// A mole or volume fraction (0–1), shown as a percentage.
+    Fraction(f64),
     /// A plain number with its meaning.
     Number(f64),
     /// Text.
@@ -63,6 +70,7 @@ impl Value {
             Value::Time(t) => (t.get::<second>(), "s"),
             Value::MassFlow(m) => (m.get::<kilogram_per_second>(), "kg/s"),
             Value::PressureRate(p) => (p.get::<pascal>(), "Pa/s"),
+            Value::Fraction(x) => (*x, "1"),
             Value::Number(_) | Value::Text(_) => return None,
         })
     }
@@ -302,6 +310,7 @@ impl Display {
                     Value::Time(x) => full.time(*x),
                     Value::MassFlow(x) => full.mass_flow(*x),
                     Value::PressureRate(x) => full.pressure_rate(*x),
+                    Value::Fraction(x) => percent(*x),
                     Value::Number(x) => fmt_sig(*x, 3),
                     Value::Text(s) => s.clone(),
                     _ => String::new(),
