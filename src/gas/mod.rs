@@ -370,6 +370,13 @@ pub trait GasModel {
         self.gas().saturation_temperature(p)
     }
 
+    /// The highest pressure at which the model holds (an equation of state's stated
+    /// limit), or `None` for a model without one. A search clips its bracket to it: a state
+    /// found from other variables (ρ, u) can lie above it without the model refusing it.
+    fn max_pressure(&self) -> Option<Pressure> {
+        None
+    }
+
     /// The state at pressure and temperature (the gas-like root).
     fn state_pt(&self, p: Pressure, t: ThermodynamicTemperature) -> Result<State, GasError>;
 

@@ -3,6 +3,25 @@
 
 pub mod ode;
 
+/// A search or solve that did not settle, and why. A caller reports it as "not resolved"
+/// with this reason, never as a fact about the vessel.
+#[derive(Debug, Clone, PartialEq, Eq, thiserror::Error)]
+#[error("{reason}")]
+pub struct NotResolved {
+    /// Why, in one clause a reader can act on ("the state at 1510 bar(a) is outside the
+    /// equation of state's range").
+    pub reason: String,
+}
+
+impl NotResolved {
+    /// A result not resolved for `reason`.
+    pub fn new(reason: impl Into<String>) -> NotResolved {
+        NotResolved {
+            reason: reason.into(),
+        }
+    }
+}
+
 /// A root finder that could not bracket or converge.
 #[derive(Debug, Clone, Copy, PartialEq, thiserror::Error)]
 #[error("no root in [{lo}, {hi}]: f has the same sign at both ends or is not finite")]

@@ -241,6 +241,10 @@ impl GasModel for RealGas {
             .map(|s| ThermodynamicTemperature::new::<kelvin>(s.t))
     }
 
+    fn max_pressure(&self) -> Option<Pressure> {
+        Some(Pressure::new::<pascal>(self.eq.fluid.p_max))
+    }
+
     fn state_pt(&self, p: Pressure, t: ThermodynamicTemperature) -> Result<State, GasError> {
         self.check_gas_phase(p, t)?;
         let (pp, tk) = (p.get::<pascal>(), t.get::<kelvin>());
