@@ -7,11 +7,13 @@ mod flash;
 mod helmholtz;
 mod props;
 mod saturation;
+mod sublimation;
 
 pub use flash::{Equilibrium, FlashError};
 pub use helmholtz::{equation, equations, Derivatives, Equation};
 pub use props::Props;
 pub use saturation::Saturation;
+pub use sublimation::Sublimation;
 
 use uom::si::f64::{
     AvailableEnergy, MassDensity, MassFlux, Pressure, SpecificHeatCapacity,
@@ -213,7 +215,11 @@ impl GasModel for RealGas {
     fn check_gas_phase(&self, p: Pressure, t: ThermodynamicTemperature) -> Result<(), GasError> {
         let tk = t.get::<kelvin>();
         let f = &self.eq.fluid;
-        if tk < f.t_triple {
+        let gas_below_triple = self
+            .eq
+            .sublimation
+            .is_some_and(|s| s.gas_at(p.get::<pascal>(), tk));
+        if tk < f.t_triple && !gas_below_triple {
             return Err(GasError::BelowTriplePoint {
                 gas: self.gas.name,
                 temperature_k: tk,

@@ -1,0 +1,145 @@
+//! Searches and solves that once failed or misread their failure, through the command line:
+//! each result now resolved against a reference value, or reported as "not resolved" with
+//! its reason, never as a statement about the vessel.
+
+use assert_cmd::Command;
+use serde_json::Value;
+
+fn pvhazard(args: &[&str]) -> Command {
+    let mut cmd = Command::cargo_bin("pvhazard").expect("the binary builds");
+    cmd.args(args);
+    cmd
+}
+
+/// Runs `args` with `--json`, asserting exit 0, and returns the report.
+fn json(args: &[&str]) -> Value {
+    let out = pvhazard(&[args, &["--json"]].concat()).output().unwrap();
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    serde_json::from_slice(&out.stdout).expect("one JSON report")
+}
+
+fn num(v: &Value, pointer: &str) -> f64 {
+    v.pointer(pointer)
+        .and_then(Value::as_f64)
+        .unwrap_or_else(|| panic!("no number at {pointer} in\n{v:#}"))
+}
+
+fn close(actual: f64, expected: f64, rel: f64) {
+    assert!(
+        ((actual - expected) / expected).abs() <= rel,
+        "{actual} is not within {rel} of {expected}"
+    );
+}
+
+/// The finding on `hazard` in a report's verdict.
+fn finding<'a>(v: &'a Value, hazard: &str) -> &'a Value {
+    v["verdict"]["findings"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .find(|f| f["hazard"] == hazard)
+        .unwrap_or_else(|| panic!("no {hazard} finding in\n{v:#}"))
+}
+
+#[test]
+fn an_oxygen_fill_gets_its_fill_to_pressure() {
+    // The fill-to search's bracket once left oxygen's equation (800 bar) and the failure
+    // read as "no fill is needed". source: CoolProp 8.0.0, the same balance with PropsSI
+    // (D, U inputs): 381.2581 K at the end, stop at 223.6133 bar(a) to settle at 150 barg.
+    let v = json(&[
+        "fill", "--gas", "oxygen", "--volume", "40 L", "--from", "5 barg", "--to", "150 barg",
+    ]);
+    close(num(&v, "/final_temperature_k"), 381.25814, 1e-6);
+    close(num(&v, "/fill_to_pressure_pa"), 22_361_333.6, 1e-6);
+    let f = finding(&v, "fill-to");
+    assert!(!f["result"].as_str().unwrap().contains("no fill is needed"));
+}
+
+#[test]
+fn a_fill_to_beyond_the_equations_range_is_not_resolved_with_its_reason() {
+    let v = json(&[
+        "fill", "--gas", "oxygen", "--volume", "40 L", "--from", "1 bara", "--to", "700 bara",
+    ]);
+    assert!(v["fill_to_pressure_pa"].is_null());
+    let f = finding(&v, "fill-to");
+    let result = f["result"].as_str().unwrap();
+    assert!(result.contains("not resolved"), "{result}");
+    assert!(result.contains("range"), "{result}");
+    assert!(v["cautions"].as_array().unwrap().iter().any(
+        |c| c["level"] == "CAUTION" && c["message"].as_str().unwrap().contains("not resolved")
+    ));
+}
+
+#[test]
+fn a_cold_methane_fill_through_the_two_phase_region_closes_its_balance() {
+    // source: CoolProp 8.0.0, the same balance with PropsSI (D, U inputs): 242.42986 K.
+    let v = json(&[
+        "fill",
+        "--gas",
+        "methane",
+        "--volume",
+        "50 L",
+        "--from",
+        "10 bara",
+        "--to",
+        "200 bara",
+        "--initial-temperature",
+        "220 K",
+        "--supply-temperature",
+        "220 K",
+    ]);
+    close(num(&v, "/final_temperature_k"), 242.42986, 1e-6);
+}
+
+#[test]
+fn carbon_dioxide_below_its_triple_point_stays_a_gas_under_its_sublimation_pressure() {
+    // 50 L from 5 bar(a) and 300 K to 1 atm ends at 204.15 K, above the 194.69 K
+    // sublimation temperature. source: CoolProp 8.0.0's Span–Wagner equation evaluated with
+    // DmassT inputs below its stated range: end 204.151792 K, isentropic energy 25505.74 J.
+    let v = json(&[
+        "energy",
+        "--gas",
+        "carbon-dioxide",
+        "--volume",
+        "50 L",
+        "--pressure",
+        "5 bara",
+        "--temperature",
+        "300 K",
+    ]);
+    close(num(&v, "/isentropic_end_temperature_k"), 204.151792, 1e-6);
+    close(num(&v, "/energy_j/isentropic"), 25_505.737, 1e-6);
+}
+
+#[test]
+fn carbon_dioxide_that_crosses_its_sublimation_line_is_refused_as_solid() {
+    // From 20 °C the isentrope to 1 atm reaches the sublimation line from 5.42 bar(a) up
+    // (CoolProp 8.0.0's equation and Span & Wagner's eq. 3.12).
+    let out = pvhazard(&[
+        "energy",
+        "--gas",
+        "co2",
+        "--volume",
+        "50 L",
+        "--pressure",
+        "5.5 bara",
+    ])
+    .output()
+    .unwrap();
+    assert_eq!(out.status.code(), Some(2));
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(err.contains("solid") && err.contains("dry ice"), "{err}");
+    json(&[
+        "energy",
+        "--gas",
+        "co2",
+        "--volume",
+        "50 L",
+        "--pressure",
+        "5.4 bara",
+    ]);
+}
