@@ -24,7 +24,7 @@ impl NotResolved {
 
 /// A root finder that could not bracket or converge.
 #[derive(Debug, Clone, Copy, PartialEq, thiserror::Error)]
-#[error("no root in [{lo}, {hi}]: f has the same sign at both ends or is not finite")]
+#[error("no root found in [{lo}, {hi}]: f has the same sign at both ends, is not finite, or the iteration did not settle")]
 pub struct NoRoot {
     /// Lower end of the bracket.
     pub lo: f64,
@@ -107,7 +107,8 @@ pub fn root(f: impl Fn(f64) -> f64, lo: f64, hi: f64, tol: f64) -> Result<f64, N
             return Err(NoRoot { lo, hi });
         }
     }
-    Ok(b)
+    // Not settled within the iterations: not a root, whatever `b` is.
+    Err(NoRoot { lo, hi })
 }
 
 // Gauss–Kronrod 7/15 nodes and weights (Kronrod 1965; as tabulated in QUADPACK, qk15).
