@@ -398,6 +398,14 @@ impl Equation {
                 FlashError::NoConvergence
             }
         })?;
+        // A bracket that closed on a jump rather than a root (the value leaps across it:
+        // the two-phase band near the critical point the saturation solver does not reach,
+        // which the model takes as one phase) is no state.
+        let (miss, slope_t) = f(t);
+        let settled = miss.abs() <= 1e-7 * (slope_t * t).abs();
+        if !settled {
+            return Err(FlashError::NoConvergence);
+        }
         Ok(Equilibrium::single(state(t)?))
     }
 }
