@@ -481,7 +481,7 @@ mod tests {
     fn oxygen_fill_to_pressure_is_resolved_beyond_the_equations_range_of_a_wide_bracket() {
         // 5 → 150 barg at 20 °C, 1 atm. source: CoolProp 8.0.0, the same balance with
         // PropsSI (D, U inputs): the fill ends at 381.2581 K and a fill stopped at
-        // 223.6133 bar(a) settles at 151.01325 bar(a) (tools: /tmp check, ref_fill.py).
+        // 223.6133 bar(a) settles at 151.01325 bar(a) (tools/solver_checks.py).
         let (model, input) = real_fill("oxygen", 601_325.0, 15_101_325.0, 293.15);
         let r = adiabatic_fill(&model, &input).unwrap().value;
         assert_relative_eq!(
