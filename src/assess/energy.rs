@@ -282,6 +282,41 @@ fn before_opening(input: &EnergyInput, r: &EnergyResult) -> Finding {
         .against(e, limit);
     }
     let finding = match (input.energy_limit, r.vent_down_target) {
+        (Some(_), None) if r.vent_down_unresolved.is_some() => Finding::action(
+            Hazard::StoredEnergy,
+            Level::Caution,
+            "isentropic energy on the way down",
+            vec![
+                Part::from("The vessel stores "),
+                Part::from(e.clone()),
+                Part::from(format!(
+                    "; the pressure to vent down to is not resolved: {}.",
+                    r.vent_down_unresolved.as_ref().map_or("", |u| u.reason.as_str())
+                )),
+            ],
+            vec![Part::from("Vent to zero, isolate and lock out, and verify on two independent indications before opening.")],
+        ),
+        // Within the limit, yet a dense fluid can store more at a lower pressure: venting
+        // passes through those states.
+        (Some(l), Some(p)) if r.energy.isentropic <= l => Finding::action(
+            Hazard::StoredEnergy,
+            Level::Notice,
+            "isentropic energy on the way down",
+            vec![
+                Part::from("The vessel stores "),
+                Part::from(e.clone()),
+                Part::from(", within the limit of "),
+                Part::from(Value::Energy(l)),
+                Part::from(", but venting passes through states that store more (up to "),
+                Part::from(Value::Energy(r.vent_down_peak.unwrap_or(r.energy.isentropic))),
+                Part::from(")."),
+            ],
+            vec![
+                Part::from("Vent down to "),
+                Part::from(Value::Pressure(p)),
+                Part::from(" or below, isolate and lock out, and verify on two independent indications before opening."),
+            ],
+        ),
         (Some(l), Some(p)) => Finding::action(
             Hazard::StoredEnergy,
             Level::Notice,

@@ -11,6 +11,7 @@ use crate::gas::{ideal_twin, GasModel};
 use crate::report::{FillReport, FillTransientReport};
 use crate::rules::fill::{self, FillInput, FILL_TO_LIMIT_RATIO};
 use crate::rules::transient::{self, Exchange, FillRate, MaxRate};
+use crate::solve::NotResolved;
 use crate::units::Value;
 use crate::InputError;
 
@@ -35,6 +36,7 @@ pub fn fill(
     governing: Governing,
 ) -> Result<FillReport, InputError> {
     let out = fill::adiabatic_fill(model, input)?;
+    let unresolved = out.value.fill_to_unresolved.clone();
     let mut report = FillReport::new(model, input, ambient, out);
     let mut cautions = std::mem::take(&mut report.cautions);
     let mut basis = std::mem::take(&mut report.basis);
@@ -57,19 +59,27 @@ pub fn fill(
         ));
         report.inputs.inlet_diameter_m = p.inlet;
     }
-    let mut found = findings(&report, max_rate, governing);
+    let mut found = findings(&report, max_rate, governing, unresolved.as_ref());
     found.extend(gas::released(model));
     (report.verdict, report.cautions, report.basis) =
         super::conclude(found, cautions, basis, governing);
     Ok(report)
 }
 
-fn findings(r: &FillReport, max_rate: Option<MaxRate>, governing: Governing) -> Vec<Finding> {
+fn findings(
+    r: &FillReport,
+    max_rate: Option<MaxRate>,
+    governing: Governing,
+    unresolved: Option<&NotResolved>,
+) -> Vec<Finding> {
     let model = r
         .transient
         .as_ref()
         .filter(|_| governing == Governing::Model);
-    vec![temperature(r, model, max_rate), fill_to(r, model)]
+    vec![
+        temperature(r, model, max_rate),
+        fill_to(r, model, unresolved),
+    ]
 }
 
 /// The peak gas temperature against the rating: at the planned rate where it ran, else the
@@ -149,8 +159,12 @@ fn temperature(
 }
 
 /// The pressure to stop at so that the cylinder settles at its service pressure, against
-/// what a hot fill may stop at.
-fn fill_to(r: &FillReport, model: Option<&FillTransientReport>) -> Finding {
+/// what a hot fill may stop at. `unresolved` says why the bound's search did not settle.
+fn fill_to(
+    r: &FillReport,
+    model: Option<&FillTransientReport>,
+    unresolved: Option<&NotResolved>,
+) -> Finding {
     let target = r.inputs.to_pa;
     let limit = target * FILL_TO_LIMIT_RATIO;
     let (stop_at, settled, basis) = match model {
@@ -167,7 +181,23 @@ fn fill_to(r: &FillReport, model: Option<&FillTransientReport>) -> Finding {
     };
     let limit_value = Some(Value::Pressure(limit));
     let Some(p) = stop_at else {
-        if settled >= target {
+        let not_resolved = |why: String| {
+            Finding::action(
+                Hazard::FillTo,
+                Level::Caution,
+                basis,
+                vec![Part::from(format!(
+                    "The pressure to stop at is not resolved: {why}."
+                ))],
+                vec![Part::from(
+                    "Fill to the service pressure and top up after the cylinder cools.",
+                )],
+            )
+        };
+        if let (None, Some(e)) = (model, unresolved) {
+            return not_resolved(e.reason.clone());
+        }
+        if settled >= target || model.is_none() {
             return Finding::action(
                 Hazard::FillTo,
                 Level::Warning,
@@ -181,12 +211,9 @@ fn fill_to(r: &FillReport, model: Option<&FillTransientReport>) -> Finding {
             )
             .against(Value::Pressure(settled), limit_value);
         }
-        return Finding::action(
-            Hazard::FillTo,
-            Level::Caution,
-            basis,
-            vec![Part::from("The pressure to stop at is not resolved: the search found no stop pressure between 0.8 and 1.6 times the target on the model.")],
-            vec![Part::from("Fill to the service pressure and top up after the cylinder cools.")],
+        return not_resolved(
+            "the search found no stop pressure between 0.8 and 1.6 times the target on the model"
+                .to_string(),
         );
     };
     let against = |f: Finding| f.against(Value::Pressure(p), limit_value.clone());

@@ -321,9 +321,10 @@ pub enum GasError {
         /// The lowest temperature accepted, K.
         min_k: f64,
     },
-    /// An expansion that would end in solid (below the triple point), which the real-gas
-    /// model, covering fluid states only, cannot follow.
-    #[error("{what} of {gas} would end below its triple point, where it freezes{}; the real-gas model covers gas and liquid states only. Use --model ideal for an estimate, with its cautions", if *gas == "carbon-dioxide" { " (dry ice)" } else { "" })]
+    /// An expansion that would end in solid (below the triple point, above the sublimation
+    /// pressure where the model has one), which the real-gas model, covering fluid states
+    /// only, cannot follow.
+    #[error("{what} of {gas} would form solid{}: it would cross the line below its triple point where the gas freezes or sublimes; the real-gas model covers gas and liquid states only. Use --model ideal for an estimate, with its cautions", if *gas == "carbon-dioxide" { " (dry ice)" } else { "" })]
     Freezes {
         /// The gas.
         gas: &'static str,
@@ -368,6 +369,13 @@ pub trait GasModel {
     /// the critical pressure (or below the triple point).
     fn saturation_temperature(&self, p: Pressure) -> Option<ThermodynamicTemperature> {
         self.gas().saturation_temperature(p)
+    }
+
+    /// The highest pressure at which the model holds (an equation of state's stated
+    /// limit), or `None` for a model without one. A search clips its bracket to it: a state
+    /// found from other variables (ρ, u) can lie above it without the model refusing it.
+    fn max_pressure(&self) -> Option<Pressure> {
+        None
     }
 
     /// The state at pressure and temperature (the gas-like root).

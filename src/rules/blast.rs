@@ -9,46 +9,65 @@ use uom::si::{energy::joule, length::meter, mass::kilogram, pressure::pascal};
 ///
 /// source: M. M. Swisdak, "Simplified Kingery Airblast Calculations", 26th DoD Explosives
 /// Safety Seminar (1994), table of incident pressure fits, metric units.
+///
+/// The published seams (Z = 2.9 and 23.8) leave steps in the curve: at 2.9 it drops from
+/// 124.48 to 124.43 kPa, so an overpressure between them had no distance; at 23.8 it rises
+/// by 0.7 %. Here each seam is moved to where the two neighbouring fits cross (Z = 2.8811
+/// and 25.250, found by bisection on the published coefficients), so the curve is
+/// continuous and falls steadily with Z, every fit is used as published, and the curve
+/// differs from the published segments only between the old and the new seam, by at most
+/// the size of the step there (0.045 % and 0.71 % in overpressure).
 const KB_SEGMENTS: [(f64, f64, [f64; 5]); 3] = [
-    (0.2, 2.9, [7.2106, -2.1069, -0.3229, 0.1117, 0.0685]),
-    (2.9, 23.8, [7.5938, -3.0523, 0.40977, 0.0261, -0.01267]),
-    (23.8, 198.5, [6.0536, -1.4066, 0.0, 0.0, 0.0]),
+    (0.2, KB_SEAMS[0], [7.2106, -2.1069, -0.3229, 0.1117, 0.0685]),
+    (
+        KB_SEAMS[0],
+        KB_SEAMS[1],
+        [7.5938, -3.0523, 0.40977, 0.0261, -0.01267],
+    ),
+    (KB_SEAMS[1], 198.5, [6.0536, -1.4066, 0.0, 0.0, 0.0]),
 ];
+
+/// Where the neighbouring Kingery–Bulmash fits cross, m/kg^(1/3): the seams used.
+pub const KB_SEAMS: [f64; 2] = [2.881_128_278_417_54, 25.249_524_841_294_8];
 
 /// The scaled distances the Kingery–Bulmash fits cover, m/kg^(1/3).
 pub const KB_RANGE: (f64, f64) = (0.2, 198.5);
 
-fn kb_segment(z: f64, c: &[f64; 5]) -> f64 {
-    let l = z.ln();
-    (c[0] + l * (c[1] + l * (c[2] + l * (c[3] + l * c[4])))).exp() * 1e3
+/// ln p[kPa] of the fit `c` at ln Z.
+fn kb_ln_kpa(ln_z: f64, c: &[f64; 5]) -> f64 {
+    let l = ln_z;
+    c[0] + l * (c[1] + l * (c[2] + l * (c[3] + l * c[4])))
+}
+
+/// ln p[kPa] at ln Z over the whole range, or `None` outside it.
+fn kb_ln(ln_z: f64) -> Option<f64> {
+    KB_SEGMENTS
+        .iter()
+        .find(|(lo, hi, _)| ln_z >= lo.ln() && ln_z <= hi.ln())
+        .map(|(_, _, c)| kb_ln_kpa(ln_z, c))
 }
 
 /// Incident overpressure (Pa) of a hemispherical surface burst at scaled distance `z`
 /// (m/kg^(1/3)), Kingery–Bulmash by Swisdak's fits; `None` outside the fits' range.
 pub fn kingery_bulmash_overpressure(z: f64) -> Option<f64> {
-    KB_SEGMENTS
-        .iter()
-        .find(|(lo, hi, _)| z >= *lo && z <= *hi)
-        .map(|(_, _, c)| kb_segment(z, c))
+    if !(z >= KB_RANGE.0 && z <= KB_RANGE.1) {
+        return None;
+    }
+    kb_ln(z.ln()).map(|ln_kpa| ln_kpa.exp() * 1e3)
 }
 
-/// The largest scaled distance at which the Kingery–Bulmash overpressure is at least
-/// `overpressure` (Pa), or `None` when the threshold lies outside the fits.
-///
-/// The fits join with small steps (0.7 % at Z = 23.8), so a threshold can be met in two
-/// segments; the farther distance is the conservative one.
+/// The scaled distance at which the Kingery–Bulmash overpressure falls to `overpressure`
+/// (Pa), or `None` when the threshold lies outside the fits: one root over the whole range,
+/// the joined curve falling steadily with Z.
 pub fn scaled_distance_for(overpressure: f64) -> Option<f64> {
-    KB_SEGMENTS
-        .iter()
-        .filter_map(|(lo, hi, c)| {
-            let f = |ln_z: f64| kb_segment(ln_z.exp(), c).ln() - overpressure.ln();
-            crate::solve::root(f, lo.ln(), hi.ln(), 1e-12)
-                .ok()
-                .map(f64::exp)
-        })
-        .fold(None, |best: Option<f64>, z| {
-            Some(best.map_or(z, |b| b.max(z)))
-        })
+    if !(overpressure.is_finite() && overpressure > 0.0) {
+        return None;
+    }
+    let target = (overpressure / 1e3).ln();
+    let f = |ln_z: f64| kb_ln(ln_z).map_or(f64::NAN, |v| v - target);
+    crate::solve::root(f, KB_RANGE.0.ln(), KB_RANGE.1.ln(), 1e-13)
+        .ok()
+        .map(f64::exp)
 }
 
 /// Incident overpressure ratio ps/pa in free air at scaled distance `z` (m/kg^(1/3)).
@@ -147,8 +166,53 @@ mod tests {
     fn standoff_inverts_the_fit() {
         for p in [2_070.0, 4_900.0, 6_900.0, 34_500.0, 200_000.0] {
             let z = scaled_distance_for(p).unwrap();
-            assert!(kingery_bulmash_overpressure(z).unwrap() >= p * (1.0 - 1e-9));
+            assert_relative_eq!(
+                kingery_bulmash_overpressure(z).unwrap(),
+                p,
+                max_relative = 1e-11
+            );
         }
+    }
+
+    #[test]
+    fn the_fits_join_without_a_step_at_every_seam() {
+        // source: Swisdak (1994) coefficients; the seams are where the neighbouring fits
+        // cross. At each seam both fits give the same overpressure, the curve falls through
+        // it, and a threshold inside the step the published seams left (124.427–124.482
+        // kPa at Z = 2.9, 4.8947–4.9289 kPa at Z = 23.8, the fits evaluated there) has
+        // exactly one distance.
+        for (i, &seam) in KB_SEAMS.iter().enumerate() {
+            let (a, b) = (&KB_SEGMENTS[i].2, &KB_SEGMENTS[i + 1].2);
+            assert!((kb_ln_kpa(seam.ln(), a) - kb_ln_kpa(seam.ln(), b)).abs() < 1e-12);
+            let p = |z: f64| kingery_bulmash_overpressure(z).unwrap();
+            assert!(p(seam * (1.0 - 1e-9)) > p(seam) && p(seam) > p(seam * (1.0 + 1e-9)));
+        }
+        for (published_seam, lo_kpa, hi_kpa) in [(2.9, 124.427, 124.482), (23.8, 4.8947, 4.9289)] {
+            for k in 0..=10 {
+                let p = 1e3 * (lo_kpa + (hi_kpa - lo_kpa) * k as f64 / 10.0);
+                let z = scaled_distance_for(p).unwrap_or_else(|| panic!("no distance for {p} Pa"));
+                assert!((z / published_seam - 1.0).abs() < 0.07, "{z}");
+                assert_relative_eq!(
+                    kingery_bulmash_overpressure(z).unwrap(),
+                    p,
+                    max_relative = 1e-11
+                );
+            }
+        }
+    }
+
+    #[test]
+    fn the_joined_curve_falls_steadily_over_the_whole_range() {
+        let mut z = KB_RANGE.0;
+        let mut last = f64::INFINITY;
+        while z <= KB_RANGE.1 {
+            let p = kingery_bulmash_overpressure(z).unwrap();
+            assert!(p < last, "Z {z}");
+            last = p;
+            z *= 1.0005;
+        }
+        assert!(kingery_bulmash_overpressure(0.19).is_none());
+        assert!(kingery_bulmash_overpressure(199.0).is_none());
     }
 
     #[test]

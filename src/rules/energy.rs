@@ -14,6 +14,7 @@ use super::{check_positive, gas_cautions, gas_error, user_state, MAX_PRESSURE_PA
 use crate::caution;
 use crate::caution::{Assessed, Caution, Level, Note};
 use crate::gas::{GasError, GasModel, State};
+use crate::solve::NotResolved;
 use crate::units::{fmt_sig, Value};
 use crate::InputError;
 
@@ -88,8 +89,15 @@ pub struct EnergyResult {
     pub standoffs: Vec<Standoff>,
     /// Energy stored by the same vessel filled with water at the same gauge pressure.
     pub hydrotest_energy: Energy,
-    /// Pressure to vent down to before the isentropic energy is at or below the limit.
+    /// Pressure at or below which every state on the way down (at the vessel's
+    /// temperature) stores no more isentropic energy than the limit; `None` without a limit,
+    /// when no state on the way is above it, or when not resolved.
     pub vent_down_target: Option<Pressure>,
+    /// The most isentropic energy any state on the way down stores (at least the vessel's
+    /// own), when a limit is given and the search resolved.
+    pub vent_down_peak: Option<Energy>,
+    /// Why the vent-down target is not resolved, where it is not.
+    pub vent_down_unresolved: Option<NotResolved>,
 }
 
 /// Stored energy, TNT equivalent, exclusion distance and standoffs of gas at `input`'s
@@ -161,6 +169,8 @@ pub fn stored_energy(
                 standoffs: Vec::new(),
                 hydrotest_energy: zero,
                 vent_down_target: None,
+                vent_down_peak: None,
+                vent_down_unresolved: None,
             },
             cautions,
             basis,
@@ -181,16 +191,20 @@ pub fn stored_energy(
     let gauge = input.pressure - pa;
     let hydrotest_energy =
         gauge * gauge * input.volume / (2.0 * Pressure::new::<pascal>(WATER_BULK_MODULUS_PA));
-    let vent_down_target = match input.energy_limit {
-        Some(limit) if limit < energy.isentropic => Some(vent_down_target(
+    let searched = input.energy_limit.map(|limit| {
+        vent_down(
             model,
             input.volume,
             input.temperature,
             pa,
             input.pressure,
             limit,
-        )?),
-        _ => None,
+        )
+    });
+    let (vent_down_target, vent_down_peak, vent_down_unresolved) = match searched {
+        None => (None, None, None),
+        Some(Ok(v)) => (v.target, Some(v.peak.0), None),
+        Some(Err(e)) => (None, None, Some(e)),
     };
 
     let result = EnergyResult {
@@ -203,6 +217,8 @@ pub fn stored_energy(
         standoffs,
         hydrotest_energy,
         vent_down_target,
+        vent_down_peak,
+        vent_down_unresolved,
     };
     let (more, more_basis) = energy_cautions(input, &result);
     cautions.extend(more);
@@ -257,35 +273,139 @@ pub fn expansion_energies(
     Ok((energies, isentropic_end))
 }
 
-/// The pressure at which the vessel's isentropic energy equals `limit` (at the same
-/// temperature), found by bisection on ln p: the energy rises monotonically with pressure.
-fn vent_down_target(
+/// Points on the vent-down path (evenly in ln p from ambient to the vessel pressure) at
+/// which the energy is evaluated before any refinement.
+const PATH_POINTS: usize = 48;
+
+/// The isentropic expansion energy of `volume` of gas at `p` and `temperature`, J.
+fn isentropic_energy_at(
+    model: &dyn GasModel,
+    volume: Volume,
+    temperature: ThermodynamicTemperature,
+    ambient: Pressure,
+    p: Pressure,
+) -> Result<f64, GasError> {
+    let st = model.state_pt(p, temperature)?;
+    let end = model.state_p_s(ambient, model.entropy(&st))?;
+    Ok(
+        (st.density * volume * (model.internal_energy(&st) - model.internal_energy(&end)))
+            .get::<joule>(),
+    )
+}
+
+/// Where a vent-down must go before every state on the way down stores no more than the
+/// limit.
+#[derive(Debug, Clone, PartialEq)]
+pub struct VentDown {
+    /// The pressure at or below which every state on the way down (at the vessel's
+    /// temperature) stores no more than the limit; `None` when none is above it.
+    pub target: Option<Pressure>,
+    /// The most energy any state on the way down stores, and its pressure.
+    pub peak: (Energy, Pressure),
+}
+
+/// The pressure below which every state of the vessel, vented at its temperature, stores no
+/// more isentropic energy than `limit`: the lowest pressure at which the energy reaches the
+/// limit.
+///
+/// The energy does not always rise with pressure: a dense fluid (methane near 205 K above
+/// about 130 bar) stores less per volume as it is compressed further, so a vessel within the
+/// limit can pass through states above it while it vents. The whole path from ambient to
+/// the vessel pressure is therefore sampled evenly in ln p, each local maximum refined by
+/// golden-section search, and the first crossing of the limit from ambient found by
+/// Brent's method. A state on the path the model cannot give is not resolved.
+pub fn vent_down(
     model: &dyn GasModel,
     volume: Volume,
     temperature: ThermodynamicTemperature,
     ambient: Pressure,
     pressure: Pressure,
     limit: Energy,
-) -> Result<Pressure, InputError> {
-    let excess = |ln_p: f64| -> f64 {
+) -> Result<VentDown, NotResolved> {
+    let energy = |ln_p: f64| {
         let p = Pressure::new::<pascal>(ln_p.exp());
-        model
-            .state_pt(p, temperature)
-            .ok()
-            .and_then(|st| expansion_energies(model, &st, volume, ambient).ok())
-            .map_or(f64::NAN, |(e, _)| (e.isentropic - limit).get::<joule>())
-    };
-    let lo = ambient.get::<pascal>().ln() + 1e-12;
-    let hi = pressure.get::<pascal>().ln();
-    crate::solve::root(excess, lo, hi, 1e-12)
-        .map(|ln_p| Pressure::new::<pascal>(ln_p.exp()))
-        .map_err(|_| {
-            InputError::new(
-                "energy-limit",
-                format!("{} J", limit.get::<joule>()),
-                "no pressure between ambient and the vessel pressure has this energy; accepted: an energy below the vessel's stored isentropic energy",
-            )
+        isentropic_energy_at(model, volume, temperature, ambient, p).map_err(|e| {
+            NotResolved::new(format!(
+                "the state at {} bar(a) on the way down is not available ({e})",
+                fmt_sig(p.get::<pascal>() / 1e5, 5)
+            ))
         })
+    };
+    let (lo, hi) = (ambient.get::<pascal>().ln(), pressure.get::<pascal>().ln());
+    let step = (hi - lo) / PATH_POINTS as f64;
+    let mut path = vec![(lo, 0.0)];
+    for i in 1..=PATH_POINTS {
+        let x = if i == PATH_POINTS {
+            hi
+        } else {
+            lo + step * i as f64
+        };
+        path.push((x, energy(x)?));
+    }
+    // Each interior maximum of the samples, refined: a peak above the limit between two
+    // samples below it is a crossing all the same.
+    let mut peaks = Vec::new();
+    for w in path.windows(3) {
+        if w[1].1 > w[0].1 && w[1].1 >= w[2].1 {
+            peaks.push(golden_max(&energy, w[0].0, w[2].0)?);
+        }
+    }
+    let last = path[path.len() - 1];
+    let peak = peaks
+        .iter()
+        .copied()
+        .chain(std::iter::once(last))
+        .fold(last, |a, b| if b.1 > a.1 { b } else { a });
+    let limit_j = limit.get::<joule>();
+    // The first sample (or refined peak) above the limit, in order from ambient.
+    let mut points: Vec<(f64, f64)> = path.iter().copied().chain(peaks).collect();
+    points.sort_by(|a, b| a.0.total_cmp(&b.0));
+    let target = match points.iter().position(|&(_, e)| e > limit_j) {
+        None => None,
+        Some(i) => {
+            let excess = |x: f64| energy(x).map_or(f64::NAN, |e| e - limit_j);
+            let ln_p =
+                crate::solve::root(excess, points[i - 1].0, points[i].0, 1e-12).map_err(|_| {
+                    NotResolved::new(format!(
+                        "the search for the limit did not converge between {} and {} bar(a)",
+                        fmt_sig(points[i - 1].0.exp() / 1e5, 5),
+                        fmt_sig(points[i].0.exp() / 1e5, 5)
+                    ))
+                })?;
+            Some(Pressure::new::<pascal>(ln_p.exp()))
+        }
+    };
+    Ok(VentDown {
+        target,
+        peak: (
+            Energy::new::<joule>(peak.1),
+            Pressure::new::<pascal>(peak.0.exp()),
+        ),
+    })
+}
+
+/// The largest value of `f` in [a, b] by golden-section search (to 1e-9 in ln p), with
+/// where it is.
+fn golden_max(
+    f: &impl Fn(f64) -> Result<f64, NotResolved>,
+    mut a: f64,
+    mut b: f64,
+) -> Result<(f64, f64), NotResolved> {
+    let r = 0.5 * (5f64.sqrt() - 1.0);
+    let (mut c, mut d) = (b - r * (b - a), a + r * (b - a));
+    let (mut fc, mut fd) = (f(c)?, f(d)?);
+    while b - a > 1e-9 {
+        if fc > fd {
+            (b, d, fd) = (d, c, fc);
+            c = b - r * (b - a);
+            fc = f(c)?;
+        } else {
+            (a, c, fc) = (c, d, fd);
+            d = a + r * (b - a);
+            fd = f(d)?;
+        }
+    }
+    Ok(if fc > fd { (c, fc) } else { (d, fd) })
 }
 
 /// The cautions the result carries (a standoff the fits cannot give) and its basis. The
@@ -459,5 +579,45 @@ mod tests {
         assert_eq!(r.value.energy.isentropic.get::<joule>(), 0.0);
         assert_eq!(r.value.exclusion_distance.get::<meter>(), 0.0);
         assert_eq!(r.value.exclusion_basis, DistanceBasis::NoStoredEnergy);
+    }
+
+    #[test]
+    fn a_dense_fluid_within_the_limit_still_vents_through_states_above_it() {
+        // Methane, 1 m³ at 843.627 bar(a) and 205.113 K: 27.51 MJ, within 28 MJ, but the
+        // energy peaks at 29.894 MJ near 133.8 bar(a) on the way down and first reaches
+        // 28 MJ at 78.2944 bar(a). source: CoolProp 8.0.0, PropsSI at (p, T) and (pa, s),
+        // the crossing by bisection and the peak by golden section (1 atm ambient).
+        use crate::gas::RealGas;
+        let model = RealGas::new(Gas::find("methane").unwrap());
+        let input = EnergyInput {
+            volume: Volume::new::<cubic_meter>(1.0),
+            pressure: Pressure::new::<pascal>(843.627e5),
+            temperature: ThermodynamicTemperature::new::<kelvin>(205.113),
+            energy_limit: Some(Energy::new::<joule>(28e6)),
+            ..air_input(0.0, 101_325.0)
+        };
+        let r = stored_energy(&model, &input).unwrap().value;
+        assert_relative_eq!(
+            r.energy.isentropic.get::<joule>(),
+            27.509951e6,
+            max_relative = 1e-6
+        );
+        assert_relative_eq!(
+            r.vent_down_target.unwrap().get::<pascal>(),
+            78.29441e5,
+            max_relative = 1e-6
+        );
+        assert_relative_eq!(
+            r.vent_down_peak.unwrap().get::<joule>(),
+            29.893796e6,
+            max_relative = 1e-6
+        );
+        // No limit reached anywhere on the way: no target, and the peak is the vessel's.
+        let input = EnergyInput {
+            energy_limit: Some(Energy::new::<joule>(30e6)),
+            ..input
+        };
+        let r = stored_energy(&model, &input).unwrap().value;
+        assert!(r.vent_down_target.is_none() && r.vent_down_unresolved.is_none());
     }
 }

@@ -84,9 +84,33 @@ impl Equation {
         self.fluid.p_max * (1.0 + 1e-9)
     }
 
-    /// Lowest and highest temperatures accepted.
+    /// Lowest and highest temperatures accepted: the triple point, or below it the
+    /// sublimation curve's floor for a gas that can stay a gas there ([`Equation::solid`]
+    /// says where it cannot).
     fn t_range(&self) -> (f64, f64) {
-        (self.fluid.t_triple, self.fluid.t_max)
+        let lo = self
+            .sublimation
+            .map_or(self.fluid.t_triple, |s| s.t_floor.min(self.fluid.t_triple));
+        (lo, self.fluid.t_max)
+    }
+
+    /// Whether a state at (p, T) found on the gas branch would be solid: below the triple
+    /// point, above the sublimation pressure (or with no sublimation curve at all).
+    fn solid(&self, p: f64, t: f64) -> bool {
+        t < self.fluid.t_triple && !self.sublimation.is_some_and(|s| s.gas_at(p, t))
+    }
+
+    /// The gas at density `rho` and temperature `t` below the triple point: one phase where
+    /// it is a dilute gas under the sublimation pressure (on the branch where p rises with ρ,
+    /// below the critical density), solid otherwise.
+    fn below_triple(&self, rho: f64, t: f64) -> Result<Props, FlashError> {
+        let p = self.props(rho, t);
+        let dilute = p.dp_drho > 0.0 && rho < self.fluid.rho_critical * self.fluid.molar_mass;
+        if dilute && !self.solid(p.p, t) {
+            Ok(p)
+        } else {
+            Err(FlashError::BelowTriplePoint)
+        }
     }
 
     /// Which phase is stable at (p, T), with the saturation state when T is subcritical.
@@ -100,13 +124,18 @@ impl Equation {
     /// at exactly the saturation pressure, the vapour).
     pub fn at_pt(&self, p: f64, t: f64) -> Result<Props, FlashError> {
         let (t_lo, t_hi) = self.t_range();
-        if t < t_lo {
+        if t < t_lo || self.solid(p, t) {
             return Err(FlashError::BelowTriplePoint);
         }
         if !(t <= t_hi && p > 0.0 && p <= self.p_limit()) {
             return Err(FlashError::OutOfRange);
         }
         let guess = p / (self.r_specific() * t);
+        if t < self.fluid.t_triple {
+            // Under the sublimation pressure: a dilute gas, the root nearest the ideal gas.
+            let rho = self.density_between(p, t, 1e-12 * guess, f64::INFINITY, guess)?;
+            return self.below_triple(rho, t);
+        }
         if let Some(rho) = self.clearly_gas(p, t, guess) {
             return Ok(self.props(rho, t));
         }
@@ -217,6 +246,9 @@ impl Equation {
         if !(t <= t_hi && rho > 0.0) {
             return Err(FlashError::OutOfRange);
         }
+        if t < self.fluid.t_triple {
+            return self.below_triple(rho, t).map(Equilibrium::single);
+        }
         match self.saturation_below_critical(t) {
             Some(sat) if sat.splits(rho) => {
                 Ok(Equilibrium::mixture(&sat, sat.quality_at_density(rho)))
@@ -262,13 +294,21 @@ impl Equation {
             Some(self.props(rho, t))
         });
         if let Some(p) = single {
-            let inside = self
-                .saturation_below_critical(p.t)
-                .is_some_and(|sat| sat.splits(rho));
-            if !inside {
+            // Below the triple point only a dilute gas is a state; above it, one phase
+            // outside the dome.
+            let stands = if p.t < self.fluid.t_triple {
+                self.below_triple(rho, p.t).is_ok()
+            } else {
+                !self
+                    .saturation_below_critical(p.t)
+                    .is_some_and(|sat| sat.splits(rho))
+            };
+            if stands {
                 return Ok(Equilibrium::single(p));
             }
         }
+        // Two phases exist only from the triple point up.
+        let t_lo = self.fluid.t_triple;
         // Inside the dome (or beyond the ends): the equilibrium value along T.
         let f = |t: f64| {
             self.at_rho_t(rho, t)
@@ -294,7 +334,9 @@ impl Equation {
         value: impl Fn(&Equilibrium) -> f64,
         slope: impl Fn(&Props) -> f64,
     ) -> Result<Equilibrium, FlashError> {
-        let (t_lo, t_hi) = self.t_range();
+        let (floor, t_hi) = self.t_range();
+        // Liquid and the gas above the triple-point pressure start at the triple point.
+        let t_lo = self.fluid.t_triple;
         if !(p > 0.0 && p <= self.p_limit()) {
             return Err(FlashError::OutOfRange);
         }
@@ -318,6 +360,15 @@ impl Equation {
                     (t_lo, sat.t)
                 }
             }
+            // Under the triple-point pressure the gas reaches down to its sublimation
+            // temperature (or the triple point, without a sublimation curve).
+            // (nudged up so that the end itself is gas, not solid by rounding).
+            None if p < self.p_triple => (
+                self.sublimation
+                    .and_then(|s| s.temperature(p))
+                    .map_or(t_lo, |t| (t * (1.0 + 1e-10)).clamp(floor, t_lo)),
+                t_hi,
+            ),
             None => (t_lo, t_hi),
         };
         let state = |t: f64| -> Result<Props, FlashError> {
@@ -347,6 +398,14 @@ impl Equation {
                 FlashError::NoConvergence
             }
         })?;
+        // A bracket that closed on a jump rather than a root (the value leaps across it:
+        // the two-phase band near the critical point the saturation solver does not reach,
+        // which the model takes as one phase) is no state.
+        let (miss, slope_t) = f(t);
+        let settled = miss.abs() <= 1e-7 * (slope_t * t).abs();
+        if !settled {
+            return Err(FlashError::NoConvergence);
+        }
         Ok(Equilibrium::single(state(t)?))
     }
 }

@@ -178,6 +178,8 @@ pub struct Equation {
     pub t_sat_max: f64,
     /// Saturation pressure there, Pa.
     pub p_sat_max: f64,
+    /// Where the gas stays a gas below the triple point, if it can be there at all.
+    pub sublimation: Option<super::Sublimation>,
 }
 
 /// Every equation in the file, parsed once.
@@ -228,6 +230,7 @@ impl Equation {
             ideal_power: i.power.rows(["n", "t"]),
             planck: i.planck_einstein.rows(["n", "t"]),
             planck_generalized: i.planck_generalized.rows(["n", "t", "c", "d"]),
+            sublimation: super::sublimation::of(&fluid.gas),
             fluid,
             p_triple: f64::NAN,
             t_sat_max: f64::NAN,

@@ -7,11 +7,13 @@ mod flash;
 mod helmholtz;
 mod props;
 mod saturation;
+mod sublimation;
 
 pub use flash::{Equilibrium, FlashError};
 pub use helmholtz::{equation, equations, Derivatives, Equation};
 pub use props::Props;
 pub use saturation::Saturation;
+pub use sublimation::Sublimation;
 
 use uom::si::f64::{
     AvailableEnergy, MassDensity, MassFlux, Pressure, SpecificHeatCapacity,
@@ -118,19 +120,31 @@ impl RealGas {
 
     /// Homogeneous equilibrium flow, for an isentrope that meets the two-phase region: the
     /// flux ρ·√(2(h0 − h)) is maximised along the equilibrium isentrope over the throat
-    /// pressure (golden-section search on ln p); the flow is choked when the maximum lies
-    /// above the back pressure.
+    /// pressure; the flow is choked when the maximum lies above the back pressure.
+    ///
+    /// The flux is sampled on a grid in ln p first and the best sample's neighbourhood
+    /// refined by golden-section search, so a pressure with no state (the narrow band just
+    /// below the critical pressure, where the model has no two-phase state) is skipped
+    /// rather than steering a search that assumes one maximum.
     fn equilibrium_nozzle(&self, e0: &Equilibrium, pb: f64) -> NozzleFlow {
         let flux = |ln_p: f64| {
             self.eq
                 .at_p(ln_p.exp(), e0.s, |e| e.s, |p| p.cp / p.t)
                 .map_or(0.0, |e| throat_flux(e0, &e))
         };
-        let (mut a, mut b) = (pb.ln(), e0.p.ln());
+        let (lo, hi) = (pb.ln(), e0.p.ln());
+        let step = (hi - lo) / HEM_GRID as f64;
+        let (best_i, _) = (0..=HEM_GRID)
+            .map(|i| (i, flux(lo + step * i as f64)))
+            .fold((0, f64::NEG_INFINITY), |a, b| if b.1 > a.1 { b } else { a });
+        let (mut a, mut b) = (
+            lo + step * best_i.saturating_sub(1) as f64,
+            lo + step * (best_i + 1).min(HEM_GRID) as f64,
+        );
         let r = 0.5 * (5f64.sqrt() - 1.0);
         let (mut c, mut d) = (b - r * (b - a), a + r * (b - a));
         let (mut fc, mut fd) = (flux(c), flux(d));
-        for _ in 0..28 {
+        for _ in 0..HEM_REFINE {
             if fc > fd {
                 (b, d, fd) = (d, c, fc);
                 c = b - r * (b - a);
@@ -184,6 +198,13 @@ impl RealGas {
     }
 }
 
+/// Samples of the homogeneous-equilibrium flux over ln p, from the back pressure to the
+/// stagnation pressure, before refinement.
+const HEM_GRID: usize = 12;
+/// Golden-section steps refining the best sample's two neighbouring intervals (0.618^22 of
+/// two grid steps: below 1e-5 in ln p, where the flux is flat at its maximum).
+const HEM_REFINE: usize = 22;
+
 /// Mass flux ρ·c at a throat state `e` on the isentrope from the stagnation state `e0`,
 /// with the velocity c = √(2·(h0 − h)) from the energy balance.
 fn throat_flux(e0: &Equilibrium, e: &Equilibrium) -> f64 {
@@ -213,7 +234,11 @@ impl GasModel for RealGas {
     fn check_gas_phase(&self, p: Pressure, t: ThermodynamicTemperature) -> Result<(), GasError> {
         let tk = t.get::<kelvin>();
         let f = &self.eq.fluid;
-        if tk < f.t_triple {
+        let gas_below_triple = self
+            .eq
+            .sublimation
+            .is_some_and(|s| s.gas_at(p.get::<pascal>(), tk));
+        if tk < f.t_triple && !gas_below_triple {
             return Err(GasError::BelowTriplePoint {
                 gas: self.gas.name,
                 temperature_k: tk,
@@ -239,6 +264,10 @@ impl GasModel for RealGas {
         self.eq
             .saturation_p(p.get::<pascal>())
             .map(|s| ThermodynamicTemperature::new::<kelvin>(s.t))
+    }
+
+    fn max_pressure(&self) -> Option<Pressure> {
+        Some(Pressure::new::<pascal>(self.eq.fluid.p_max))
     }
 
     fn state_pt(&self, p: Pressure, t: ThermodynamicTemperature) -> Result<State, GasError> {
