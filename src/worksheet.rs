@@ -645,7 +645,7 @@ fn vent_down(
         check: Some(check),
         exchange,
     };
-    let report = assess::vent(model, &input, Some(&wall_vent), governing(site, t))?;
+    let report = assess::vent(model, &input, Some(&wall_vent), None, governing(site, t))?;
     out.assessed(&report.verdict, &report.cautions, &report.basis);
     if let Some(warm) = &report.transient {
         out.section(

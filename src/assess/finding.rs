@@ -29,9 +29,9 @@ pub enum Hazard {
     /// The vent jet: noise and the reaction force on the vent line.
     VentJet,
     /// The released gas displaces oxygen.
-    Asphyxiant,
-    /// The released gas intensifies fire.
-    Oxidiser,
+    OxygenDepletion,
+    /// The released gas enriches the air with oxygen and intensifies fire.
+    OxygenEnrichment,
     /// The released gas burns.
     Flammable,
     /// The released gas is toxic (and displaces oxygen).
@@ -50,8 +50,8 @@ impl Hazard {
         Hazard::VentTime,
         Hazard::TwoPhase,
         Hazard::VentJet,
-        Hazard::Asphyxiant,
-        Hazard::Oxidiser,
+        Hazard::OxygenDepletion,
+        Hazard::OxygenEnrichment,
         Hazard::Flammable,
         Hazard::Toxic,
     ];
@@ -68,8 +68,8 @@ impl Hazard {
             Hazard::VentTime => "vent-time",
             Hazard::TwoPhase => "two-phase",
             Hazard::VentJet => "vent-jet",
-            Hazard::Asphyxiant => "asphyxiant",
-            Hazard::Oxidiser => "oxidiser",
+            Hazard::OxygenDepletion => "oxygen-depletion",
+            Hazard::OxygenEnrichment => "oxygen-enrichment",
             Hazard::Flammable => "flammable",
             Hazard::Toxic => "toxic",
         }
@@ -87,8 +87,8 @@ impl Hazard {
             Hazard::VentTime => "Vent time",
             Hazard::TwoPhase => "Liquid or frost",
             Hazard::VentJet => "Vent jet",
-            Hazard::Asphyxiant => "Asphyxiant gas",
-            Hazard::Oxidiser => "Oxidising gas",
+            Hazard::OxygenDepletion => "Oxygen depletion",
+            Hazard::OxygenEnrichment => "Oxygen enrichment",
             Hazard::Flammable => "Flammable gas",
             Hazard::Toxic => "Toxic gas",
         }
@@ -245,9 +245,11 @@ impl Serialize for Finding {
     fn serialize<S: serde::Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
         use serde::ser::SerializeStruct;
         let d = si_display();
-        let mut st = s.serialize_struct("Finding", 7)?;
+        let mut st = s.serialize_struct("Finding", 8)?;
         st.serialize_field("hazard", &self.hazard)?;
         st.serialize_field("status", &self.status)?;
+        // The signal word of its banner; none while it is ok.
+        st.serialize_field("level", &(self.status != Status::Ok).then_some(self.level))?;
         st.serialize_field("value", &si(&self.value))?;
         st.serialize_field("limit", &si(&self.limit))?;
         st.serialize_field("basis", &self.basis)?;
@@ -292,18 +294,18 @@ pub struct Verdict {
 
 impl Verdict {
     /// The verdict on `findings`: one per hazard (the worst where a hazard was assessed
-    /// twice), ordered by status.
+    /// twice), ordered by status, then by signal word.
     pub fn new(findings: Vec<Finding>) -> Verdict {
         let mut kept: Vec<Finding> = Vec::new();
         for f in findings {
             match kept.iter_mut().find(|k| k.hazard == f.hazard) {
-                Some(k) if f.status > k.status => *k = f,
+                Some(k) if (f.status, f.level) > (k.status, k.level) => *k = f,
                 Some(_) => {}
                 None => kept.push(f),
             }
         }
-        // A stable sort keeps the calculations' order within a status.
-        kept.sort_by_key(|f| std::cmp::Reverse(f.status));
+        // A stable sort keeps the calculations' order within a status and signal word.
+        kept.sort_by_key(|f| std::cmp::Reverse((f.status, f.level)));
         let decision = match kept.iter().map(|f| f.status).max() {
             Some(Status::Stop) => Decision::NoGo,
             Some(Status::Action) => Decision::GoWithActions,

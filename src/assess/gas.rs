@@ -15,12 +15,12 @@ pub(super) fn released(model: &dyn GasModel) -> Option<Finding> {
     let (hazard, result, action) = match model.gas().hazard {
         GasHazard::Air => return None,
         GasHazard::Asphyxiant => (
-            Hazard::Asphyxiant,
+            Hazard::OxygenDepletion,
             format!("Released {gas} displaces oxygen."),
             "Vent outdoors or to a safe location, never into an enclosed, low or poorly ventilated space; check the atmosphere before entry.",
         ),
         GasHazard::Oxidiser => (
-            Hazard::Oxidiser,
+            Hazard::OxygenEnrichment,
             format!("Released {gas} intensifies fire."),
             "Keep oil, grease and ignition sources away, vent to a safe location, and do not let clothing become oxygen-enriched.",
         ),

@@ -11,6 +11,7 @@ mod energy;
 mod fill;
 pub mod finding;
 mod gas;
+mod room;
 mod vent;
 
 pub use energy::{energy, EnergyAsk, Work};

@@ -93,7 +93,14 @@ fn the_wall_model_governs_cold_metal_where_it_ran() {
     // model keeps a 540 kg steel wall near +14 °C (README's receiver).
     let model = air();
     let input = receiver_vent();
-    let r = vent(&model, &input, Some(&receiver_wall()), Governing::Model).unwrap();
+    let r = vent(
+        &model,
+        &input,
+        Some(&receiver_wall()),
+        None,
+        Governing::Model,
+    )
+    .unwrap();
     let cold = r.verdict.finding(Hazard::ColdMetal).unwrap();
     assert_eq!(cold.status, Status::Ok);
     assert_eq!(cold.basis, "wall model");
@@ -104,7 +111,14 @@ fn the_wall_model_governs_cold_metal_where_it_ran() {
         .any(|c| c.level >= Level::Warning && c.message().contains("MDMT")));
     assert_banners_apply(&r.verdict, &r.cautions);
 
-    let bound = vent(&model, &input, Some(&receiver_wall()), Governing::Bound).unwrap();
+    let bound = vent(
+        &model,
+        &input,
+        Some(&receiver_wall()),
+        None,
+        Governing::Bound,
+    )
+    .unwrap();
     let cold = bound.verdict.finding(Hazard::ColdMetal).unwrap();
     assert_eq!(
         (cold.status, cold.basis.as_str()),
@@ -112,7 +126,7 @@ fn the_wall_model_governs_cold_metal_where_it_ran() {
     );
     assert_eq!(bound.verdict.decision, Decision::NoGo);
 
-    let alone = vent(&model, &input, None, Governing::Model).unwrap();
+    let alone = vent(&model, &input, None, None, Governing::Model).unwrap();
     let cold = alone.verdict.finding(Hazard::ColdMetal).unwrap();
     assert_eq!(
         cold.status,
@@ -291,9 +305,9 @@ fn one_banner_per_hazard_across_a_worksheets_calculations() {
     let a = energy(&model, &e, &ask).unwrap();
     let mut v = receiver_vent();
     v.pressure = pa(200e5);
-    let b = vent(&model, &v, None, Governing::Model).unwrap();
+    let b = vent(&model, &v, None, None, Governing::Model).unwrap();
     let merged = a.verdict.merged(b.verdict);
-    for h in [Hazard::TwoPhase, Hazard::Asphyxiant] {
+    for h in [Hazard::TwoPhase, Hazard::OxygenDepletion] {
         assert_eq!(merged.findings.iter().filter(|f| f.hazard == h).count(), 1);
     }
     assert_eq!(
@@ -311,7 +325,14 @@ fn a_wall_run_without_heat_exchange_is_the_bound_not_the_model() {
     // With no heat exchanged the wall stays at its start: it says nothing of the metal.
     let mut wall = receiver_wall();
     wall.exchange.mode = HeatTransfer::None;
-    let r = vent(&air(), &receiver_vent(), Some(&wall), Governing::Model).unwrap();
+    let r = vent(
+        &air(),
+        &receiver_vent(),
+        Some(&wall),
+        None,
+        Governing::Model,
+    )
+    .unwrap();
     let cold = r.verdict.finding(Hazard::ColdMetal).unwrap();
     assert_eq!(
         (cold.status, cold.basis.as_str()),

@@ -4,10 +4,11 @@
 //! jet.
 
 use super::finding::{Finding, Hazard};
-use super::{edge_and_central, gas, Governing};
+use super::{edge_and_central, gas, room, Governing};
 use crate::caution::{Level, Part};
 use crate::gas::{ideal_twin, GasModel};
 use crate::report::{DepressuringReport, VentReport, VentTransientReport};
+use crate::rules::room::Room;
 use crate::rules::transient::{self, Depressuring, Exchange, HeatTransfer};
 use crate::rules::vent::{self, Process, VentInput};
 use crate::units::Value;
@@ -23,11 +24,12 @@ pub struct WallVent {
 }
 
 /// The vent report of `input` with its findings, verdict, banners and basis; with the
-/// wall-model run when `wall` is given.
+/// wall-model run when `wall` is given, and the atmosphere of the `room` vented into.
 pub fn vent(
     model: &dyn GasModel,
     input: &VentInput,
     wall: Option<&WallVent>,
+    room: Option<&Room>,
     governing: Governing,
 ) -> Result<VentReport, InputError> {
     let out = vent::blow_down(model, input)?;
@@ -69,7 +71,19 @@ pub fn vent(
             )],
         ));
     }
-    found.extend(gas::released(model));
+    // The room, where given, decides the gas's own hazards; without one they are named.
+    if let Some(room) = room {
+        let r = room::release(model, &report, room);
+        found.extend(room::findings(model, &r));
+        basis.push(room::basis(model));
+        cautions.extend(room::pooling(model));
+        report.release = Some(r);
+    }
+    if let Some(g) = gas::released(model) {
+        if !found.iter().any(|f| f.hazard == g.hazard) {
+            found.push(g);
+        }
+    }
     (report.verdict, report.cautions, report.basis) =
         super::conclude(found, cautions, basis, governing);
     Ok(report)

@@ -6,6 +6,7 @@ use uom::si::f64::{
     AvailableEnergy, Energy, Length, Mass, Pressure, ThermodynamicTemperature, Time, Volume,
 };
 use uom::si::pressure::pascal;
+use uom::si::volume::cubic_meter;
 
 use super::Failure;
 use crate::assess::{self, EnergyAsk, Governing, PlannedFill, WallVent, Work};
@@ -16,6 +17,7 @@ use crate::record;
 use crate::report::{render_text, to_json, Worksheet};
 use crate::rules::energy::{self, EnergyInput};
 use crate::rules::fill::FillInput;
+use crate::rules::room::{Room, Ventilation};
 use crate::rules::transient::{self, FillRate, HeatTransfer, Wall};
 use crate::rules::vent::{self, Process, VentInput};
 use crate::site::{Construction, Liner, Material};
@@ -215,6 +217,13 @@ pub(super) struct VentArgs {
     /// The depressuring check's cap on the gauge pressure to reach.
     #[arg(long, value_name = "Q", default_value = "690 kPa", value_parser = units::parse_overpressure)]
     depressuring_cap: Pressure,
+    /// Free volume of the room the gas is vented into (without it: vented outdoors, no
+    /// room calculation).
+    #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_volume)]
+    room_volume: Option<Volume>,
+    /// The room's fresh air: air changes per hour ('2 /h'; '0 /h' a closed room) or a flow ('120 m3/h', '300 cfm') [default: 0 /h].
+    #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_ventilation, requires = "room_volume")]
+    ventilation: Option<Ventilation>,
     /// The depressuring check's time limit.
     #[arg(long, value_name = "Q", default_value = "15 min", value_parser = units::parse_time)]
     depressuring_limit: Time,
@@ -633,10 +642,23 @@ pub(super) fn vent_command(a: VentArgs) -> Result<String, Failure> {
     } else {
         None
     };
+    let room = a
+        .room_volume
+        .map(|v| {
+            check_range("room-volume", v.get::<cubic_meter>(), "m3", 0.1, 1.0e6)?;
+            Ok::<_, InputError>(Room {
+                volume: v,
+                ventilation: a.ventilation.unwrap_or(Ventilation::AirChanges(0.0)),
+                temperature: input.temperature,
+                pressure: pa,
+            })
+        })
+        .transpose()?;
     let mut report = assess::vent(
         model.as_ref(),
         &input,
         wall.as_ref().map(|(w, _)| w),
+        room.as_ref(),
         Governing::Model,
     )?;
     report.inputs.design_pressure_pa = given.filter(|_| wall.is_some());

@@ -5,6 +5,7 @@
 mod document;
 mod json;
 mod pdf;
+mod release;
 mod text;
 
 pub use crate::units::Value;
@@ -26,6 +27,7 @@ use crate::heat::InnerBasis;
 use crate::rules::blast::DistanceBasis;
 use crate::rules::energy::{Energies, EnergyInput, EnergyResult};
 use crate::rules::fill::{FillInput, FillResult, FillSample};
+use crate::rules::room::RoomRelease;
 use crate::rules::transient::{
     Depressuring, Exchange, FillRate, FillTransient, HeatTransfer, MaxRate, Sample, VentTransient,
     Wall,
@@ -452,6 +454,10 @@ pub struct VentReport {
     pub required_orifice_m: Option<Length>,
     /// Pressure and gas temperature against time through the given orifice.
     pub history: Vec<VentSample>,
+    /// The room the gas is vented into and what its atmosphere does (null: vented
+    /// outdoors, no room calculation).
+    pub release: Option<RoomRelease>,
+
     /// The vent with heat from the wall, when asked for.
     pub transient: Option<VentTransientReport>,
     /// The depressuring check, when asked for.
@@ -646,6 +652,7 @@ impl VentReport {
             history: r.history,
             transient: None,
             depressuring: None,
+            release: None,
             ideal_gas_comparison: None,
             verdict: Verdict::default(),
             cautions: ordered(out.cautions),
@@ -1203,6 +1210,10 @@ impl From<&VentReport> for Worksheet {
         let mut results = r.result_entries();
         if let Some(t) = &r.transient {
             results.extend(t.result_entries(r.depressuring.as_ref()));
+        }
+        if let Some(room) = &r.release {
+            inputs.extend(release::inputs(room));
+            results.extend(release::results(room));
         }
         Worksheet {
             title: format!("Vent-down — {}, {} gas model", r.gas, r.model.name()),

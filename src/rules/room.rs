@@ -114,6 +114,8 @@ pub struct RoomRelease {
     /// The room's free volume, m³.
     #[serde(rename = "room_volume_m3")]
     pub room_volume: Volume,
+    /// Fresh air as given: `{"air-changes": n}` per hour or `{"flow": q}` in m³/s.
+    pub ventilation: Ventilation,
     /// Fresh air, air changes per hour.
     pub air_changes_per_h: f64,
     /// The gas vented into the room.
@@ -176,6 +178,7 @@ pub fn release(gas: &Gas, room: &Room, released: &[(f64, f64)]) -> RoomRelease {
     };
     RoomRelease {
         room_volume: room.volume,
+        ventilation: room.ventilation,
         air_changes_per_h: room.air_changes(),
         released_mass: Mass::new::<kilogram>(released.last().map_or(0.0, |r| r.1)),
         peak_gas_fraction: peak,
@@ -386,7 +389,6 @@ mod tests {
     use super::*;
     use approx::assert_relative_eq;
 
-
     fn room(volume_m3: f64, air_changes: f64) -> Room {
         Room {
             volume: Volume::new::<cubic_meter>(volume_m3),
@@ -477,7 +479,11 @@ mod tests {
     fn air_changes_nothing_and_oxygen_enriches() {
         let air = Gas::find("air").unwrap();
         let r = release(air, &room(20.0, 0.0), &even(20.0, 60.0, 5));
-        assert_relative_eq!(r.min_oxygen_fraction.unwrap(), AIR_OXYGEN, max_relative = 1e-12);
+        assert_relative_eq!(
+            r.min_oxygen_fraction.unwrap(),
+            AIR_OXYGEN,
+            max_relative = 1e-12
+        );
         assert!(r.within_limits);
         assert_eq!(r.recovery_time, Some(Time::new::<second>(0.0)));
         let o2 = Gas::find("oxygen").unwrap();

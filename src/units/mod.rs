@@ -12,7 +12,7 @@ pub use format::{fmt_sig, percent, Display, UnitSystem, Value};
 pub use parse::{
     parse_energy, parse_heat_coefficient, parse_length, parse_mass, parse_overpressure,
     parse_pressure, parse_pressure_rate, parse_rate, parse_specific_energy, parse_temperature,
-    parse_time, parse_volume, PressureRate, PressureReading, RateReading,
+    parse_time, parse_ventilation, parse_volume, PressureRate, PressureReading, RateReading,
 };
 
 /// Pascals in one pound-force per square inch (exact, NIST SP 811).

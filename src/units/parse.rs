@@ -3,6 +3,7 @@
 //! Every parser returns `Err(String)` with the problem and what is accepted; callers attach
 //! the field name (see [`crate::InputError`]).
 
+use crate::rules::room::Ventilation;
 use uom::si::f64::{
     AvailableEnergy, Energy, Length, Mass, MassRate, Pressure, ThermodynamicTemperature, Time,
     Volume,
@@ -294,6 +295,29 @@ pub fn parse_heat_coefficient(text: &str) -> Result<f64, String> {
         "a heat-transfer coefficient",
         "accepted: W/m2K or BTU/(h ft2 F), e.g. '500 W/m2K'",
     )
+}
+
+/// Parses a room's ventilation: air changes per hour (`2 /h`, `2 ACH`, `0 /h` for a
+/// closed room) or a fresh-air flow (`120 m3/h`, `2 m3/min`, `50 L/s`, `300 cfm`).
+pub fn parse_ventilation(text: &str) -> Result<Ventilation, String> {
+    const CHANGES: &[(&[&str], f64)] = &[(&["/h", "/hr", "ach", "1/h", "perhour"], 1.0)];
+    const FLOWS: &[(&[&str], f64)] = &[
+        (&["m3/s"], 1.0),
+        (&["m3/min"], 1.0 / 60.0),
+        (&["m3/h", "m3/hr"], 1.0 / 3600.0),
+        (&["l/s"], 1.0e-3),
+        (&["l/min"], 1.0e-3 / 60.0),
+        (&["cfm", "ft3/min"], 0.028_316_846_592 / 60.0),
+    ];
+    const ACCEPTED: &str = "accepted: air changes per hour such as '2 /h' or '2 ACH' ('0 /h' for a closed room), or a fresh-air flow such as '120 m3/h', '50 L/s' or '300 cfm'";
+    let reading = lookup(text, CHANGES, "a ventilation rate", ACCEPTED)
+        .map(Ventilation::AirChanges)
+        .or_else(|_| lookup(text, FLOWS, "a ventilation rate", ACCEPTED).map(Ventilation::Flow))?;
+    let (Ventilation::AirChanges(x) | Ventilation::Flow(x)) = reading;
+    if x < 0.0 {
+        return Err(format!("'{}' is negative; {ACCEPTED}", text.trim()));
+    }
+    Ok(reading)
 }
 
 /// Parses a duration: `90 s`, `15 min`, `2 h`.
