@@ -78,20 +78,33 @@ pub fn vent(
         effective_area_m2,
         ambient,
     };
-    let run = vent_run(&setup, &outlet, down_to)?.ok_or_else(|| {
+    let not_reached = || {
         InputError::new(
             "down-to",
             "(given)",
             "the vent does not reach the target in a reasonable time; accepted: a target above ambient",
         )
-    })?;
-    let depressuring_time = match check.map(|c| c.target) {
-        Some(p) if p < start.pressure => vent_run(&setup, &outlet, p)
-            .ok()
-            .flatten()
-            .map(|r| r.duration()),
-        Some(_) => Some(Time::new::<second>(0.0)),
-        None => None,
+    };
+    // The depressuring check's pressure on the way down is a stop on the same run; one
+    // below the target needs a run of its own.
+    let (run, depressuring_time) = match check.map(|c| c.target) {
+        Some(p) if p < start.pressure && p > down_to => {
+            let (run, reached) =
+                vent_run(&setup, &outlet, &[p, down_to])?.ok_or_else(not_reached)?;
+            (run, reached.first().copied())
+        }
+        other => {
+            let (run, _) = vent_run(&setup, &outlet, &[down_to])?.ok_or_else(not_reached)?;
+            let time = match other {
+                Some(p) if p < start.pressure => vent_run(&setup, &outlet, &[p])
+                    .ok()
+                    .flatten()
+                    .and_then(|(_, reached)| reached.first().copied()),
+                Some(_) => Some(Time::new::<second>(0.0)),
+                None => None,
+            };
+            (run, time)
+        }
     };
     let (mut min_gas_lower, mut min_wall_lower) = (run.min_gas(), run.min_wall());
     if run.basis == InnerBasis::NaturalConvection {
@@ -99,7 +112,7 @@ pub fn vent(
             1.0 - heat::CORRELATION_SCATTER,
             1.0 + heat::CORRELATION_SCATTER,
         ] {
-            let other = vent_run(&setup.scaled(edge), &outlet, down_to)?
+            let (other, _) = vent_run(&setup.scaled(edge), &outlet, &[down_to])?
                 .ok_or_else(|| model_failure("a conservative-edge run did not reach the target"))?;
             min_gas_lower = min_gas_lower.min(other.min_gas());
             min_wall_lower = min_wall_lower.min(other.min_wall());
@@ -119,9 +132,15 @@ pub fn vent(
     })
 }
 
-/// One vent run from the outlet's start to `p_end` (Pa absolute); `None` when the vent
-/// does not get there within fifty of its time constants.
-fn vent_run(setup: &Setup, outlet: &Outlet, p_end: Pressure) -> Result<Option<Run>, InputError> {
+/// One vent run from the outlet's start through each of `stops` (absolute pressures, the
+/// highest first) to the last: the run and the time each stop was reached; `None` when the
+/// vent does not get there within fifty of its time constants. Each leg starts where the
+/// last ended, at the located crossing, so the legs are one integration.
+fn vent_run(
+    setup: &Setup,
+    outlet: &Outlet,
+    stops: &[Pressure],
+) -> Result<Option<(Run, Vec<Time>)>, InputError> {
     let (model, start, area) = (setup.model, outlet.start, outlet.effective_area_m2);
     let m0 = start.density.get::<kilogram_per_cubic_meter>() * setup.volume;
     let u0 = model.internal_energy(start).get::<joule_per_kilogram>() * m0;
@@ -132,9 +151,10 @@ fn vent_run(setup: &Setup, outlet: &Outlet, p_end: Pressure) -> Result<Option<Ru
         .mass_flux
         .get::<kilogram_per_square_meter_second>();
     let tau = m0 / (flux0 * area).max(1e-30);
+    let last = stops.last().copied().unwrap_or(outlet.ambient);
     // The gas's mass at the end, where its lowest temperature is: at least the isothermal
     // vent's.
-    let m_end = m0 * (p_end / start.pressure).value.clamp(0.0, 1.0);
+    let m_end = m0 * (last / start.pressure).value.clamp(0.0, 1.0);
     let nodes = setup.nodes(tau.max(1e-3), m_end);
     let flows = |y: &[f64]| -> Option<(Vec<f64>, Faces)> {
         let st = setup.gas(y[0], y[1])?;
@@ -148,25 +168,41 @@ fn vent_run(setup: &Setup, outlet: &Outlet, p_end: Pressure) -> Result<Option<Ru
         Some(setup.derivatives(-flow, h, &wall))
     };
     let (y0, scale) = setup.start(&nodes, m0, u0, wall_t0);
-    let p_end = p_end.get::<pascal>();
-    let run = ode::integrate(
-        |_: f64, y: &[f64]| flows(y).map(|(d, _)| d),
-        (0.0, &y0),
-        50.0 * tau.max(1e-3),
-        |_: f64, y: &[f64]| {
-            setup
-                .gas(y[0], y[1])
-                .map_or(-1.0, |s| s.pressure.get::<pascal>() - p_end)
-        },
-        &scale,
-        &options(tau.max(1e-3), setup.rtol),
-    )
-    .map_err(integration_failure)?;
-    if !run.stopped_at_event {
-        return Ok(None);
+    let horizon = 50.0 * tau.max(1e-3);
+    let opts = options(tau.max(1e-3), setup.rtol);
+    let mut whole = ode::Trajectory {
+        t: vec![0.0],
+        y: vec![y0],
+        stopped_at_event: true,
+    };
+    let mut reached = Vec::new();
+    for stop in stops {
+        let p_stop = stop.get::<pascal>();
+        let (t0, y_from) = (
+            whole.t[whole.t.len() - 1],
+            whole.y[whole.y.len() - 1].clone(),
+        );
+        let leg = ode::integrate(
+            |_: f64, y: &[f64]| flows(y).map(|(d, _)| d),
+            (t0, &y_from),
+            horizon,
+            |_: f64, y: &[f64]| {
+                setup
+                    .gas(y[0], y[1])
+                    .map_or(-1.0, |s| s.pressure.get::<pascal>() - p_stop)
+            },
+            &scale,
+            &opts,
+        )
+        .map_err(integration_failure)?;
+        if !leg.stopped_at_event {
+            return Ok(None);
+        }
+        reached.push(Time::new::<second>(leg.t[leg.t.len() - 1]));
+        whole.t.extend(&leg.t[1..]);
+        whole.y.extend(leg.y.into_iter().skip(1));
     }
     let basis = setup.inner_basis(None);
-    setup
-        .finish(&nodes, run, basis, |y| flows(y).map(|(_, face)| face))
-        .map(Some)
+    let run = setup.finish(&nodes, whole, basis, |y| flows(y).map(|(_, face)| face))?;
+    Ok(Some((run, reached)))
 }
