@@ -519,6 +519,7 @@ fn vessel_parts(
             },
         },
         before_opening: t.calculations.contains(&Calculation::VentTarget),
+        vessel_mass: None,
     };
     let report = assess::energy(model, &energy_input, &ask)?;
     out.assessed(&report.verdict, &report.cautions, &report.basis);

@@ -1,7 +1,7 @@
 //! The stored-energy assessment: the rule, its ideal-gas twin, and the findings on the
 //! pressure rating, the keep-back distance and the energy left before opening.
 
-use uom::si::f64::{Length, Pressure};
+use uom::si::f64::{Length, Mass, Pressure};
 use uom::si::{length::meter, pressure::pascal};
 
 use super::finding::{Finding, Hazard};
@@ -11,6 +11,7 @@ use crate::gas::{ideal_twin, GasModel};
 use crate::report::EnergyReport;
 use crate::rules::blast::DistanceBasis;
 use crate::rules::energy::{self, EnergyInput, EnergyResult};
+use crate::rules::fragments::{self, Fragments};
 use crate::units::{fmt_sig, Value};
 use crate::InputError;
 
@@ -43,6 +44,8 @@ pub struct EnergyAsk {
     pub work: Work,
     /// Whether the vessel is to be opened: then the energy left before opening is a finding.
     pub before_opening: bool,
+    /// The empty vessel's mass: with it, how far the pieces fly if it bursts is a finding.
+    pub vessel_mass: Option<Mass>,
 }
 
 /// The stored-energy report of `input` with its findings, verdict, banners and basis.
@@ -58,8 +61,19 @@ pub fn energy(
         }
     }
     let out = energy::stored_energy(model, &input)?;
-    let found = findings(model, &input, &out.value, ask);
+    let mut found = findings(model, &input, &out.value, ask);
     let mut report = EnergyReport::new(model, &input, out);
+    if let Some(m) = ask.vessel_mass {
+        let f = fragments::fragments(
+            report.energy_j.isentropic,
+            m,
+            report.gas_mass_kg,
+            input.volume,
+        );
+        found.push(fragment_finding(&f, input.clearance));
+        report.fragments = Some(f);
+        report.inputs.empty_mass_kg = Some(m);
+    }
     if let Some(ideal) = ideal_twin(model) {
         if let Ok(out) = energy::stored_energy(&ideal, &input) {
             report.compare_with(&EnergyReport::new(&ideal, &input, out));
@@ -74,6 +88,51 @@ pub fn energy(
         super::Governing::Model,
     );
     Ok(report)
+}
+
+/// How far the pieces fly against the clearance the site can keep: no distance makes a
+/// burst safe from fragments, so beyond the clearance the action is to barricade.
+fn fragment_finding(f: &Fragments, clearance: Option<Length>) -> Finding {
+    let result = vec![
+        Part::from("If the vessel bursts, an end cap can fly "),
+        Part::from(Value::Distance(f.drag_range)),
+        Part::from(" (with air drag; up to "),
+        Part::from(Value::Distance(f.max_range)),
+        Part::from(" without, at "),
+        Part::from(Value::Text(format!(
+            "{} m/s",
+            crate::units::fmt_sig(f.velocity.get::<uom::si::velocity::meter_per_second>(), 3)
+        ))),
+        Part::from(" by Moore's equation)."),
+    ];
+    let basis = "Moore's equation, range with drag";
+    let barricade = || {
+        vec![Part::from(
+            "Keep people out of line with the vessel's ends and behind a barricade or a solid structure while it is under pressure; fragment ranges scatter widely, and no distance makes a burst safe.",
+        )]
+    };
+    let finding = match clearance {
+        Some(c) if f.drag_range <= c => {
+            let mut r = result;
+            r.extend([
+                Part::from(" Within the site's clearance of "),
+                Part::from(Value::Distance(c)),
+                Part::from("."),
+            ]);
+            Finding::ok(Hazard::Fragments, basis, r)
+        }
+        _ => Finding::action(
+            Hazard::Fragments,
+            Level::Warning,
+            basis,
+            result,
+            barricade(),
+        ),
+    };
+    finding.against(
+        Value::Distance(f.drag_range),
+        clearance.map(Value::Distance),
+    )
 }
 
 fn zone_note(work: Work) -> Note {

@@ -36,11 +36,13 @@ pub enum Hazard {
     Flammable,
     /// The released gas is toxic (and displaces oxygen).
     Toxic,
+    /// Pieces thrown if the vessel bursts.
+    Fragments,
 }
 
 impl Hazard {
     /// Every hazard, in the order of the enum.
-    pub const ALL: [Hazard; 13] = [
+    pub const ALL: [Hazard; 14] = [
         Hazard::PressureRating,
         Hazard::BlastZone,
         Hazard::StoredEnergy,
@@ -54,6 +56,7 @@ impl Hazard {
         Hazard::OxygenEnrichment,
         Hazard::Flammable,
         Hazard::Toxic,
+        Hazard::Fragments,
     ];
 
     /// The fixed id, as in JSON.
@@ -72,6 +75,7 @@ impl Hazard {
             Hazard::OxygenEnrichment => "oxygen-enrichment",
             Hazard::Flammable => "flammable",
             Hazard::Toxic => "toxic",
+            Hazard::Fragments => "fragments",
         }
     }
 
@@ -91,6 +95,7 @@ impl Hazard {
             Hazard::OxygenEnrichment => "Oxygen enrichment",
             Hazard::Flammable => "Flammable gas",
             Hazard::Toxic => "Toxic gas",
+            Hazard::Fragments => "Fragments",
         }
     }
 }

@@ -243,6 +243,7 @@ fn above_the_mawp_is_a_danger_and_no_go() {
     let ask = EnergyAsk {
         work: Work::in_service(),
         before_opening: false,
+        vessel_mass: None,
     };
     let r = energy(&air(), &receiver_energy(8.0, None), &ask).unwrap();
     let f = r.verdict.finding(Hazard::PressureRating).unwrap();
@@ -268,6 +269,7 @@ fn in_service_work_keeps_people_to_the_standoff_a_test_to_the_test_rule() {
         &EnergyAsk {
             work: Work::in_service(),
             before_opening: false,
+            vessel_mass: None,
         },
     )
     .unwrap();
@@ -280,6 +282,7 @@ fn in_service_work_keeps_people_to_the_standoff_a_test_to_the_test_rule() {
         &EnergyAsk {
             work: Work::PressureTest,
             before_opening: false,
+            vessel_mass: None,
         },
     )
     .unwrap();
@@ -301,6 +304,7 @@ fn one_banner_per_hazard_across_a_worksheets_calculations() {
     let ask = EnergyAsk {
         work: Work::in_service(),
         before_opening: true,
+        vessel_mass: None,
     };
     let a = energy(&model, &e, &ask).unwrap();
     let mut v = receiver_vent();

@@ -75,6 +75,9 @@ pub(super) struct EnergyArgs {
     /// The distance the site can keep clear of people around the vessel.
     #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_length)]
     clearance: Option<Length>,
+    /// The empty vessel's mass, for how far the pieces fly if it bursts (Moore's equation).
+    #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_mass)]
+    empty_mass: Option<Mass>,
     /// What the work is: in service (people kept back to the 6.9 kPa standoff) or a pneumatic pressure test (the test rule's exclusion distance).
     #[arg(long, value_enum, default_value = "in-service")]
     work: WorkKind,
@@ -337,6 +340,7 @@ pub(super) fn energy_command(a: EnergyArgs) -> Result<String, Failure> {
             WorkKind::PressureTest => Work::PressureTest,
         },
         before_opening: matches!(a.work, WorkKind::InService),
+        vessel_mass: a.empty_mass,
     };
     let report = assess::energy(model.as_ref(), &input, &ask)?;
     render(&report, a.common.json, a.common.units)

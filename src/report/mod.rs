@@ -3,6 +3,7 @@
 //! text (and, later, PDF) renderers lay out. Nothing here computes physics.
 
 mod document;
+mod fragments;
 mod json;
 mod pdf;
 mod release;
@@ -27,6 +28,7 @@ use crate::heat::InnerBasis;
 use crate::rules::blast::DistanceBasis;
 use crate::rules::energy::{Energies, EnergyInput, EnergyResult};
 use crate::rules::fill::{FillInput, FillResult, FillSample};
+use crate::rules::fragments::Fragments;
 use crate::rules::room::RoomRelease;
 use crate::rules::transient::{
     Depressuring, Exchange, FillRate, FillTransient, HeatTransfer, MaxRate, Sample, VentTransient,
@@ -68,6 +70,9 @@ pub struct EnergyReport {
     pub hydrotest_energy_j: Energy,
     /// Pressure to vent to before the energy is at or below `--energy-limit`, Pa(a).
     pub vent_down_target_pa: Option<Pressure>,
+    /// If the vessel bursts: the fragments' velocity and range (null without the empty
+    /// vessel's mass).
+    pub fragments: Option<Fragments>,
     /// The ideal gas's results for the same inputs, when the real-gas model was used.
     pub ideal_gas_comparison: Option<EnergyComparison>,
     /// The decision and the findings behind it.
@@ -98,6 +103,8 @@ pub struct EnergyInputs {
     pub mawp_pa: Option<Pressure>,
     /// Distance the site can keep clear, m.
     pub clearance_m: Option<Length>,
+    /// The empty vessel's mass, for the fragments, kg.
+    pub empty_mass_kg: Option<Mass>,
 }
 
 /// One overpressure standoff.
@@ -127,6 +134,7 @@ impl EnergyReport {
                 energy_limit_j: input.energy_limit,
                 mawp_pa: input.mawp,
                 clearance_m: input.clearance,
+                empty_mass_kg: None,
             },
             gas_mass_kg: r.gas_mass,
             energy_j: r.energy,
@@ -144,6 +152,7 @@ impl EnergyReport {
                 .collect(),
             hydrotest_energy_j: r.hydrotest_energy,
             vent_down_target_pa: r.vent_down_target,
+            fragments: None,
             ideal_gas_comparison: None,
             verdict: Verdict::default(),
             cautions: ordered(out.cautions),
@@ -1043,9 +1052,17 @@ impl From<&EnergyReport> for Worksheet {
             i.clearance_m
                 .map(|d| entry("Site clearance", Value::Distance(d))),
         );
+        inputs.extend(
+            i.empty_mass_kg
+                .map(|m| entry("Empty vessel mass", Value::Mass(m))),
+        );
         let results = [
             r.stored_entries(),
             r.distance_entries(),
+            r.fragments
+                .as_ref()
+                .map(fragments::entries)
+                .unwrap_or_default(),
             r.liquid_test_entries(),
             r.target_entries(),
         ]

@@ -6,6 +6,7 @@
 pub mod blast;
 pub mod energy;
 pub mod fill;
+pub mod fragments;
 pub mod room;
 pub mod transient;
 pub mod vent;

@@ -1,5 +1,6 @@
-//! Venting into a room, through the command line: the room's atmosphere (`release`) and the
-//! findings it decides.
+//! Where the gas and the pieces go, through the command line: venting into a room (its
+//! atmosphere, `release`) and a burst's fragments (`fragments`), and the findings they
+//! decide.
 
 use assert_cmd::Command;
 use serde_json::Value;
@@ -149,4 +150,52 @@ fn room_refusals_name_the_option() {
             .code(2)
             .stderr(predicates::str::contains(option));
     }
+}
+
+fn energy(args: &[&str]) -> Value {
+    let out = Command::cargo_bin("pvhazard")
+        .unwrap()
+        .args([
+            "energy",
+            "--gas",
+            "air",
+            "--volume",
+            "2 m3",
+            "--pressure",
+            "10 barg",
+        ])
+        .args(args)
+        .arg("--json")
+        .assert()
+        .success()
+        .get_output()
+        .stdout
+        .clone();
+    serde_json::from_slice(&out).unwrap()
+}
+
+#[test]
+fn fragments_follow_moores_equation_and_are_judged_against_the_clearance() {
+    let v = energy(&["--empty-mass", "540 kg", "--clearance", "40 m"]);
+    let f = &v["fragments"];
+    let e = v["energy_j"]["isentropic"].as_f64().unwrap();
+    let c = v["gas_mass_kg"].as_f64().unwrap();
+    let expected = 1.092 * (e / (1.0 + c / (2.0 * 540.0)) / 540.0).sqrt();
+    let speed = f["velocity_m_per_s"].as_f64().unwrap();
+    assert!((speed / expected - 1.0).abs() < 1e-9, "{speed} {expected}");
+    let (free, drag) = (
+        f["max_range_m"].as_f64().unwrap(),
+        f["drag_range_m"].as_f64().unwrap(),
+    );
+    assert!((free / (speed * speed / 9.806_65) - 1.0).abs() < 1e-9);
+    assert!(drag < free && drag > 40.0, "{drag} {free}");
+    assert_eq!(v["inputs"]["empty_mass_kg"], 540.0);
+    let found = finding(&v, "fragments");
+    assert_eq!(found["status"], "action");
+    assert_eq!(found["level"], "WARNING");
+    // Within a clearance past the range: ok. Without the mass: nothing computed.
+    let far = energy(&["--empty-mass", "540 kg", "--clearance", "1000 m"]);
+    assert_eq!(finding(&far, "fragments")["status"], "ok");
+    let none = energy(&[]);
+    assert!(none["fragments"].is_null());
 }
