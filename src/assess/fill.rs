@@ -5,7 +5,7 @@
 use uom::si::f64::{Length, Pressure};
 
 use super::finding::{Finding, Hazard};
-use super::{edge_and_central, gas, Governing};
+use super::{edge_and_central, gas, margin, Governing};
 use crate::caution::{Level, Part};
 use crate::gas::{ideal_twin, GasModel};
 use crate::report::{FillReport, FillTransientReport};
@@ -122,8 +122,10 @@ fn temperature(
             vec![
                 Part::from(relation),
                 Part::from(Value::Temperature(rated)),
-                Part::from(")."),
+                Part::from(")"),
             ],
+            margin(peak, rated),
+            vec![Part::from(".")],
         ]
         .concat()
     };

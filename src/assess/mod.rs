@@ -90,3 +90,21 @@ fn edge_and_central(
         Part::from(")"),
     ]
 }
+
+/// Where a temperature and its limit differ by less than a kelvin, the findings' whole
+/// degrees would read alike ("85 °C, above the rated 85 °C"): the margin in words, empty
+/// otherwise.
+fn margin(
+    value: uom::si::f64::ThermodynamicTemperature,
+    limit: uom::si::f64::ThermodynamicTemperature,
+) -> Vec<crate::caution::Part> {
+    use uom::si::thermodynamic_temperature::kelvin;
+    let d = (value.get::<kelvin>() - limit.get::<kelvin>()).abs();
+    if d == 0.0 || d >= 1.0 {
+        return Vec::new();
+    }
+    vec![crate::caution::Part::from(format!(
+        ", by {d:.1} K ({:.1} °F)",
+        d * 1.8
+    ))]
+}

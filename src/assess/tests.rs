@@ -343,3 +343,15 @@ fn a_wall_run_without_heat_exchange_is_the_bound_not_the_model() {
         (Status::Stop, "isentropic bound")
     );
 }
+
+#[test]
+fn a_close_call_states_its_margin_so_whole_degrees_do_not_contradict() {
+    use uom::si::f64::ThermodynamicTemperature;
+    use uom::si::thermodynamic_temperature::kelvin;
+    let k = ThermodynamicTemperature::new::<kelvin>;
+    let words = super::margin(k(358.45), k(358.15));
+    let text = crate::caution::render_parts(&words, &crate::caution::si_display());
+    assert_eq!(text, ", by 0.3 K (0.5 °F)");
+    assert!(super::margin(k(360.0), k(358.15)).is_empty());
+    assert!(super::margin(k(358.15), k(358.15)).is_empty());
+}

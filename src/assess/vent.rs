@@ -4,7 +4,7 @@
 //! jet.
 
 use super::finding::{Finding, Hazard};
-use super::{edge_and_central, gas, room, Governing};
+use super::{edge_and_central, gas, margin, room, Governing};
 use crate::caution::{Level, Part};
 use crate::gas::{ideal_twin, GasModel};
 use crate::report::{DepressuringReport, VentReport, VentTransientReport};
@@ -147,8 +147,10 @@ fn cold_metal(r: &VentReport, input: &VentInput, governing: Governing) -> Findin
                         wall_words,
                         vec![Part::from(", below the MDMT ("),
                         Part::from(Value::Temperature(mdmt)),
-                        Part::from("): brittle fracture is possible while the vessel is still under pressure."),
-                    ]]
+                        Part::from(")")],
+                        margin(wall, mdmt),
+                        vec![Part::from(": brittle fracture is possible while the vessel is still under pressure.")],
+                    ]
                     .concat(),
                     vec![Part::from("Vent more slowly or in stages, and have an authorised inspector confirm the low-temperature rating.")],
                 )
