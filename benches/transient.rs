@@ -5,10 +5,10 @@
 use criterion::{criterion_group, criterion_main, Criterion};
 use pvhazard::gas::{Gas, GasModel, IdealGas, RealGas};
 use pvhazard::heat;
+use pvhazard::heat::{Construction, Liner, Material};
 use pvhazard::rules::transient::{
     self, CylinderMass, Exchange, FillCase, FillRate, HeatTransfer, Wall,
 };
-use pvhazard::site::{Construction, Liner, Material};
 use pvhazard::units::PressureRate;
 use uom::si::f64::{Mass, Pressure, ThermodynamicTemperature, Volume};
 use uom::si::{

@@ -1,9 +1,59 @@
 //! Heat transfer between a vessel's gas, its wall and the surroundings: wall materials, wall
 //! estimates, geometry and the convection correlations the transient models use.
 
-use serde::Serialize;
+use serde::{Deserialize, Serialize};
 
-use crate::site::{Construction, Liner, Material};
+/// Wall materials, with the names used everywhere (site files, command line).
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Deserialize, Serialize, clap::ValueEnum)]
+#[serde(rename_all = "kebab-case")]
+pub enum Material {
+    /// Carbon steel.
+    CarbonSteel,
+    /// Austenitic stainless steel.
+    StainlessSteel,
+    /// Aluminium alloy.
+    #[value(alias = "aluminum")]
+    Aluminium,
+    /// Fibre-reinforced composite.
+    Composite,
+    /// A composite cylinder's plastic liner; not offered as a vessel's shell.
+    #[value(skip)]
+    Plastic,
+}
+
+/// A composite cylinder's liner.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Deserialize, Serialize, clap::ValueEnum)]
+#[serde(rename_all = "kebab-case")]
+pub enum Liner {
+    /// Aluminium alloy: a metal-lined composite cylinder.
+    #[value(alias = "aluminum")]
+    Aluminium,
+    /// Plastic (polyethylene or polyamide): a plastic-lined composite cylinder.
+    Plastic,
+}
+
+impl Liner {
+    /// The liner's wall material.
+    pub fn material(self) -> Material {
+        match self {
+            Liner::Aluminium => Material::Aluminium,
+            Liner::Plastic => Material::Plastic,
+        }
+    }
+}
+
+/// Cylinder construction.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Deserialize, Serialize, clap::ValueEnum)]
+#[serde(rename_all = "kebab-case")]
+pub enum Construction {
+    /// Seamless steel (carbon steel).
+    Steel,
+    /// Seamless aluminium alloy.
+    #[value(alias = "aluminum")]
+    Aluminium,
+    /// Composite-wrapped, with a metal or plastic liner.
+    Composite,
+}
 
 /// Standard gravity, m/s².
 const G: f64 = 9.806_65;

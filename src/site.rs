@@ -3,6 +3,7 @@
 //! Quantities use the command line's unit strings (every pressure gauge or absolute); each
 //! is parsed where it stands, so a problem is reported with its file, line and key.
 
+pub use crate::heat::{Construction, Liner, Material};
 use std::collections::HashMap;
 use std::path::Path;
 
@@ -133,58 +134,6 @@ pub enum EquipmentKind {
     Vessel,
     /// Cylinders and fill stations.
     Cylinder,
-}
-
-/// Wall materials, with the names used everywhere (site files, command line).
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Deserialize, serde::Serialize, clap::ValueEnum)]
-#[serde(rename_all = "kebab-case")]
-pub enum Material {
-    /// Carbon steel.
-    CarbonSteel,
-    /// Austenitic stainless steel.
-    StainlessSteel,
-    /// Aluminium alloy.
-    #[value(alias = "aluminum")]
-    Aluminium,
-    /// Fibre-reinforced composite.
-    Composite,
-    /// A composite cylinder's plastic liner; not offered as a vessel's shell.
-    #[value(skip)]
-    Plastic,
-}
-
-/// A composite cylinder's liner.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Deserialize, serde::Serialize, clap::ValueEnum)]
-#[serde(rename_all = "kebab-case")]
-pub enum Liner {
-    /// Aluminium alloy: a metal-lined composite cylinder.
-    #[value(alias = "aluminum")]
-    Aluminium,
-    /// Plastic (polyethylene or polyamide): a plastic-lined composite cylinder.
-    Plastic,
-}
-
-impl Liner {
-    /// The liner's wall material.
-    pub fn material(self) -> Material {
-        match self {
-            Liner::Aluminium => Material::Aluminium,
-            Liner::Plastic => Material::Plastic,
-        }
-    }
-}
-
-/// Cylinder construction.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Deserialize, serde::Serialize, clap::ValueEnum)]
-#[serde(rename_all = "kebab-case")]
-pub enum Construction {
-    /// Seamless steel (carbon steel).
-    Steel,
-    /// Seamless aluminium alloy.
-    #[value(alias = "aluminum")]
-    Aluminium,
-    /// Composite-wrapped, with a metal or plastic liner.
-    Composite,
 }
 
 /// A vessel or receiver.

@@ -2,13 +2,13 @@
 
 use proptest::prelude::*;
 use pvhazard::gas::{Gas, GasModel, IdealGas, GASES};
+use pvhazard::heat::{Construction, Liner};
 use pvhazard::rules::energy::{stored_energy, EnergyInput, DEFAULT_TNT_ENERGY_J_PER_KG};
 use pvhazard::rules::fill::{adiabatic_fill, FillInput};
 use pvhazard::rules::transient::{
     self, CylinderMass, Exchange, FillCase, FillRate, HeatTransfer, Wall,
 };
 use pvhazard::rules::vent::{blow_down, Process, VentInput};
-use pvhazard::site::{Construction, Liner};
 use pvhazard::units::PressureRate;
 use uom::si::f64::{AvailableEnergy, Length, Mass, Pressure, ThermodynamicTemperature, Volume};
 use uom::si::{

@@ -10,11 +10,11 @@ use uom::si::{
 use super::*;
 use crate::caution::Level;
 use crate::gas::{Gas, RealGas};
+use crate::heat::{Construction, Liner, Material};
 use crate::rules::energy::{EnergyInput, DEFAULT_TNT_ENERGY_J_PER_KG};
 use crate::rules::fill::FillInput;
 use crate::rules::transient::{CylinderMass, Depressuring, Exchange, FillRate, HeatTransfer, Wall};
 use crate::rules::vent::{Process, VentInput};
-use crate::site::{Construction, Liner, Material};
 use crate::units::PressureRate;
 
 const AMBIENT_PA: f64 = 101_325.0;

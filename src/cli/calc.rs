@@ -13,6 +13,7 @@ use crate::assess::{self, EnergyAsk, Governing, PlannedFill, WallVent, Work};
 use crate::atmosphere;
 use crate::gas::{Gas, ModelKind};
 use crate::heat;
+use crate::heat::{Construction, Liner, Material};
 use crate::record;
 use crate::report::{render_text, to_json, Worksheet};
 use crate::rules::energy::{self, EnergyInput};
@@ -20,7 +21,6 @@ use crate::rules::fill::FillInput;
 use crate::rules::room::{Room, Ventilation};
 use crate::rules::transient::{self, FillRate, HeatTransfer, Wall};
 use crate::rules::vent::{self, Process, VentInput};
-use crate::site::{Construction, Liner, Material};
 use crate::units::{self, fmt_sig, PressureReading, UnitSystem};
 use crate::InputError;
 

@@ -6,7 +6,7 @@ use uom::si::f64::Pressure;
 use super::Entry;
 use crate::assess::Verdict;
 use crate::caution::{Caution, Note};
-use crate::units::UnitSystem;
+use crate::units::{AxisKind, UnitSystem};
 
 /// One worksheet for one piece of equipment, as a template arranges it.
 #[derive(Debug, Clone, PartialEq)]
@@ -59,17 +59,6 @@ pub struct Section {
     pub heading: String,
     /// The results, each with its method.
     pub entries: Vec<Entry>,
-}
-
-/// What an axis measures; the renderer picks the unit from the document's unit system.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
-pub enum AxisKind {
-    /// Time, SI seconds.
-    Time,
-    /// Pressure, SI pascals absolute (shown gauge).
-    Pressure,
-    /// Temperature, SI kelvin.
-    Temperature,
 }
 
 /// One axis of a plot.

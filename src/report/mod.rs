@@ -9,8 +9,9 @@ mod pdf;
 mod release;
 mod text;
 
+pub use crate::units::AxisKind;
 pub use crate::units::Value;
-pub use document::{Axis, AxisKind, Document, Plot, Section, Series};
+pub use document::{Axis, Document, Plot, Section, Series};
 pub use json::to_json;
 pub use pdf::{render_pdf, Paper, PdfError};
 pub use text::{render_text, value_text};

@@ -12,6 +12,17 @@ use uom::si::{
 
 use super::{J_PER_FT_LBF, KG_PER_LB, M3_PER_US_GAL, M_PER_FT, PA_PER_PSI};
 
+/// What an axis measures; the renderer picks the unit from the document's unit system.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum AxisKind {
+    /// Time, SI seconds.
+    Time,
+    /// Pressure, SI pascals absolute (shown gauge).
+    Pressure,
+    /// Temperature, SI kelvin.
+    Temperature,
+}
+
 /// A fraction as a percentage to three significant figures: `17.3 %`.
 pub fn percent(x: f64) -> String {
     format!("{} %", fmt_sig(x * 100.0, 3))
@@ -320,8 +331,7 @@ impl Display {
     }
 
     /// A plot axis's unit for `kind`, given the largest SI value on it.
-    pub fn axis_unit(&self, kind: crate::report::AxisKind, max_si: f64) -> &'static str {
-        use crate::report::AxisKind;
+    pub fn axis_unit(&self, kind: AxisKind, max_si: f64) -> &'static str {
         match (kind, self.system) {
             (AxisKind::Time, _) if max_si >= 600.0 => "min",
             (AxisKind::Time, _) => "s",
@@ -333,8 +343,7 @@ impl Display {
     }
 
     /// An SI plot value in the unit [`Display::axis_unit`] chose for it.
-    pub fn axis_value(&self, kind: crate::report::AxisKind, max_si: f64, si: f64) -> f64 {
-        use crate::report::AxisKind;
+    pub fn axis_value(&self, kind: AxisKind, max_si: f64, si: f64) -> f64 {
         match (kind, self.system) {
             (AxisKind::Time, _) if max_si >= 600.0 => si / 60.0,
             (AxisKind::Time, _) => si,

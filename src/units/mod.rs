@@ -8,7 +8,7 @@
 mod format;
 mod parse;
 
-pub use format::{fmt_sig, percent, Display, UnitSystem, Value};
+pub use format::{fmt_sig, percent, AxisKind, Display, UnitSystem, Value};
 pub use parse::{
     parse_energy, parse_heat_coefficient, parse_length, parse_mass, parse_overpressure,
     parse_pressure, parse_pressure_rate, parse_rate, parse_specific_energy, parse_temperature,

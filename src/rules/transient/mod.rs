@@ -24,7 +24,7 @@ use super::vent::VentInput;
 use crate::caution::{Assessed, Caution, Level, Note, Part};
 use crate::gas::{GasModel, State};
 use crate::heat::{self, Film, InnerBasis};
-use crate::site::{Construction, Liner, Material};
+use crate::heat::{Construction, Liner, Material};
 use crate::solve::ode::{self, Options};
 use crate::units::PressureRate;
 use crate::units::Value;
