@@ -411,6 +411,7 @@ impl From<InputError> for Failure {
 fn input(label: &str, value: Value) -> Entry {
     Entry {
         label: label.to_string(),
+        label_value: None,
         value,
         method: None,
     }
@@ -548,6 +549,7 @@ fn vessel_parts(
                 if liquid > 0.0 {
                     entries.push(Entry {
                         label: "Gas test stores more, by a factor of".to_string(),
+                        label_value: None,
                         value: Value::Number(gas / liquid),
                         method: Some("isentropic gas energy / liquid energy"),
                     });

@@ -12,7 +12,7 @@ use crate::report::EnergyReport;
 use crate::rules::blast::DistanceBasis;
 use crate::rules::energy::{self, EnergyInput, EnergyResult};
 use crate::rules::fragments::{self, Fragments};
-use crate::units::{fmt_sig, Value};
+use crate::units::Value;
 use crate::InputError;
 
 /// What the distance to keep people back is for.
@@ -215,10 +215,10 @@ fn zone(input: &EnergyInput, r: &EnergyResult, work: Work) -> Option<Finding> {
     }
     let test = (
         r.exclusion_distance,
-        "the pneumatic-test exclusion distance",
+        vec![Part::from(" (the pneumatic-test exclusion distance)")],
     );
     let (distance, what, basis) = match work {
-        Work::PressureTest => (test.0, test.1, "ASME PCC-2 safe distance".to_string()),
+        Work::PressureTest => (test.0, test.1, "ASME PCC-2 safe distance"),
         Work::InService { overpressure } => {
             match r
                 .standoffs
@@ -228,14 +228,15 @@ fn zone(input: &EnergyInput, r: &EnergyResult, work: Work) -> Option<Finding> {
             {
                 Some(d) => (
                     d,
-                    "the blast standoff",
-                    format!(
-                        "Kingery–Bulmash standoff to {} kPa",
-                        fmt_sig(overpressure.get::<pascal>() / 1e3, 3)
-                    ),
+                    vec![
+                        Part::from(" (the blast standoff at "),
+                        Part::from(Value::Overpressure(overpressure)),
+                        Part::from(")"),
+                    ],
+                    "Kingery–Bulmash blast standoff",
                 ),
                 // Outside the fits (a tiny or huge vessel) the test rule stands in.
-                None => (test.0, test.1, "ASME PCC-2 safe distance".to_string()),
+                None => (test.0, test.1, "ASME PCC-2 safe distance"),
             }
         }
     };
@@ -256,11 +257,11 @@ fn zone(input: &EnergyInput, r: &EnergyResult, work: Work) -> Option<Finding> {
         );
     }
     let keep = |lead: &str| {
-        vec![
-            Part::from(lead),
-            Part::from(Value::Distance(distance)),
-            Part::from(format!(" ({what})")),
+        [
+            vec![Part::from(lead), Part::from(Value::Distance(distance))],
+            what.clone(),
         ]
+        .concat()
     };
     let farthest = r
         .standoffs

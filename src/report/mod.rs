@@ -921,17 +921,31 @@ impl VentReport {
 /// One line of a worksheet: a label, a value and, for results, the method that gave it.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Entry {
-    /// What the value is.
+    /// What the value is; a `{}` in it stands for `label_value`.
     pub label: String,
+    /// A value inside the label, shown in the reader's units (the overpressure of a
+    /// standoff).
+    pub label_value: Option<Value>,
     /// The value.
     pub value: Value,
     /// Method and source, for results.
     pub method: Option<&'static str>,
 }
 
+impl Entry {
+    /// The label as a reader sees it, its value in `d`'s units.
+    pub fn label_text(&self, d: &crate::units::Display) -> String {
+        match &self.label_value {
+            Some(v) => self.label.replacen("{}", &text::value_text(v, d), 1),
+            None => self.label.clone(),
+        }
+    }
+}
+
 fn entry(label: impl Into<String>, value: Value) -> Entry {
     Entry {
         label: label.into(),
+        label_value: None,
         value,
         method: None,
     }
@@ -940,6 +954,7 @@ fn entry(label: impl Into<String>, value: Value) -> Entry {
 fn result(label: impl Into<String>, value: Value, method: &'static str) -> Entry {
     Entry {
         label: label.into(),
+        label_value: None,
         value,
         method: Some(method),
     }
@@ -988,20 +1003,17 @@ impl EnergyReport {
             "ASME PCC-2 pneumatic-test safe distance",
         )];
         for s in &self.standoff_m {
-            let pa = s.overpressure_pa.get::<uom::si::pressure::pascal>();
-            let label = format!(
-                "Standoff to {} kPa ({} psi) overpressure",
-                crate::units::fmt_sig(pa / 1e3, 3),
-                crate::units::fmt_sig(pa / crate::units::PA_PER_PSI, 2)
-            );
             let value = s
                 .distance_m
                 .map_or(Value::Text("outside the fits".to_string()), Value::Distance);
-            out.push(result(
-                label,
-                value,
-                "Kingery–Bulmash surface burst, Swisdak 1994 fits",
-            ));
+            out.push(Entry {
+                label_value: Some(Value::Overpressure(s.overpressure_pa)),
+                ..result(
+                    "Standoff to {} overpressure",
+                    value,
+                    "Kingery–Bulmash surface burst, Swisdak 1994 fits",
+                )
+            });
         }
         out
     }

@@ -78,16 +78,13 @@ fn verdict(out: &mut String, v: &Verdict, d: &Display) {
 
 fn section(out: &mut String, heading: &str, entries: &[Entry], d: &Display) {
     out.push_str(&format!("\n{heading}\n"));
-    let label_width = entries
-        .iter()
-        .map(|e| e.label.chars().count())
-        .max()
-        .unwrap_or(0);
-    for e in entries {
-        let pad = label_width - e.label.chars().count();
+    let labels: Vec<String> = entries.iter().map(|e| e.label_text(d)).collect();
+    let label_width = labels.iter().map(|l| l.chars().count()).max().unwrap_or(0);
+    for (e, label) in entries.iter().zip(&labels) {
+        let pad = label_width - label.chars().count();
         out.push_str(&format!(
             "  {}{}  {}\n",
-            e.label,
+            label,
             " ".repeat(pad),
             value_text(&e.value, d)
         ));

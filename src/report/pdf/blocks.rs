@@ -325,7 +325,7 @@ impl Sheet<'_> {
         let rows: Vec<_> = entries
             .iter()
             .map(|e| {
-                let label = wrap(&e.label, BODY, label_w - 4.0);
+                let label = wrap(&e.label_text(d), BODY, label_w - 4.0);
                 let value = wrap(&value_text(&e.value, d), BODY, value_w);
                 let method = e
                     .method
