@@ -31,6 +31,7 @@ fn celsius(c: f64) -> ThermodynamicTemperature {
 fn input(label: &str, value: Value) -> Entry {
     Entry {
         label: label.to_string(),
+        label_value: None,
         value,
         method: None,
     }
@@ -39,6 +40,7 @@ fn input(label: &str, value: Value) -> Entry {
 fn result(label: &str, value: Value, method: &'static str) -> Entry {
     Entry {
         label: label.to_string(),
+        label_value: None,
         value,
         method: Some(method),
     }
