@@ -13,6 +13,7 @@ pub mod cli;
 mod error;
 pub mod gas;
 pub mod heat;
+pub mod limits;
 pub mod record;
 pub mod report;
 pub mod rules;
@@ -23,4 +24,4 @@ pub mod template;
 pub mod units;
 pub mod worksheet;
 
-pub use error::InputError;
+pub use error::{as_typed, InputError};

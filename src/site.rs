@@ -302,7 +302,7 @@ struct RawFile {
 #[derive(Deserialize)]
 #[serde(deny_unknown_fields)]
 struct RawSite {
-    name: String,
+    name: Spanned<String>,
     location: String,
     ambient_pressure: Option<Spanned<String>>,
     elevation: Option<Spanned<String>>,
@@ -468,7 +468,9 @@ pub fn load(path: &Path) -> Result<Site, FileError> {
                 .enumerate()
                 .map(|(i, c)| (&c.tag, format!("cylinder[{}]", i + 1))),
         );
+    located(&src, "site.name", &s.name, crate::record::check_name)?;
     for (tag, kind) in tags {
+        located(&src, &format!("{kind}.tag"), tag, crate::record::check_name)?;
         let line = src.line_of(tag.span().start);
         // Tags that differ only in case or punctuation would share a record's file name.
         if let Some(first) = seen.insert(crate::record::slug(tag.get_ref()), line) {
@@ -494,7 +496,7 @@ pub fn load(path: &Path) -> Result<Site, FileError> {
     Ok(Site {
         origin,
         path: path.to_path_buf(),
-        name: s.name.clone(),
+        name: s.name.get_ref().clone(),
         location: s.location.clone(),
         ambient,
         ambient_basis,
@@ -550,19 +552,32 @@ impl Context<'_> {
             .drain
             .as_ref()
             .map(|d| -> Result<Drain, FileError> {
-                let orifice = located(src, &key("drain.orifice"), &d.orifice, positive(units::parse_length))?;
+                let orifice = located(
+                    src,
+                    &key("drain.orifice"),
+                    &d.orifice,
+                    positive(units::parse_length),
+                )?;
                 let cd = match &d.cd {
                     None => crate::rules::vent::SHARP_EDGED_CD,
                     Some(cd) => {
                         let x = *cd.get_ref();
-                        if !(x > 0.0 && x <= 1.0) {
-                            return Err(src.error(cd.span().start, key("drain.cd"), format!("{x} is outside (0, 1]; accepted: a discharge coefficient above 0 and at most 1 (0.61 sharp-edged)")));
+                        if let Err(problem) = crate::limits::cd(x) {
+                            let typed = src.text.get(cd.span()).unwrap_or_default();
+                            return Err(src.error(
+                                cd.span().start,
+                                key("drain.cd"),
+                                format!("'{typed}': {problem}"),
+                            ));
                         }
                         x
                     }
                 };
                 Ok(Drain {
-                    description: d.description.clone().unwrap_or_else(|| "vent or drain".to_string()),
+                    description: d
+                        .description
+                        .clone()
+                        .unwrap_or_else(|| "vent or drain".to_string()),
                     orifice,
                     cd,
                 })
@@ -717,14 +732,8 @@ impl Context<'_> {
                 .map(|x| {
                     located(src, &key("fill_rate"), x, |s| {
                         let r = units::parse_pressure_rate(s)?;
-                        if r.per_second.get::<pascal>() > 0.0 {
-                            Ok(r)
-                        } else {
-                            Err(
-                                "must be above zero; accepted: a positive rate, e.g. '25 bar/min'"
-                                    .to_string(),
-                            )
-                        }
+                        crate::limits::ramp(r)?;
+                        Ok(r)
                     })
                 })
                 .transpose()?,

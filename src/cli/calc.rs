@@ -12,6 +12,7 @@ use crate::assess::{self, EnergyAsk, Governing, PlannedFill, WallVent, Work};
 use crate::atmosphere;
 use crate::gas::{Gas, ModelKind};
 use crate::heat;
+use crate::limits;
 use crate::record;
 use crate::report::{render_text, to_json, Worksheet};
 use crate::rules::energy::{self, EnergyInput};
@@ -116,10 +117,10 @@ pub(super) struct FillArgs {
     #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_temperature)]
     rated_temperature: Option<ThermodynamicTemperature>,
     /// Planned fill rate, a pressure ramp (25 bar/min, 400 psi/min) or a mass flow (2 kg/min): adds the fill with wall heat transfer and the highest safe rate.
-    #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_rate, conflicts_with = "duration")]
+    #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = parse_fill_rate, conflicts_with = "duration")]
     rate: Option<units::RateReading>,
     /// Planned fill duration, as a steady pressure ramp over it (instead of --rate).
-    #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_time)]
+    #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = parse_planned_time)]
     duration: Option<Time>,
     #[command(flatten)]
     wall: WallArgs,
@@ -180,7 +181,7 @@ pub(super) struct VentArgs {
     /// Orifice (vent or drain) diameter; may be left out with --within.
     #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_length, required_unless_present = "within")]
     orifice: Option<Length>,
-    /// Discharge coefficient, 0 < Cd <= 1 (0.61 sharp-edged orifice, 0.97 rounded nozzle).
+    /// Discharge coefficient, 0.1 to 1 (0.61 sharp-edged orifice, 0.97 rounded nozzle).
     #[arg(long, value_name = "X", allow_hyphen_values = true, default_value_t = vent::SHARP_EDGED_CD, value_parser = parse_cd)]
     cd: f64,
     /// Target pressure [default: ambient + 1 %].
@@ -196,7 +197,7 @@ pub(super) struct VentArgs {
     #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_temperature)]
     min_metal_temperature: Option<ThermodynamicTemperature>,
     /// Report the orifice diameter that vents to the target within this time.
-    #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_time)]
+    #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = parse_planned_time)]
     within: Option<Time>,
     #[command(flatten)]
     wall: WallArgs,
@@ -210,13 +211,13 @@ pub(super) struct VentArgs {
     #[arg(long)]
     depressuring_check: bool,
     /// The depressuring check's fraction of the design gauge pressure.
-    #[arg(long, value_name = "X", default_value_t = 0.5)]
+    #[arg(long, value_name = "X", allow_hyphen_values = true, default_value_t = 0.5, value_parser = parse_fraction)]
     depressuring_fraction: f64,
     /// The depressuring check's cap on the gauge pressure to reach.
-    #[arg(long, value_name = "Q", default_value = "690 kPa", value_parser = units::parse_overpressure)]
+    #[arg(long, value_name = "Q", allow_hyphen_values = true, default_value = "690 kPa", value_parser = parse_cap)]
     depressuring_cap: Pressure,
     /// The depressuring check's time limit.
-    #[arg(long, value_name = "Q", default_value = "15 min", value_parser = units::parse_time)]
+    #[arg(long, value_name = "Q", allow_hyphen_values = true, default_value = "15 min", value_parser = parse_limit)]
     depressuring_limit: Time,
 }
 
@@ -226,13 +227,52 @@ pub(super) fn parse_gas(s: &str) -> Result<&'static Gas, String> {
 
 pub(super) fn parse_cd(s: &str) -> Result<f64, String> {
     let cd: f64 = s.trim().parse().map_err(|_| {
-        format!("'{s}' is not a number; accepted: a discharge coefficient in (0, 1], e.g. 0.61")
+        format!(
+            "'{s}' is not a number; accepted: a discharge coefficient from {} to 1, e.g. 0.61",
+            limits::MIN_CD
+        )
     })?;
-    if cd.is_finite() && cd > 0.0 && cd <= 1.0 {
-        Ok(cd)
-    } else {
-        Err(format!("{s} is outside (0, 1]; accepted: a discharge coefficient above 0 and at most 1 (0.61 sharp-edged, 0.97 well-rounded)"))
+    limits::cd(cd)?;
+    Ok(cd)
+}
+
+/// A time a fill or vent-down is planned for (`--duration`, `--within`).
+fn parse_planned_time(s: &str) -> Result<Time, String> {
+    let t = units::parse_time(s)?;
+    limits::planned_time(t)?;
+    Ok(t)
+}
+
+/// A fill rate: a ramp or a mass flow, each in its range.
+fn parse_fill_rate(s: &str) -> Result<units::RateReading, String> {
+    let r = units::parse_rate(s)?;
+    match r {
+        units::RateReading::Pressure(p) => limits::ramp(p)?,
+        units::RateReading::Mass(m) => limits::mass_flow(m)?,
     }
+    Ok(r)
+}
+
+fn parse_fraction(s: &str) -> Result<f64, String> {
+    let x: f64 = s.trim().parse().map_err(|_| {
+        format!(
+            "'{s}' is not a number; accepted: a fraction of the design gauge pressure, e.g. 0.5"
+        )
+    })?;
+    limits::depressuring_fraction(x)?;
+    Ok(x)
+}
+
+fn parse_cap(s: &str) -> Result<Pressure, String> {
+    let p = units::parse_overpressure(s)?;
+    limits::depressuring_cap(p)?;
+    Ok(p)
+}
+
+fn parse_limit(s: &str) -> Result<Time, String> {
+    let t = units::parse_time(s)?;
+    limits::depressuring_limit(t)?;
+    Ok(t)
 }
 
 /// The absolute ambient pressure from `--ambient-pressure` or `--elevation`.
@@ -296,8 +336,11 @@ pub(super) fn render<R: serde::Serialize>(
 where
     for<'a> &'a R: Into<Worksheet>,
 {
+    // Every result is checked for finiteness whichever the output: the ranges of the inputs
+    // keep them finite, so a failure here is a defect (exit 1), never a printed NaN.
+    let text = to_json(report).map_err(Failure::Internal)?;
     if json {
-        to_json(report).map(|s| s + "\n").map_err(Failure::Internal)
+        Ok(text + "\n")
     } else {
         Ok(render_text(&report.into(), system))
     }
@@ -362,11 +405,21 @@ pub(super) fn fill_command(a: FillArgs) -> Result<String, Failure> {
         ambient_temperature: a.ambient_temperature,
         rated_temperature: a.rated_temperature,
     };
+    if let Some(supply) = input.supply_pressure.filter(|s| *s < input.to) {
+        return Err(InputError::new(
+            "supply-pressure",
+            format!("{} bar(a)", fmt_sig(supply.get::<pascal>() / 1e5, 6)),
+            format!(
+                "is below the pressure the fill stops at (--to, {} bar(a)): a supply cannot fill a cylinder above its own pressure; accepted: a supply pressure at or above --to",
+                fmt_sig(input.to.get::<pascal>() / 1e5, 5)
+            ),
+        )
+        .into());
+    }
     let rate = match (a.rate, a.duration) {
         (Some(units::RateReading::Pressure(r)), _) => Some(FillRate::Ramp(r)),
         (Some(units::RateReading::Mass(m)), _) => Some(FillRate::MassFlow(m)),
         (None, Some(d)) => {
-            check_range("duration", d.get::<uom::si::time::second>(), "s", 1e-3, 1e7)?;
             Some(FillRate::Ramp(units::PressureRate {
                 // The pressure gained in one second of a steady ramp over `d`.
                 per_second: (input.to - input.from) / d.get::<uom::si::time::second>(),
@@ -471,11 +524,19 @@ fn planned_fill(
             0.1,
         )?;
     }
-    let rate_si = match rate {
-        FillRate::Ramp(r) => r.per_second.get::<pascal>(),
-        FillRate::MassFlow(m) => m.get::<uom::si::mass_rate::kilogram_per_second>(),
-    };
-    check_range("rate", rate_si, "SI units per second", 1e-9, 1e9)?;
+    // A ramp from --duration: the rate the duration gives, in the ramp's range.
+    if let (FillRate::Ramp(r), Some(d)) = (rate, a.duration) {
+        limits::ramp(r).map_err(|problem| {
+            InputError::new(
+                "duration",
+                format!("{} s", fmt_sig(d.get::<uom::si::time::second>(), 6)),
+                format!(
+                    "gives a ramp of {} bar/min, {problem}",
+                    fmt_sig(r.per_second.get::<pascal>() * 60.0 / 1e5, 4)
+                ),
+            )
+        })?;
+    }
     Ok(PlannedFill {
         rate,
         inlet: a.inlet_diameter,
@@ -511,7 +572,7 @@ pub(super) fn exchange(
     })
 }
 
-/// Refuses `value` outside (lo, hi].
+/// Refuses `value` outside (lo, hi], in `unit`.
 pub(super) fn check_range(
     field: &str,
     value: f64,
@@ -524,9 +585,23 @@ pub(super) fn check_range(
     } else {
         Err(InputError::new(
             field,
-            format!("{value} {unit}"),
-            format!("outside the range accepted; accepted: above {lo} and at most {hi} {unit}"),
+            format!("{} {unit}", compact(value)),
+            format!(
+                "outside the range accepted; accepted: above {} and at most {} {unit}",
+                compact(lo),
+                compact(hi)
+            ),
         ))
+    }
+}
+
+/// A number in few characters: as Rust prints it, or in exponent form where that is long.
+pub(super) fn compact(x: f64) -> String {
+    let plain = format!("{x}");
+    if plain.len() <= 12 {
+        plain
+    } else {
+        format!("{x:e}")
     }
 }
 
@@ -556,7 +631,7 @@ pub(super) fn write_csv(
     let files = record::Files {
         files: vec![(path.to_path_buf(), text.as_bytes())],
     };
-    files.write(false).map(|_| ()).map_err(|e| match e {
+    files.write(record::Mode::New).map(|_| ()).map_err(|e| match e {
         record::RecordError::Exists(p) => Failure::Refused(format!(
             "{} already exists; the CSV is not written over an existing file: choose another --csv path",
             p.display()
@@ -612,13 +687,6 @@ pub(super) fn vent_command(a: VentArgs) -> Result<String, Failure> {
         wall_args.heat_transfer = Some(wall_args.heat_transfer.unwrap_or(HeatTransfer::Lumped));
         let exchange = exchange(&wall_args, wall, input.temperature, heat::VESSEL_ASPECT)?;
         let check = if a.depressuring_check {
-            check_range(
-                "depressuring-fraction",
-                a.depressuring_fraction,
-                "",
-                0.0,
-                1.0,
-            )?;
             let target = Pressure::new::<pascal>(
                 (a.depressuring_fraction * design_gauge).min(a.depressuring_cap.get::<pascal>()),
             ) + pa;
@@ -639,6 +707,15 @@ pub(super) fn vent_command(a: VentArgs) -> Result<String, Failure> {
         wall.as_ref().map(|(w, _)| w),
         Governing::Model,
     )?;
+    if let (Some(t), Some(d)) = (a.within, report.required_orifice_m) {
+        limits::required_orifice(d).map_err(|problem| {
+            InputError::new(
+                "within",
+                format!("{} s", fmt_sig(t.get::<uom::si::time::second>(), 6)),
+                problem,
+            )
+        })?;
+    }
     report.inputs.design_pressure_pa = given.filter(|_| wall.is_some());
     if let (Some((_, Some(path))), Some(t)) = (&wall, &report.transient) {
         write_csv(path, &t.samples)?;
