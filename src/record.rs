@@ -204,14 +204,18 @@ impl Files<'_> {
                 }
             }
         }
+        let mut stop = Stop::from_env();
         let mut pending = Vec::new();
         for (target, bytes, replaces) in todo {
             match stage(target, bytes) {
-                Ok(temp) => pending.push(Pending {
-                    target,
-                    replaces,
-                    temp,
-                }),
+                Ok(temp) => {
+                    pending.push(Pending {
+                        target,
+                        replaces,
+                        temp,
+                    });
+                    stop.step();
+                }
                 Err(e) => {
                     remove_all(pending.iter().map(|p| p.temp.as_path()));
                     return Err(e);
@@ -221,7 +225,10 @@ impl Files<'_> {
         let mut done: Vec<(&Pending, Option<PathBuf>)> = Vec::new();
         for p in &pending {
             match place(p) {
-                Ok(aside) => done.push((p, aside)),
+                Ok(aside) => {
+                    done.push((p, aside));
+                    stop.step();
+                }
                 Err(e) => {
                     undo(&done);
                     remove_all(pending.iter().map(|p| p.temp.as_path()));
@@ -234,6 +241,7 @@ impl Files<'_> {
             if let Some(a) = aside {
                 let _ = fs::remove_file(a);
             }
+            stop.step();
             out.placed.push(p.target.to_path_buf());
         }
         for d in &folders {
@@ -244,6 +252,40 @@ impl Files<'_> {
             }
         }
         Ok(out)
+    }
+}
+
+/// The variable that makes a write stop dead after so many steps (each file staged, each
+/// linked in, each temporary removed), as a SIGKILL there would: the tests of the batch
+/// promise use it to interrupt a run at every step.
+pub const STOP_AFTER_VAR: &str = "PVHAZARD_TEST_STOP_AFTER";
+
+/// Counts a write's steps against [`STOP_AFTER_VAR`].
+struct Stop(Option<u64>);
+
+impl Stop {
+    fn from_env() -> Stop {
+        Stop(
+            std::env::var(STOP_AFTER_VAR)
+                .ok()
+                .and_then(|v| v.trim().parse().ok()),
+        )
+    }
+
+    fn step(&mut self) {
+        let Some(left) = self.0.as_mut() else {
+            return;
+        };
+        *left = left.saturating_sub(1);
+        if *left == 0 {
+            // No unwinding, no clean-up: the process ends as a killed one does. A
+            // SIGKILL from `kill` where there is one, else an abort.
+            let pid = std::process::id().to_string();
+            let _ = std::process::Command::new("kill")
+                .args(["-KILL", &pid])
+                .status();
+            std::process::abort();
+        }
     }
 }
 
