@@ -386,8 +386,13 @@ pub fn load(path: &Path) -> Result<Site, FileError> {
         }
         (None, Some(z)) => {
             let elevation = located(&src, "site.elevation", z, units::parse_length)?;
-            let p = atmosphere::pressure_at(elevation)
-                .map_err(|e| src.error(z.span().start, "site.elevation", e.problem))?;
+            let p = atmosphere::pressure_at(elevation).map_err(|e| {
+                src.error(
+                    z.span().start,
+                    "site.elevation",
+                    format!("'{}': {}", crate::as_typed(z.get_ref()), e.problem),
+                )
+            })?;
             (
                 p,
                 format!("standard atmosphere at elevation {}", z.get_ref()),

@@ -86,16 +86,34 @@ impl Source {
             let key = at.map(|at| self.key_at(at)).unwrap_or_default();
             let hint = if message.contains("expected a string") {
                 "; accepted: a quoted string (a quantity with its unit, e.g. volume = \"2 m3\")"
+            } else if message.contains("duplicate key") {
+                "; accepted: each key once in its table"
             } else {
                 ""
             };
+            // The line as written, so the message shows what is wrong without the editor.
+            let written = at
+                .map(|at| self.line_text(at).trim())
+                .filter(|l| !l.is_empty())
+                .map(|l| format!("'{}': ", crate::as_typed(l)))
+                .unwrap_or_default();
             FileError {
                 file: self.path.clone(),
                 line: at.map_or(0, |at| self.line_of(at)),
                 key,
-                problem: format!("{message} (TOML){hint}"),
+                problem: format!("{written}{message} (TOML){hint}"),
             }
         })
+    }
+
+    /// The text of the line holding byte offset `at`.
+    fn line_text(&self, at: usize) -> &str {
+        let at = at.min(self.text.len());
+        let start = self.text[..at].rfind('\n').map_or(0, |i| i + 1);
+        let end = self.text[at..]
+            .find('\n')
+            .map_or(self.text.len(), |i| at + i);
+        &self.text[start..end]
     }
 
     /// The dotted key of the value or key at byte offset `at`, as the file spells it

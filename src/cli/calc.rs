@@ -647,6 +647,18 @@ pub(super) fn vent_command(a: VentArgs) -> Result<String, Failure> {
         Some(r) => absolute("down-to", r, pa)?,
         None => pa * (1.0 + vent::DEFAULT_TARGET_MARGIN),
     };
+    let start = absolute("pressure", a.pressure, pa)?;
+    if a.down_to.is_some() && down_to >= start {
+        return Err(InputError::new(
+            "down-to",
+            format!("{} bar(a)", fmt_sig(down_to.get::<pascal>() / 1e5, 6)),
+            format!(
+                "is not below the starting pressure (--pressure, {} bar(a)), so there is nothing to vent; accepted: a target below --pressure",
+                fmt_sig(start.get::<pascal>() / 1e5, 5)
+            ),
+        )
+        .into());
+    }
     let input = VentInput {
         volume: a.volume,
         pressure: absolute("pressure", a.pressure, pa)?,

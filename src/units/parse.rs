@@ -73,7 +73,7 @@ pub fn parse_pressure(text: &str) -> Result<PressureReading, String> {
                 Ok(PressureReading::Absolute(p))
             }
             "" => Err(format!(
-                "a pressure must say gauge or absolute, and '{unit}' says neither: write '{v} {u}g' or '{v} {u}(g)' for gauge (above atmosphere), '{v} {u}a' or '{v} {u}(a)' for absolute (above vacuum); mixing the two is the classic error in this work",
+                "a pressure must say gauge or absolute, and '{unit}' says neither (mixing the two is the classic error in this work); accepted: '{v} {u}g' or '{v} {u}(g)' for gauge (above atmosphere), '{v} {u}a' or '{v} {u}(a)' for absolute (above vacuum)",
                 v = trim_number(text),
                 u = unit.trim()
             )),
@@ -96,7 +96,7 @@ pub fn parse_overpressure(text: &str) -> Result<Pressure, String> {
         return match rest {
             "" | "g" | "(g)" => Ok(Pressure::new::<pascal>(value * factor)),
             "a" | "(a)" | "abs" | "(abs)" => Err(format!(
-                "an overpressure is a difference above ambient, not an absolute pressure: write e.g. '{} {}'",
+                "an overpressure is a difference above ambient, not an absolute pressure; accepted: the same without the absolute mark, e.g. '{} {}'",
                 trim_number(text),
                 base_spelling(base)
             )),
@@ -372,7 +372,7 @@ fn split(text: &str) -> Result<(f64, &str), String> {
     }
     if unit.trim().is_empty() {
         return Err(format!(
-            "'{t}' has no unit; every quantity needs one, e.g. '10 barg', '2 m3', '20 C'"
+            "'{t}' has no unit, and every quantity needs one; accepted: a number followed by its unit, e.g. '10 barg', '2 m3', '20 C'"
         ));
     }
     Ok((value, unit.trim()))
