@@ -11,6 +11,8 @@ pub mod atmosphere;
 pub mod caution;
 pub mod cli;
 mod error;
+#[doc(hidden)]
+pub mod fuzz;
 pub mod gas;
 pub mod heat;
 pub mod limits;

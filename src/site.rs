@@ -360,7 +360,13 @@ struct RawCylinder {
 
 /// Reads and checks a site file.
 pub fn load(path: &Path) -> Result<Site, FileError> {
-    let src = Source::read(path)?;
+    from_source(Source::read(path)?)
+}
+
+/// Checks a site file's text, read already.
+pub fn from_source(src: Source) -> Result<Site, FileError> {
+    let path = src.path.clone();
+    let path = path.as_path();
     let raw: RawFile = src.parse()?;
     let s = &raw.site;
     let ambient = match (&s.ambient_pressure, &s.elevation) {
