@@ -6,8 +6,11 @@
 //! what is accepted, in the units a crew types; the caller names the field and echoes the
 //! value as typed.
 
-use uom::si::f64::{Length, MassRate, Pressure, Time};
-use uom::si::{length::meter, mass_rate::kilogram_per_second, pressure::pascal, time::second};
+use uom::si::f64::{Length, MassRate, Pressure, Time, Volume};
+use uom::si::{
+    length::meter, mass_rate::kilogram_per_second, pressure::pascal, time::second,
+    volume::cubic_meter,
+};
 
 use crate::units::PressureRate;
 
@@ -35,6 +38,9 @@ pub const MIN_DEPRESSURING_FRACTION: f64 = 0.05;
 /// Smallest and largest cap on a depressuring check's target, gauge Pa.
 pub const DEPRESSURING_CAP_PA: (f64, f64) = (1.0e3, 1.0e8);
 
+/// Smallest vessel or cylinder volume accepted, m³ (1 mL: a small gas cartridge holds more).
+pub const MIN_VOLUME_M3: f64 = 1.0e-6;
+
 fn within_range(x: f64, lo: f64, hi: f64) -> bool {
     x.is_finite() && x >= lo && x <= hi
 }
@@ -45,6 +51,19 @@ pub fn cd(x: f64) -> Result<(), String> {
         Ok(())
     } else {
         Err(format!("outside {MIN_CD} to 1; accepted: a discharge coefficient from {MIN_CD} to 1 (0.61 sharp-edged orifice, 0.97 well-rounded nozzle)"))
+    }
+}
+
+/// A vessel's gas volume or a cylinder's water capacity.
+pub fn volume(v: Volume) -> Result<(), String> {
+    if within_range(
+        v.get::<cubic_meter>(),
+        MIN_VOLUME_M3,
+        crate::rules::MAX_VOLUME_M3,
+    ) {
+        Ok(())
+    } else {
+        Err("outside the volumes of gas vessels and cylinders; accepted: 1 mL to 100000 m3, e.g. '50 L', '2 m3'".into())
     }
 }
 
@@ -138,6 +157,8 @@ mod tests {
         for x in [0.0, 1e-320, 0.09, 1.01, f64::NAN, f64::INFINITY] {
             assert!(cd(x).is_err(), "{x}");
         }
+        assert!(volume(Volume::new::<cubic_meter>(1e-300)).is_err());
+        assert!(volume(Volume::new::<cubic_meter>(1e-6)).is_ok());
         assert!(planned_time(Time::new::<second>(1.0)).is_ok());
         assert!(planned_time(Time::new::<second>(1e-300)).is_err());
         assert!(planned_time(Time::new::<second>(MAX_TIME_S * 1.01)).is_err());

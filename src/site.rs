@@ -623,12 +623,7 @@ impl Context<'_> {
             tag: v.tag.get_ref().clone(),
             description: v.description.clone(),
             gas: self.gas(&key("gas"), &v.gas)?,
-            volume: located(
-                src,
-                &key("volume"),
-                &v.volume,
-                positive(units::parse_volume),
-            )?,
+            volume: located(src, &key("volume"), &v.volume, parse_vessel_volume)?,
             mawp: self.pressure(&key("mawp"), &v.mawp)?,
             operating_pressure: self.pressure(&key("operating_pressure"), &v.operating_pressure)?,
             relief_set_pressure: opt_pressure("relief_set_pressure", &v.relief_set_pressure)?,
@@ -707,7 +702,7 @@ impl Context<'_> {
                 src,
                 &key("water_capacity"),
                 &c.water_capacity,
-                positive(units::parse_volume),
+                parse_vessel_volume,
             )?,
             service_pressure: self.pressure(&key("service_pressure"), &c.service_pressure)?,
             rated_temperature: temp("rated_temperature", &c.rated_temperature)?,
@@ -756,6 +751,13 @@ impl Context<'_> {
                 .unwrap_or(self.ambient),
         })
     }
+}
+
+/// A vessel's volume or a cylinder's water capacity, in the range the command line accepts.
+fn parse_vessel_volume(s: &str) -> Result<Volume, String> {
+    let v = units::parse_volume(s)?;
+    crate::limits::volume(v)?;
+    Ok(v)
 }
 
 /// Wraps a quantity parser so that zero and negative values are refused.

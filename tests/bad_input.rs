@@ -123,6 +123,8 @@ fn the_command_line_refuses_each_bad_value_naming_the_option_and_the_value_as_ty
         opt(ENERGY, "--volume", "0 m3", &[]),
         opt(ENERGY, "--volume", "-2 m3", &[]),
         opt(ENERGY, "--volume", "1e300 m3", &[]),
+        opt(ENERGY, "--volume", "1e-300 m3", &[]),
+        opt(VENT, "--volume", "0.1 mL", &orifice),
         opt(ENERGY, "--volume", "2 barg", &[]),
         opt(ENERGY, "--volume", "2", &[]),
         opt(ENERGY, "--volume", "two m3", &[]),
@@ -368,6 +370,12 @@ fn site_and_template_files_refuse_each_bad_value_naming_the_key_and_the_value_as
             "volume = \"0 m3\"".into(),
             "vessel[1].volume",
             "0 m3".into(),
+        ),
+        (
+            "volume = \"2 m3\"",
+            "volume = \"1e-300 m3\"".into(),
+            "vessel[1].volume",
+            "1e-300 m3".into(),
         ),
         (
             "mawp = \"13 barg\"",

@@ -239,7 +239,7 @@ fn zero_volume_is_refused_as_not_above_zero() {
         "--pressure",
         "10 barg",
     ];
-    refused(&args, &["--volume", "above zero"]);
+    refused(&args, &["--volume", "1 mL to 100000 m3"]);
 }
 
 #[test]
@@ -253,7 +253,7 @@ fn negative_volume_is_refused_as_not_above_zero() {
         "--pressure",
         "10 barg",
     ];
-    refused(&args, &["--volume", "above zero"]);
+    refused(&args, &["--volume", "1 mL to 100000 m3"]);
 }
 
 #[test]

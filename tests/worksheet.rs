@@ -953,7 +953,7 @@ fn a_negative_volume_is_refused_at_its_line() {
         "volume = \"2 m3\"",
         "volume = \"-2 m3\"",
         "-2 m3",
-        &["vessel[1].volume", "above zero"],
+        &["vessel[1].volume", "1 mL to 100000 m3"],
     );
 }
 

@@ -51,7 +51,7 @@ pub(super) struct EnergyArgs {
     #[command(flatten)]
     common: Common,
     /// Gas volume of the vessel (e.g. 2 m3, 500 L, 20 gal).
-    #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_volume)]
+    #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = parse_vessel_volume)]
     volume: Volume,
     /// Vessel pressure, gauge or absolute (e.g. 10 barg).
     #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_pressure)]
@@ -93,7 +93,7 @@ pub(super) struct FillArgs {
     #[command(flatten)]
     common: Common,
     /// Cylinder internal (water) volume.
-    #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_volume)]
+    #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = parse_vessel_volume)]
     volume: Volume,
     /// Pressure before the fill.
     #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_pressure)]
@@ -173,7 +173,7 @@ pub(super) struct VentArgs {
     #[command(flatten)]
     common: Common,
     /// Gas volume of the vessel.
-    #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_volume)]
+    #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = parse_vessel_volume)]
     volume: Volume,
     /// Starting pressure, gauge or absolute.
     #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_pressure)]
@@ -234,6 +234,13 @@ pub(super) fn parse_cd(s: &str) -> Result<f64, String> {
     })?;
     limits::cd(cd)?;
     Ok(cd)
+}
+
+/// A vessel's or cylinder's volume.
+fn parse_vessel_volume(s: &str) -> Result<Volume, String> {
+    let v = units::parse_volume(s)?;
+    limits::volume(v)?;
+    Ok(v)
 }
 
 /// A time a fill or vent-down is planned for (`--duration`, `--within`).
