@@ -566,6 +566,13 @@ pub(super) fn exchange(
             "the wall cannot be estimated: the estimate rests on the gauge pressure, which is zero here; accepted: give --wall-mass (or --empty-mass for a cylinder)",
         ));
     }
+    if wall.estimated {
+        check_range("wall-mass", kg, "kg", 0.0, 1e7).map_err(|e| InputError {
+            value: format!("{} (estimated, not given)", e.value),
+            problem: "the wall estimated from the volume, the design pressure and the material is outside the masses the model takes; accepted: give --wall-mass, above 0 and at most 10000000 kg".into(),
+            ..e
+        })?;
+    }
     check_range("wall-mass", kg, "kg", 0.0, 1e7)?;
     if let Some(h) = w.inner_coefficient {
         check_range("inner-coefficient", h, "W/m2K", 1e-6, 1e7)?;
@@ -608,7 +615,7 @@ pub(super) fn compact(x: f64) -> String {
     if plain.len() <= 12 {
         plain
     } else {
-        format!("{x:e}")
+        fmt_sig(x, 4)
     }
 }
 
