@@ -120,7 +120,11 @@ fn a_run_stopped_dead_at_any_step_of_the_write_leaves_whole_records_and_a_rerun_
         let mut cmd = batch(&out, &[]);
         cmd.env(STOP_AFTER, step.to_string());
         let o = run(cmd);
-        assert_eq!(o.status.signal(), Some(9), "step {step}: {o:?}");
+        // SIGKILL, or SIGABRT where there is no `kill` to send it.
+        assert!(
+            matches!(o.status.signal(), Some(9) | Some(6)),
+            "step {step}: {o:?}"
+        );
         let when = format!("killed after step {step}");
         let temporaries = only_whole_records(&out, &whole, &when);
         // Every step but the last leaves a temporary for the rerun to remove.
