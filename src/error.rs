@@ -42,3 +42,16 @@ impl fmt::Display for InputError {
 }
 
 impl std::error::Error for InputError {}
+
+/// A value as typed, for an error message: in full if short, else its start and its length.
+pub fn as_typed(text: &str) -> String {
+    let n = text.chars().count();
+    if n <= 60 {
+        text.to_string()
+    } else {
+        format!(
+            "{}… ({n} characters)",
+            text.chars().take(40).collect::<String>()
+        )
+    }
+}

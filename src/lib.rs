@@ -11,8 +11,11 @@ pub mod atmosphere;
 pub mod caution;
 pub mod cli;
 mod error;
+#[doc(hidden)]
+pub mod fuzz;
 pub mod gas;
 pub mod heat;
+pub mod limits;
 pub mod record;
 pub mod report;
 pub mod rules;
@@ -23,4 +26,4 @@ pub mod template;
 pub mod units;
 pub mod worksheet;
 
-pub use error::InputError;
+pub use error::{as_typed, InputError};

@@ -251,7 +251,7 @@ struct RawFile {
 #[derive(Deserialize)]
 #[serde(deny_unknown_fields)]
 struct RawSite {
-    name: String,
+    name: Spanned<String>,
     location: String,
     ambient_pressure: Option<Spanned<String>>,
     elevation: Option<Spanned<String>>,
@@ -309,7 +309,13 @@ struct RawCylinder {
 
 /// Reads and checks a site file.
 pub fn load(path: &Path) -> Result<Site, FileError> {
-    let src = Source::read(path)?;
+    from_source(Source::read(path)?)
+}
+
+/// Checks a site file's text, read already.
+pub fn from_source(src: Source) -> Result<Site, FileError> {
+    let path = src.path.clone();
+    let path = path.as_path();
     let raw: RawFile = src.parse()?;
     let s = &raw.site;
     let ambient = match (&s.ambient_pressure, &s.elevation) {
@@ -335,8 +341,13 @@ pub fn load(path: &Path) -> Result<Site, FileError> {
         }
         (None, Some(z)) => {
             let elevation = located(&src, "site.elevation", z, units::parse_length)?;
-            let p = atmosphere::pressure_at(elevation)
-                .map_err(|e| src.error(z.span().start, "site.elevation", e.problem))?;
+            let p = atmosphere::pressure_at(elevation).map_err(|e| {
+                src.error(
+                    z.span().start,
+                    "site.elevation",
+                    format!("'{}': {}", crate::as_typed(z.get_ref()), e.problem),
+                )
+            })?;
             (
                 p,
                 format!("standard atmosphere at elevation {}", z.get_ref()),
@@ -417,7 +428,9 @@ pub fn load(path: &Path) -> Result<Site, FileError> {
                 .enumerate()
                 .map(|(i, c)| (&c.tag, format!("cylinder[{}]", i + 1))),
         );
+    located(&src, "site.name", &s.name, crate::record::check_name)?;
     for (tag, kind) in tags {
+        located(&src, &format!("{kind}.tag"), tag, crate::record::check_name)?;
         let line = src.line_of(tag.span().start);
         // Tags that differ only in case or punctuation would share a record's file name.
         if let Some(first) = seen.insert(crate::record::slug(tag.get_ref()), line) {
@@ -443,7 +456,7 @@ pub fn load(path: &Path) -> Result<Site, FileError> {
     Ok(Site {
         origin,
         path: path.to_path_buf(),
-        name: s.name.clone(),
+        name: s.name.get_ref().clone(),
         location: s.location.clone(),
         ambient,
         ambient_basis,
@@ -499,19 +512,32 @@ impl Context<'_> {
             .drain
             .as_ref()
             .map(|d| -> Result<Drain, FileError> {
-                let orifice = located(src, &key("drain.orifice"), &d.orifice, positive(units::parse_length))?;
+                let orifice = located(
+                    src,
+                    &key("drain.orifice"),
+                    &d.orifice,
+                    positive(units::parse_length),
+                )?;
                 let cd = match &d.cd {
                     None => crate::rules::vent::SHARP_EDGED_CD,
                     Some(cd) => {
                         let x = *cd.get_ref();
-                        if !(x > 0.0 && x <= 1.0) {
-                            return Err(src.error(cd.span().start, key("drain.cd"), format!("{x} is outside (0, 1]; accepted: a discharge coefficient above 0 and at most 1 (0.61 sharp-edged)")));
+                        if let Err(problem) = crate::limits::cd(x) {
+                            let typed = src.text.get(cd.span()).unwrap_or_default();
+                            return Err(src.error(
+                                cd.span().start,
+                                key("drain.cd"),
+                                format!("'{typed}': {problem}"),
+                            ));
                         }
                         x
                     }
                 };
                 Ok(Drain {
-                    description: d.description.clone().unwrap_or_else(|| "vent or drain".to_string()),
+                    description: d
+                        .description
+                        .clone()
+                        .unwrap_or_else(|| "vent or drain".to_string()),
                     orifice,
                     cd,
                 })
@@ -546,12 +572,7 @@ impl Context<'_> {
             tag: v.tag.get_ref().clone(),
             description: v.description.clone(),
             gas: self.gas(&key("gas"), &v.gas)?,
-            volume: located(
-                src,
-                &key("volume"),
-                &v.volume,
-                positive(units::parse_volume),
-            )?,
+            volume: located(src, &key("volume"), &v.volume, parse_vessel_volume)?,
             mawp: self.pressure(&key("mawp"), &v.mawp)?,
             operating_pressure: self.pressure(&key("operating_pressure"), &v.operating_pressure)?,
             relief_set_pressure: opt_pressure("relief_set_pressure", &v.relief_set_pressure)?,
@@ -630,7 +651,7 @@ impl Context<'_> {
                 src,
                 &key("water_capacity"),
                 &c.water_capacity,
-                positive(units::parse_volume),
+                parse_vessel_volume,
             )?,
             service_pressure: self.pressure(&key("service_pressure"), &c.service_pressure)?,
             rated_temperature: temp("rated_temperature", &c.rated_temperature)?,
@@ -666,14 +687,8 @@ impl Context<'_> {
                 .map(|x| {
                     located(src, &key("fill_rate"), x, |s| {
                         let r = units::parse_pressure_rate(s)?;
-                        if r.per_second.get::<pascal>() > 0.0 {
-                            Ok(r)
-                        } else {
-                            Err(
-                                "must be above zero; accepted: a positive rate, e.g. '25 bar/min'"
-                                    .to_string(),
-                            )
-                        }
+                        crate::limits::ramp(r)?;
+                        Ok(r)
                     })
                 })
                 .transpose()?,
@@ -685,6 +700,13 @@ impl Context<'_> {
                 .unwrap_or(self.ambient),
         })
     }
+}
+
+/// A vessel's volume or a cylinder's water capacity, in the range the command line accepts.
+fn parse_vessel_volume(s: &str) -> Result<Volume, String> {
+    let v = units::parse_volume(s)?;
+    crate::limits::volume(v)?;
+    Ok(v)
 }
 
 /// Wraps a quantity parser so that zero and negative values are refused.

@@ -75,19 +75,110 @@ impl Source {
         }
     }
 
-    /// Parses the text as TOML into `T`, turning a syntax or schema error into a located one.
+    /// Parses the text as TOML into `T`, turning a syntax or schema error into a located one
+    /// that names the key where it can.
     pub fn parse<T: serde::de::DeserializeOwned>(&self) -> Result<T, FileError> {
         toml::from_str(&self.text).map_err(|e| {
-            let line = e.span().map_or(0, |s| self.line_of(s.start));
+            let at = e.span().map(|s| s.start);
             // toml's message is the problem itself ("missing field `volume`", "invalid
             // type"); its own rendering repeats the line we already give.
+            let message = e.message().trim();
+            let key = at.map(|at| self.key_at(at)).unwrap_or_default();
+            let hint = if message.contains("expected a string") {
+                "; accepted: a quoted string (a quantity with its unit, e.g. volume = \"2 m3\")"
+            } else if message.contains("duplicate key") {
+                "; accepted: each key once in its table"
+            } else {
+                ""
+            };
+            // The line as written, so the message shows what is wrong without the editor.
+            let written = at
+                .map(|at| self.line_text(at).trim())
+                .filter(|l| !l.is_empty())
+                .map(|l| format!("'{}': ", crate::as_typed(l)))
+                .unwrap_or_default();
             FileError {
                 file: self.path.clone(),
-                line,
-                key: String::new(),
-                problem: format!("{} (TOML)", e.message().trim()),
+                line: at.map_or(0, |at| self.line_of(at)),
+                key,
+                problem: format!("{written}{message} (TOML){hint}"),
             }
         })
+    }
+
+    /// The text of the line holding byte offset `at`.
+    fn line_text(&self, at: usize) -> &str {
+        let at = at.min(self.text.len());
+        let start = self.text[..at].rfind('\n').map_or(0, |i| i + 1);
+        let end = self.text[at..]
+            .find('\n')
+            .map_or(self.text.len(), |i| at + i);
+        &self.text[start..end]
+    }
+
+    /// The dotted key of the value or key at byte offset `at`, as the file spells it
+    /// (`vessel[2].volume`), or empty where no key can be read there.
+    pub fn key_at(&self, at: usize) -> String {
+        let at = at.min(self.text.len());
+        let Some(before) = self.text.get(..at) else {
+            return String::new();
+        };
+        let line_start = before.rfind('\n').map_or(0, |i| i + 1);
+        let line_end = self.text[at..]
+            .find('\n')
+            .map_or(self.text.len(), |i| at + i);
+        let head = &self.text[line_start..at];
+        let line = &self.text[line_start..line_end];
+        let bare = |k: &str| {
+            let k = k.trim().trim_matches('"');
+            let ok = !k.is_empty()
+                && k.chars()
+                    .all(|c| c.is_ascii_alphanumeric() || matches!(c, '_' | '-' | '.'));
+            ok.then(|| k.to_string())
+        };
+        // The key before the last `=` ahead of the value, or the key the offset is on.
+        let own = match head.rfind('=') {
+            Some(eq) => bare(head[..eq].rsplit([',', '{']).next().unwrap_or("")),
+            None => bare(line[head.len()..].split('=').next().unwrap_or("")),
+        };
+        let Some(own) = own else {
+            return String::new();
+        };
+        // Inside an inline table, the table's own key goes first.
+        let inline = head
+            .find('{')
+            .and_then(|b| head[..b].split('=').next().and_then(bare));
+        let mut path: Vec<String> = Vec::new();
+        if let Some(table) = self.table_at(line_start) {
+            path.push(table);
+        }
+        path.extend(inline);
+        path.push(own);
+        path.join(".")
+    }
+
+    /// The table header in force at byte offset `at`, with an array of tables numbered as
+    /// the error messages number them (`vessel[2]`).
+    fn table_at(&self, at: usize) -> Option<String> {
+        let mut current = None;
+        let mut counts: std::collections::BTreeMap<String, usize> = Default::default();
+        let mut offset = 0;
+        for line in self.text.split_inclusive('\n') {
+            if offset >= at {
+                break;
+            }
+            offset += line.len();
+            let t = line.trim();
+            if let Some(name) = t.strip_prefix("[[").and_then(|r| r.split("]]").next()) {
+                let name = name.trim().to_string();
+                let n = counts.entry(name.clone()).or_insert(0);
+                *n += 1;
+                current = Some(format!("{name}[{n}]"));
+            } else if let Some(name) = t.strip_prefix('[').and_then(|r| r.split(']').next()) {
+                current = Some(name.trim().to_string());
+            }
+        }
+        current
     }
 }
 
@@ -105,7 +196,7 @@ pub fn located<T>(
         src.error(
             value.span().start,
             key,
-            format!("'{}': {problem}", value.get_ref()),
+            format!("'{}': {problem}", crate::as_typed(value.get_ref())),
         )
     })
 }

@@ -111,7 +111,7 @@ struct RawFile {
 #[derive(Deserialize)]
 #[serde(deny_unknown_fields)]
 struct RawTemplate {
-    name: String,
+    name: Spanned<String>,
     title: String,
     purpose: String,
     equipment: Spanned<String>,
@@ -257,8 +257,9 @@ pub fn parse(src: &Source) -> Result<Template, FileError> {
             "lists no sign-off role; a record needs at least one (e.g. \"Prepared\")",
         ));
     }
+    located(src, "template.name", &t.name, crate::record::check_name)?;
     Ok(Template {
-        name: t.name,
+        name: t.name.into_inner(),
         title: t.title,
         purpose: t.purpose.split_whitespace().collect::<Vec<_>>().join(" "),
         equipment,

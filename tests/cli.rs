@@ -239,7 +239,7 @@ fn zero_volume_is_refused_as_not_above_zero() {
         "--pressure",
         "10 barg",
     ];
-    refused(&args, &["--volume", "above zero"]);
+    refused(&args, &["--volume", "1 mL to 100000 m3"]);
 }
 
 #[test]
@@ -253,7 +253,7 @@ fn negative_volume_is_refused_as_not_above_zero() {
         "--pressure",
         "10 barg",
     ];
-    refused(&args, &["--volume", "above zero"]);
+    refused(&args, &["--volume", "1 mL to 100000 m3"]);
 }
 
 #[test]
@@ -385,7 +385,7 @@ fn a_fill_that_ends_where_it_starts_is_refused() {
 fn a_discharge_coefficient_of_zero_is_refused() {
     refused(
         &as_strs(&with(VENT, &["--orifice", "10 mm", "--cd", "0"])),
-        &["--cd", "outside (0, 1]"],
+        &["--cd", "outside 0.1 to 1"],
     );
 }
 
@@ -393,7 +393,7 @@ fn a_discharge_coefficient_of_zero_is_refused() {
 fn a_discharge_coefficient_above_one_is_refused() {
     refused(
         &as_strs(&with(VENT, &["--orifice", "10 mm", "--cd", "1.5"])),
-        &["--cd", "outside (0, 1]"],
+        &["--cd", "outside 0.1 to 1"],
     );
 }
 
@@ -401,7 +401,7 @@ fn a_discharge_coefficient_above_one_is_refused() {
 fn a_negative_discharge_coefficient_written_with_equals_is_refused() {
     refused(
         &as_strs(&with(VENT, &["--orifice", "10 mm", "--cd=-0.2"])),
-        &["--cd", "outside (0, 1]"],
+        &["--cd", "outside 0.1 to 1"],
     );
 }
 
@@ -417,7 +417,7 @@ fn a_negative_discharge_coefficient_exits_2_without_output() {
 fn a_negative_discharge_coefficient_is_refused_naming_cd() {
     refused(
         &as_strs(&with(VENT, &["--orifice", "10 mm", "--cd", "-0.2"])),
-        &["--cd", "outside (0, 1]"],
+        &["--cd", "outside 0.1 to 1"],
     );
 }
 
@@ -550,7 +550,7 @@ fn a_zero_orifice_is_refused() {
 fn a_zero_vent_time_is_refused() {
     refused(
         &as_strs(&with(VENT, &["--within", "0 s"])),
-        &["--within", "above zero"],
+        &["--within", "'0 s'", "1 s to 30 days"],
     );
 }
 

@@ -440,19 +440,34 @@ fn a_second_run_is_refused_with_already_exists_and_force_and_leaves_the_first_fi
     assert_eq!(first.len(), 2);
     assert_no_temporary_files(&out);
 
+    // The same command again finds the same bytes: done, nothing rewritten.
     worksheet(&site, &out, &["--tag", "AR-101"])
         .assert()
-        .code(2)
-        .stderr(predicate::str::contains("already exists"))
-        .stderr(predicate::str::contains("--force"));
+        .code(0)
+        .stdout(predicate::str::contains(
+            "already there with the same contents",
+        ));
     assert_eq!(contents(&out), first);
     assert_no_temporary_files(&out);
 
-    // Different contents under the same names are refused as well.
+    // Different contents under the same names are refused.
     worksheet(
         &site,
         &out,
         &["--tag", "AR-101", "--prepared-by", "B. Other"],
+    )
+    .assert()
+    .code(2)
+    .stderr(predicate::str::contains("already exists"))
+    .stderr(predicate::str::contains("--force"));
+    assert_eq!(contents(&out), first);
+    assert_no_temporary_files(&out);
+
+    // Another time on the same day gives the same names and other bytes: refused as well.
+    worksheet(
+        &site,
+        &out,
+        &["--tag", "AR-101", "--date", "2026-03-14T10:45:00+01:00"],
     )
     .assert()
     .code(2)
@@ -470,11 +485,22 @@ fn a_refused_batch_writes_none_of_its_new_records() {
         .assert()
         .code(0);
     let first = contents(&out);
-    // AR-101 is new, AR-102 exists: nothing is written.
-    worksheet(&site, &out, &["--tag", "AR-101", "--tag", "AR-102"])
-        .assert()
-        .code(2)
-        .stderr(predicate::str::contains("already exists"));
+    // AR-101 is new, AR-102 exists with other contents: nothing is written.
+    worksheet(
+        &site,
+        &out,
+        &[
+            "--tag",
+            "AR-101",
+            "--tag",
+            "AR-102",
+            "--prepared-by",
+            "B. Other",
+        ],
+    )
+    .assert()
+    .code(2)
+    .stderr(predicate::str::contains("already exists"));
     assert_eq!(contents(&out), first);
     assert_no_temporary_files(&out);
 }
@@ -927,7 +953,7 @@ fn a_negative_volume_is_refused_at_its_line() {
         "volume = \"2 m3\"",
         "volume = \"-2 m3\"",
         "-2 m3",
-        &["vessel[1].volume", "above zero"],
+        &["vessel[1].volume", "1 mL to 100000 m3"],
     );
 }
 

@@ -14,6 +14,7 @@ use crate::atmosphere;
 use crate::gas::{Gas, ModelKind};
 use crate::heat;
 use crate::heat::{Construction, Liner, Material};
+use crate::limits;
 use crate::record;
 use crate::report::{render_text, to_json, Worksheet};
 use crate::rules::energy::{self, EnergyInput};
@@ -52,7 +53,7 @@ pub(super) struct EnergyArgs {
     #[command(flatten)]
     common: Common,
     /// Gas volume of the vessel (e.g. 2 m3, 500 L, 20 gal).
-    #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_volume)]
+    #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = parse_vessel_volume)]
     volume: Volume,
     /// Vessel pressure, gauge or absolute (e.g. 10 barg).
     #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_pressure)]
@@ -97,7 +98,7 @@ pub(super) struct FillArgs {
     #[command(flatten)]
     common: Common,
     /// Cylinder internal (water) volume.
-    #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_volume)]
+    #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = parse_vessel_volume)]
     volume: Volume,
     /// Pressure before the fill.
     #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_pressure)]
@@ -121,10 +122,10 @@ pub(super) struct FillArgs {
     #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_temperature)]
     rated_temperature: Option<ThermodynamicTemperature>,
     /// Planned fill rate, a pressure ramp (25 bar/min, 400 psi/min) or a mass flow (2 kg/min): adds the fill with wall heat transfer and the highest safe rate.
-    #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_rate, conflicts_with = "duration")]
+    #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = parse_fill_rate, conflicts_with = "duration")]
     rate: Option<units::RateReading>,
     /// Planned fill duration, as a steady pressure ramp over it (instead of --rate).
-    #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_time)]
+    #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = parse_planned_time)]
     duration: Option<Time>,
     #[command(flatten)]
     wall: WallArgs,
@@ -177,7 +178,7 @@ pub(super) struct VentArgs {
     #[command(flatten)]
     common: Common,
     /// Gas volume of the vessel.
-    #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_volume)]
+    #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = parse_vessel_volume)]
     volume: Volume,
     /// Starting pressure, gauge or absolute.
     #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_pressure)]
@@ -185,7 +186,7 @@ pub(super) struct VentArgs {
     /// Orifice (vent or drain) diameter; may be left out with --within.
     #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_length, required_unless_present = "within")]
     orifice: Option<Length>,
-    /// Discharge coefficient, 0 < Cd <= 1 (0.61 sharp-edged orifice, 0.97 rounded nozzle).
+    /// Discharge coefficient, 0.1 to 1 (0.61 sharp-edged orifice, 0.97 rounded nozzle).
     #[arg(long, value_name = "X", allow_hyphen_values = true, default_value_t = vent::SHARP_EDGED_CD, value_parser = parse_cd)]
     cd: f64,
     /// Target pressure [default: ambient + 1 %].
@@ -201,7 +202,7 @@ pub(super) struct VentArgs {
     #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_temperature)]
     min_metal_temperature: Option<ThermodynamicTemperature>,
     /// Report the orifice diameter that vents to the target within this time.
-    #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_time)]
+    #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = parse_planned_time)]
     within: Option<Time>,
     #[command(flatten)]
     wall: WallArgs,
@@ -215,10 +216,10 @@ pub(super) struct VentArgs {
     #[arg(long)]
     depressuring_check: bool,
     /// The depressuring check's fraction of the design gauge pressure.
-    #[arg(long, value_name = "X", default_value_t = 0.5)]
+    #[arg(long, value_name = "X", allow_hyphen_values = true, default_value_t = 0.5, value_parser = parse_fraction)]
     depressuring_fraction: f64,
     /// The depressuring check's cap on the gauge pressure to reach.
-    #[arg(long, value_name = "Q", default_value = "690 kPa", value_parser = units::parse_overpressure)]
+    #[arg(long, value_name = "Q", allow_hyphen_values = true, default_value = "690 kPa", value_parser = parse_cap)]
     depressuring_cap: Pressure,
     /// Free volume of the room the gas is vented into (without it: vented outdoors, no
     /// room calculation).
@@ -228,7 +229,7 @@ pub(super) struct VentArgs {
     #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_ventilation, requires = "room_volume")]
     ventilation: Option<Ventilation>,
     /// The depressuring check's time limit.
-    #[arg(long, value_name = "Q", default_value = "15 min", value_parser = units::parse_time)]
+    #[arg(long, value_name = "Q", allow_hyphen_values = true, default_value = "15 min", value_parser = parse_limit)]
     depressuring_limit: Time,
 }
 
@@ -238,13 +239,59 @@ pub(super) fn parse_gas(s: &str) -> Result<&'static Gas, String> {
 
 pub(super) fn parse_cd(s: &str) -> Result<f64, String> {
     let cd: f64 = s.trim().parse().map_err(|_| {
-        format!("'{s}' is not a number; accepted: a discharge coefficient in (0, 1], e.g. 0.61")
+        format!(
+            "'{s}' is not a number; accepted: a discharge coefficient from {} to 1, e.g. 0.61",
+            limits::MIN_CD
+        )
     })?;
-    if cd.is_finite() && cd > 0.0 && cd <= 1.0 {
-        Ok(cd)
-    } else {
-        Err(format!("{s} is outside (0, 1]; accepted: a discharge coefficient above 0 and at most 1 (0.61 sharp-edged, 0.97 well-rounded)"))
+    limits::cd(cd)?;
+    Ok(cd)
+}
+
+/// A vessel's or cylinder's volume.
+fn parse_vessel_volume(s: &str) -> Result<Volume, String> {
+    let v = units::parse_volume(s)?;
+    limits::volume(v)?;
+    Ok(v)
+}
+
+/// A time a fill or vent-down is planned for (`--duration`, `--within`).
+fn parse_planned_time(s: &str) -> Result<Time, String> {
+    let t = units::parse_time(s)?;
+    limits::planned_time(t)?;
+    Ok(t)
+}
+
+/// A fill rate: a ramp or a mass flow, each in its range.
+fn parse_fill_rate(s: &str) -> Result<units::RateReading, String> {
+    let r = units::parse_rate(s)?;
+    match r {
+        units::RateReading::Pressure(p) => limits::ramp(p)?,
+        units::RateReading::Mass(m) => limits::mass_flow(m)?,
     }
+    Ok(r)
+}
+
+fn parse_fraction(s: &str) -> Result<f64, String> {
+    let x: f64 = s.trim().parse().map_err(|_| {
+        format!(
+            "'{s}' is not a number; accepted: a fraction of the design gauge pressure, e.g. 0.5"
+        )
+    })?;
+    limits::depressuring_fraction(x)?;
+    Ok(x)
+}
+
+fn parse_cap(s: &str) -> Result<Pressure, String> {
+    let p = units::parse_overpressure(s)?;
+    limits::depressuring_cap(p)?;
+    Ok(p)
+}
+
+fn parse_limit(s: &str) -> Result<Time, String> {
+    let t = units::parse_time(s)?;
+    limits::depressuring_limit(t)?;
+    Ok(t)
 }
 
 /// The absolute ambient pressure from `--ambient-pressure` or `--elevation`.
@@ -308,8 +355,11 @@ pub(super) fn render<R: serde::Serialize>(
 where
     for<'a> &'a R: Into<Worksheet>,
 {
+    // Every result is checked for finiteness whichever the output: the ranges of the inputs
+    // keep them finite, so a failure here is a defect (exit 1), never a printed NaN.
+    let text = to_json(report).map_err(Failure::Internal)?;
     if json {
-        to_json(report).map(|s| s + "\n").map_err(Failure::Internal)
+        Ok(text + "\n")
     } else {
         Ok(render_text(&report.into(), system))
     }
@@ -375,11 +425,21 @@ pub(super) fn fill_command(a: FillArgs) -> Result<String, Failure> {
         ambient_temperature: a.ambient_temperature,
         rated_temperature: a.rated_temperature,
     };
+    if let Some(supply) = input.supply_pressure.filter(|s| *s < input.to) {
+        return Err(InputError::new(
+            "supply-pressure",
+            format!("{} bar(a)", fmt_sig(supply.get::<pascal>() / 1e5, 6)),
+            format!(
+                "is below the pressure the fill stops at (--to, {} bar(a)): a supply cannot fill a cylinder above its own pressure; accepted: a supply pressure at or above --to",
+                fmt_sig(input.to.get::<pascal>() / 1e5, 5)
+            ),
+        )
+        .into());
+    }
     let rate = match (a.rate, a.duration) {
         (Some(units::RateReading::Pressure(r)), _) => Some(FillRate::Ramp(r)),
         (Some(units::RateReading::Mass(m)), _) => Some(FillRate::MassFlow(m)),
         (None, Some(d)) => {
-            check_range("duration", d.get::<uom::si::time::second>(), "s", 1e-3, 1e7)?;
             Some(FillRate::Ramp(units::PressureRate {
                 // The pressure gained in one second of a steady ramp over `d`.
                 per_second: (input.to - input.from) / d.get::<uom::si::time::second>(),
@@ -484,11 +544,19 @@ fn planned_fill(
             0.1,
         )?;
     }
-    let rate_si = match rate {
-        FillRate::Ramp(r) => r.per_second.get::<pascal>(),
-        FillRate::MassFlow(m) => m.get::<uom::si::mass_rate::kilogram_per_second>(),
-    };
-    check_range("rate", rate_si, "SI units per second", 1e-9, 1e9)?;
+    // A ramp from --duration: the rate the duration gives, in the ramp's range.
+    if let (FillRate::Ramp(r), Some(d)) = (rate, a.duration) {
+        limits::ramp(r).map_err(|problem| {
+            InputError::new(
+                "duration",
+                format!("{} s", fmt_sig(d.get::<uom::si::time::second>(), 6)),
+                format!(
+                    "gives a ramp of {} bar/min, {problem}",
+                    fmt_sig(r.per_second.get::<pascal>() * 60.0 / 1e5, 4)
+                ),
+            )
+        })?;
+    }
     Ok(PlannedFill {
         rate,
         inlet: a.inlet_diameter,
@@ -511,6 +579,13 @@ pub(super) fn exchange(
             "the wall cannot be estimated: the estimate rests on the gauge pressure, which is zero here; accepted: give --wall-mass (or --empty-mass for a cylinder)",
         ));
     }
+    if wall.estimated {
+        check_range("wall-mass", kg, "kg", 0.0, 1e7).map_err(|e| InputError {
+            value: format!("{} (estimated, not given)", e.value),
+            problem: "the wall estimated from the volume, the design pressure and the material is outside the masses the model takes; accepted: give --wall-mass, above 0 and at most 10000000 kg".into(),
+            ..e
+        })?;
+    }
     check_range("wall-mass", kg, "kg", 0.0, 1e7)?;
     if let Some(h) = w.inner_coefficient {
         check_range("inner-coefficient", h, "W/m2K", 1e-6, 1e7)?;
@@ -524,7 +599,7 @@ pub(super) fn exchange(
     })
 }
 
-/// Refuses `value` outside (lo, hi].
+/// Refuses `value` outside (lo, hi], in `unit`.
 pub(super) fn check_range(
     field: &str,
     value: f64,
@@ -537,9 +612,23 @@ pub(super) fn check_range(
     } else {
         Err(InputError::new(
             field,
-            format!("{value} {unit}"),
-            format!("outside the range accepted; accepted: above {lo} and at most {hi} {unit}"),
+            format!("{} {unit}", compact(value)),
+            format!(
+                "outside the range accepted; accepted: above {} and at most {} {unit}",
+                compact(lo),
+                compact(hi)
+            ),
         ))
+    }
+}
+
+/// A number in few characters: as Rust prints it, or in exponent form where that is long.
+pub(super) fn compact(x: f64) -> String {
+    let plain = format!("{x}");
+    if plain.len() <= 12 {
+        plain
+    } else {
+        fmt_sig(x, 4)
     }
 }
 
@@ -569,7 +658,7 @@ pub(super) fn write_csv(
     let files = record::Files {
         files: vec![(path.to_path_buf(), text.as_bytes())],
     };
-    files.write(false).map(|_| ()).map_err(|e| match e {
+    files.write(record::Mode::New).map(|_| ()).map_err(|e| match e {
         record::RecordError::Exists(p) => Failure::Refused(format!(
             "{} already exists; the CSV is not written over an existing file: choose another --csv path",
             p.display()
@@ -585,6 +674,18 @@ pub(super) fn vent_command(a: VentArgs) -> Result<String, Failure> {
         Some(r) => absolute("down-to", r, pa)?,
         None => pa * (1.0 + vent::DEFAULT_TARGET_MARGIN),
     };
+    let start = absolute("pressure", a.pressure, pa)?;
+    if a.down_to.is_some() && down_to >= start {
+        return Err(InputError::new(
+            "down-to",
+            format!("{} bar(a)", fmt_sig(down_to.get::<pascal>() / 1e5, 6)),
+            format!(
+                "is not below the starting pressure (--pressure, {} bar(a)), so there is nothing to vent; accepted: a target below --pressure",
+                fmt_sig(start.get::<pascal>() / 1e5, 5)
+            ),
+        )
+        .into());
+    }
     let input = VentInput {
         volume: a.volume,
         pressure: absolute("pressure", a.pressure, pa)?,
@@ -625,13 +726,6 @@ pub(super) fn vent_command(a: VentArgs) -> Result<String, Failure> {
         wall_args.heat_transfer = Some(wall_args.heat_transfer.unwrap_or(HeatTransfer::Lumped));
         let exchange = exchange(&wall_args, wall, input.temperature, heat::VESSEL_ASPECT)?;
         let check = if a.depressuring_check {
-            check_range(
-                "depressuring-fraction",
-                a.depressuring_fraction,
-                "",
-                0.0,
-                1.0,
-            )?;
             let target = Pressure::new::<pascal>(
                 (a.depressuring_fraction * design_gauge).min(a.depressuring_cap.get::<pascal>()),
             ) + pa;
@@ -665,6 +759,15 @@ pub(super) fn vent_command(a: VentArgs) -> Result<String, Failure> {
         room.as_ref(),
         Governing::Model,
     )?;
+    if let (Some(t), Some(d)) = (a.within, report.required_orifice_m) {
+        limits::required_orifice(d).map_err(|problem| {
+            InputError::new(
+                "within",
+                format!("{} s", fmt_sig(t.get::<uom::si::time::second>(), 6)),
+                problem,
+            )
+        })?;
+    }
     report.inputs.design_pressure_pa = given.filter(|_| wall.is_some());
     if let (Some((_, Some(path))), Some(t)) = (&wall, &report.transient) {
         write_csv(path, &t.samples)?;

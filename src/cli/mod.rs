@@ -81,7 +81,8 @@ impl From<InputError> for Failure {
 
 /// Runs the command line `args` and writes its output to `out`; returns the exit code.
 pub fn run(args: impl IntoIterator<Item = std::ffi::OsString>, out: &mut dyn Write) -> i32 {
-    let cli = match Cli::try_parse_from(args) {
+    let args: Vec<std::ffi::OsString> = args.into_iter().collect();
+    let cli = match Cli::try_parse_from(&args) {
         Ok(cli) => cli,
         Err(e) => {
             let code = if e.use_stderr() {
@@ -105,7 +106,7 @@ pub fn run(args: impl IntoIterator<Item = std::ffi::OsString>, out: &mut dyn Wri
             }
         },
         Err(Failure::Input(e)) => {
-            eprintln!("pvhazard: error: --{}", e);
+            eprintln!("pvhazard: error: --{}", as_typed(e, &args));
             EXIT_BAD_INPUT
         }
         Err(Failure::File(e)) => {
@@ -121,6 +122,30 @@ pub fn run(args: impl IntoIterator<Item = std::ffi::OsString>, out: &mut dyn Wri
             EXIT_INTERNAL
         }
     }
+}
+
+/// The error with its value as the user typed it, where the field is an option given once on
+/// the command line: a rule sees SI numbers, and "1e300 m3" reads better than 301 digits.
+fn as_typed(mut e: InputError, args: &[std::ffi::OsString]) -> InputError {
+    let flag = format!("--{}", e.field);
+    let given: Vec<String> = args
+        .iter()
+        .enumerate()
+        .filter_map(|(i, a)| {
+            let a = a.to_string_lossy();
+            if a == flag {
+                args.get(i + 1).map(|v| v.to_string_lossy().into_owned())
+            } else {
+                a.strip_prefix(&flag)
+                    .and_then(|rest| rest.strip_prefix('='))
+                    .map(str::to_string)
+            }
+        })
+        .collect();
+    if let [typed] = given.as_slice() {
+        e.value = crate::as_typed(typed);
+    }
+    e
 }
 
 /// The gas model `kind` for `gas`.

@@ -70,10 +70,24 @@ pub(super) struct CheckArgs {
     model: ModelKind,
 }
 
+/// Longest preparer's name accepted, in characters (it is printed, not a file name).
+const MAX_PREPARER: usize = 120;
+
+/// Latest worksheet date accepted, in seconds since 1970-01-01 UTC: the end of 9999, the
+/// last year a record's four-digit dates can hold.
+const LAST_EPOCH: i64 = 253_402_300_799;
+
 pub(super) fn parse_date(s: &str) -> Result<chrono::DateTime<chrono::FixedOffset>, String> {
-    chrono::DateTime::parse_from_rfc3339(s.trim()).map_err(|e| {
-        format!("'{s}' is not an RFC 3339 date and time ({e}); accepted: e.g. 2026-03-14T09:30:00+01:00 or 2026-03-14T08:30:00Z")
-    })
+    const ACCEPTED: &str =
+        "accepted: e.g. 2026-03-14T09:30:00+01:00 or 2026-03-14T08:30:00Z, from 1970 to 9999";
+    let d = chrono::DateTime::parse_from_rfc3339(s.trim())
+        .map_err(|e| format!("'{s}' is not an RFC 3339 date and time ({e}); {ACCEPTED}"))?;
+    if !(0..=LAST_EPOCH).contains(&d.timestamp()) {
+        return Err(format!(
+            "'{s}' is outside the years a record is dated in; {ACCEPTED}"
+        ));
+    }
+    Ok(d)
 }
 
 /// The worksheet date: `--date`, else SOURCE_DATE_EPOCH, else now; in the site's zone
@@ -88,10 +102,13 @@ pub(super) fn worksheet_date(
     if let Ok(epoch) = std::env::var("SOURCE_DATE_EPOCH") {
         let refused = || {
             Failure::Refused(format!(
-                "SOURCE_DATE_EPOCH = '{epoch}': not a number of seconds since 1970-01-01 UTC in range; accepted: e.g. 1773477000, or unset it and give --date"
+                "SOURCE_DATE_EPOCH = '{epoch}': not a whole number of seconds since 1970-01-01 UTC in range; accepted: 0 to {LAST_EPOCH} (the end of 9999), e.g. 1773477000, or unset it and give --date"
             ))
         };
         let secs: i64 = epoch.trim().parse().map_err(|_| refused())?;
+        if !(0..=LAST_EPOCH).contains(&secs) {
+            return Err(refused());
+        }
         let utc = chrono::DateTime::from_timestamp(secs, 0).ok_or_else(refused)?;
         return Ok(utc.with_timezone(&zone));
     }
@@ -136,6 +153,14 @@ pub(super) fn selected<'a>(
 }
 
 pub(super) fn worksheet_command(a: WorksheetArgs) -> Result<String, Failure> {
+    if let Some(wo) = &a.work_order {
+        record::check_name(wo)
+            .map_err(|problem| InputError::new("work-order", crate::as_typed(wo), problem))?;
+    }
+    if let Some(who) = &a.prepared_by {
+        record::check_text(who, MAX_PREPARER)
+            .map_err(|problem| InputError::new("prepared-by", crate::as_typed(who), problem))?;
+    }
     let site = site::load(&a.site)?;
     let items = selected(&site, &a.tag, a.all)?;
     let date = worksheet_date(a.date, site.time_zone)?;
@@ -198,34 +223,49 @@ pub(super) fn worksheet_command(a: WorksheetArgs) -> Result<String, Failure> {
     std::fs::create_dir_all(&a.out).map_err(|e| {
         Failure::Internal(format!("cannot create the folder {}: {e}", a.out.display()))
     })?;
-    let batches: Vec<record::Files> = records
-        .iter()
-        .map(|(_, _, stem, pdf, json)| record::Files {
-            files: vec![
-                (a.out.join(format!("{stem}.json")), json.as_bytes()),
-                (a.out.join(format!("{stem}.pdf")), pdf.as_slice()),
-            ],
-        })
-        .collect();
-    if !a.force {
-        if let Some(p) = batches.iter().flat_map(|b| b.existing()).next() {
-            return Err(Failure::Refused(
-                record::RecordError::Exists(p.to_path_buf()).to_string(),
-            ));
-        }
+    // One batch: every record is staged before any is linked in, and a failure takes back
+    // what this run linked in.
+    let batch = record::Files {
+        files: records
+            .iter()
+            .flat_map(|(_, _, stem, pdf, json)| {
+                [
+                    (a.out.join(format!("{stem}.json")), json.as_bytes()),
+                    (a.out.join(format!("{stem}.pdf")), pdf.as_slice()),
+                ]
+            })
+            .collect(),
+    };
+    let mode = if a.force {
+        record::Mode::Replace
+    } else {
+        record::Mode::Complete
+    };
+    let written = batch.write(mode).map_err(|e| match e {
+        record::RecordError::Exists(_) => Failure::Refused(e.to_string()),
+        record::RecordError::Io { .. } => Failure::Internal(e.to_string()),
+    })?;
+    if !written.stale.is_empty() {
+        eprintln!(
+            "pvhazard: removed {} temporary file(s) an interrupted run had left in {}",
+            written.stale.len(),
+            a.out.display()
+        );
     }
     let mut text = String::new();
-    for ((tag, (decision, highest), _, _, _), batch) in records.iter().zip(&batches) {
-        let written = batch.write(a.force).map_err(|e| match e {
-            record::RecordError::Exists(_) => Failure::Refused(e.to_string()),
-            record::RecordError::Io { .. } => Failure::Internal(e.to_string()),
-        })?;
-        let names: Vec<String> = written.iter().map(|p| p.display().to_string()).collect();
+    for ((tag, (decision, highest), _, _, _), files) in records.iter().zip(batch.files.chunks(2)) {
+        let names: Vec<String> = files.iter().map(|(p, _)| p.display().to_string()).collect();
         text.push_str(&format!(
             "{tag}: {} ({}; highest caution: {})\n",
             names.join(", "),
             decision.word(),
             highest.word()
+        ));
+    }
+    if !written.kept.is_empty() {
+        text.push_str(&format!(
+            "{} of these files were already there with the same contents (an earlier run of this command) and are kept as they are\n",
+            written.kept.len()
         ));
     }
     text.push_str(&skipped.concat());

@@ -67,14 +67,14 @@ pub fn parse_pressure(text: &str) -> Result<PressureReading, String> {
         let Some(rest) = norm.strip_prefix(base) else {
             continue;
         };
-        let p = Pressure::new::<pascal>(value * factor);
+        let p = Pressure::new::<pascal>(scaled(text, value * factor)?);
         return match rest {
             "g" | "(g)" | "gauge" | "(gauge)" => Ok(PressureReading::Gauge(p)),
             "a" | "(a)" | "abs" | "(abs)" | "absolute" | "(absolute)" => {
                 Ok(PressureReading::Absolute(p))
             }
             "" => Err(format!(
-                "a pressure must say gauge or absolute, and '{unit}' says neither: write '{v} {u}g' or '{v} {u}(g)' for gauge (above atmosphere), '{v} {u}a' or '{v} {u}(a)' for absolute (above vacuum); mixing the two is the classic error in this work",
+                "a pressure must say gauge or absolute, and '{unit}' says neither (mixing the two is the classic error in this work); accepted: '{v} {u}g' or '{v} {u}(g)' for gauge (above atmosphere), '{v} {u}a' or '{v} {u}(a)' for absolute (above vacuum)",
                 v = trim_number(text),
                 u = unit.trim()
             )),
@@ -95,9 +95,9 @@ pub fn parse_overpressure(text: &str) -> Result<Pressure, String> {
             continue;
         };
         return match rest {
-            "" | "g" | "(g)" => Ok(Pressure::new::<pascal>(value * factor)),
+            "" | "g" | "(g)" => Ok(Pressure::new::<pascal>(scaled(text, value * factor)?)),
             "a" | "(a)" | "abs" | "(abs)" => Err(format!(
-                "an overpressure is a difference above ambient, not an absolute pressure: write e.g. '{} {}'",
+                "an overpressure is a difference above ambient, not an absolute pressure; accepted: the same without the absolute mark, e.g. '{} {}'",
                 trim_number(text),
                 base_spelling(base)
             )),
@@ -239,7 +239,7 @@ pub fn parse_pressure_rate(text: &str) -> Result<PressureRate, String> {
         .map(|&(_, f)| f)
         .ok_or_else(|| unknown_unit(unit, "a pressure rate", ACCEPTED))?;
     Ok(PressureRate {
-        per_second: Pressure::new::<pascal>(value * factor / per),
+        per_second: Pressure::new::<pascal>(scaled(text, value * factor / per)?),
     })
 }
 
@@ -356,6 +356,7 @@ pub fn parse_temperature(text: &str) -> Result<ThermodynamicTemperature, String>
             ))
         }
     };
+    let kelvin_value = scaled(text, kelvin_value)?;
     if kelvin_value <= 0.0 {
         return Err(format!(
             "{} is at or below absolute zero (0 K = -273.15 C = -459.67 F); accepted: a temperature above absolute zero",
@@ -369,11 +370,24 @@ pub fn parse_temperature(text: &str) -> Result<ThermodynamicTemperature, String>
 fn lookup(text: &str, units: &[(&[&str], f64)], kind: &str, accepted: &str) -> Result<f64, String> {
     let (value, unit) = split(text)?;
     let norm = normalise(unit);
-    units
+    let factor = units
         .iter()
         .find(|(names, _)| names.contains(&norm.as_str()))
-        .map(|&(_, factor)| value * factor)
-        .ok_or_else(|| unknown_unit(unit, kind, accepted))
+        .map(|&(_, factor)| factor)
+        .ok_or_else(|| unknown_unit(unit, kind, accepted))?;
+    scaled(text, value * factor)
+}
+
+/// A value in SI, refused if the unit's factor took it past the largest finite number.
+fn scaled(text: &str, si: f64) -> Result<f64, String> {
+    if si.is_finite() {
+        Ok(si)
+    } else {
+        Err(format!(
+            "'{}' is too large to be a physical value; accepted: a finite number with its unit",
+            text.trim()
+        ))
+    }
 }
 
 /// Splits `text` into a finite number and the unit that follows it.
@@ -386,17 +400,19 @@ fn split(text: &str) -> Result<(f64, &str), String> {
         ));
     }
     let (number, unit) = t.split_at(end);
-    let value: f64 = number
-        .parse()
-        .map_err(|_| format!("'{number}' is not a number"))?;
+    let value: f64 = number.parse().map_err(|_| {
+        format!(
+            "'{number}' is not a number; accepted: a number followed by its unit, e.g. '10 barg'"
+        )
+    })?;
     if !value.is_finite() {
         return Err(format!(
-            "'{number}' is too large to be a physical value; accepted: a finite number"
+            "'{number}' is too large to be a physical value; accepted: a finite number with its unit"
         ));
     }
     if unit.trim().is_empty() {
         return Err(format!(
-            "'{t}' has no unit; every quantity needs one, e.g. '10 barg', '2 m3', '20 C'"
+            "'{t}' has no unit, and every quantity needs one; accepted: a number followed by its unit, e.g. '10 barg', '2 m3', '20 C'"
         ));
     }
     Ok((value, unit.trim()))
