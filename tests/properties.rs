@@ -268,3 +268,54 @@ proptest! {
         );
     }
 }
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(24))]
+
+    /// Over the accepted ranges (volume 1 mL to 100 m³, ramp 0.01 to 10 000 bar/min, wall
+    /// 1 g to 10 t), a fill with wall heat on the real gas never crawls on: it finishes
+    /// within the integrator's budget of 200 000 steps, or says it is not resolved.
+    #[test]
+    fn a_fill_with_wall_heat_stays_within_its_step_budget(
+        log_volume in -6.0f64..2.0,
+        log_ramp in -2.0f64..4.0,
+        log_wall in -3.0f64..4.0,
+        to_bar in 50.0f64..300.0,
+    ) {
+        let model = pvhazard::gas::RealGas::new(Gas::find("air").unwrap());
+        let t0 = ThermodynamicTemperature::new::<kelvin>(293.15);
+        let p = Pressure::new::<pascal>;
+        let (initial, supply) = (
+            model.state_pt(p(21e5), t0).unwrap(),
+            model.state_pt(p(to_bar * 1e5), t0).unwrap(),
+        );
+        let volume = Volume::new::<cubic_meter>(10f64.powf(log_volume));
+        let exchange = Exchange {
+            mode: HeatTransfer::Lumped,
+            wall: Wall::vessel(
+                pvhazard::heat::Material::CarbonSteel,
+                volume,
+                p(to_bar * 1e5),
+                Some(Mass::new::<uom::si::mass::kilogram>(10f64.powf(log_wall))),
+            ),
+            inner_coefficient: None,
+            ambient_temperature: t0,
+            aspect: pvhazard::heat::CYLINDER_ASPECT,
+        };
+        let case = FillCase {
+            volume,
+            initial: &initial,
+            supply: &supply,
+            to: p(to_bar * 1e5),
+            rate: FillRate::Ramp(PressureRate { per_second: p(10f64.powf(log_ramp) * 1e5 / 60.0) }),
+            inlet_diameter: None,
+        };
+        match transient::fill_once(&model, &case, &exchange) {
+            Ok(run) => {
+                prop_assert!(run.samples.len() <= 200_000, "{} steps", run.samples.len());
+                prop_assert!(run.energy_residual < 1e-6, "{}", run.energy_residual);
+            }
+            Err(e) => prop_assert!(e.to_string().contains("not resolved"), "{e}"),
+        }
+    }
+}
