@@ -5,10 +5,11 @@
 use assert_cmd::Command;
 use serde_json::Value;
 
-fn vent(args: &[&str]) -> Value {
+/// The JSON of a command that succeeds.
+fn run(command: &[&str], args: &[&str]) -> Value {
     let out = Command::cargo_bin("pvhazard")
         .unwrap()
-        .arg("vent")
+        .args(command)
         .args(args)
         .arg("--json")
         .assert()
@@ -17,6 +18,10 @@ fn vent(args: &[&str]) -> Value {
         .stdout
         .clone();
     serde_json::from_slice(&out).unwrap()
+}
+
+fn vent(args: &[&str]) -> Value {
+    run(&["vent"], args)
 }
 
 fn finding<'a>(v: &'a Value, hazard: &str) -> &'a Value {
