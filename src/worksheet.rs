@@ -520,7 +520,7 @@ fn vessel_parts(
             },
         },
         before_opening: t.calculations.contains(&Calculation::VentTarget),
-        vessel_mass: None,
+        vessel_mass: v.empty_mass,
     };
     let report = assess::energy(model, &energy_input, &ask)?;
     out.assessed(&report.verdict, &report.cautions, &report.basis);
@@ -539,8 +539,12 @@ fn vessel_parts(
                 );
             }
             Calculation::Distances => out.section(
-                "Exclusion zone and blast standoffs",
-                report.distance_entries(),
+                if report.fragments.is_some() {
+                    "Exclusion zone, blast standoffs and fragments"
+                } else {
+                    "Exclusion zone and blast standoffs"
+                },
+                [report.distance_entries(), report.fragment_entries()].concat(),
             ),
             Calculation::LiquidTest => {
                 let mut entries = report.liquid_test_entries();

@@ -995,6 +995,14 @@ impl EnergyReport {
         ]
     }
 
+    /// A burst's fragments, where the vessel's mass was given.
+    pub fn fragment_entries(&self) -> Vec<Entry> {
+        self.fragments
+            .as_ref()
+            .map(fragments::entries)
+            .unwrap_or_default()
+    }
+
     /// Exclusion distance and overpressure standoffs.
     pub fn distance_entries(&self) -> Vec<Entry> {
         let mut out = vec![result(
@@ -1072,10 +1080,7 @@ impl From<&EnergyReport> for Worksheet {
         let results = [
             r.stored_entries(),
             r.distance_entries(),
-            r.fragments
-                .as_ref()
-                .map(fragments::entries)
-                .unwrap_or_default(),
+            r.fragment_entries(),
             r.liquid_test_entries(),
             r.target_entries(),
         ]
