@@ -15,6 +15,7 @@ use uom::si::pressure::pascal;
 use crate::assess::Governing;
 use crate::atmosphere;
 use crate::gas::Gas;
+use crate::rules::room::Ventilation;
 use crate::source::{located, FileError, Source, Spanned};
 use crate::units::{self, PressureRate, PressureReading, UnitSystem};
 
@@ -44,6 +45,8 @@ pub struct Site {
     /// Which result governs the findings the wall model and a bound both assess, if the
     /// site says.
     pub governing: Option<Governing>,
+    /// The room the site's drains vent into, where one is named.
+    pub room: Option<SiteRoom>,
     /// The equipment, in file order.
     pub equipment: Vec<Equipment>,
     /// Where the site's own values stood.
@@ -182,6 +185,26 @@ pub struct Vessel {
     pub origin: Origin,
 }
 
+/// A room drains vent into: its free volume and its fresh air.
+#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
+pub struct SiteRoom {
+    /// Free volume.
+    #[serde(rename = "volume_m3")]
+    pub volume: Volume,
+    /// Fresh air (`0 /h` when not given: a closed room).
+    pub ventilation: Ventilation,
+}
+
+/// Where a drain discharges.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, serde::Serialize)]
+#[serde(rename_all = "lowercase")]
+pub enum VentTo {
+    /// Into the site's room.
+    Room,
+    /// Outdoors, or through a line to outside.
+    Outdoors,
+}
+
 /// A vent or drain path: the orifice that limits the flow.
 #[derive(Debug, Clone, serde::Serialize)]
 pub struct Drain {
@@ -192,6 +215,9 @@ pub struct Drain {
     pub orifice: Length,
     /// Its discharge coefficient.
     pub cd: f64,
+    /// Where it discharges: without a `to`, into the site's room where one is named, else
+    /// unstated.
+    pub to: Option<VentTo>,
 }
 
 /// A cylinder filled on site.
@@ -261,6 +287,8 @@ struct RawSite {
     time_zone: Option<Spanned<String>>,
     clearance: Option<Spanned<String>>,
     governing: Option<Spanned<String>>,
+    room_volume: Option<Spanned<String>>,
+    room_ventilation: Option<Spanned<String>>,
 }
 
 #[derive(Deserialize)]
@@ -288,6 +316,7 @@ struct RawDrain {
     description: Option<String>,
     orifice: Spanned<String>,
     cd: Option<Spanned<f64>>,
+    to: Option<Spanned<String>>,
 }
 
 #[derive(Deserialize)]
@@ -403,11 +432,34 @@ pub fn from_source(src: Source) -> Result<Site, FileError> {
         .as_ref()
         .map(|g| located(&src, "site.governing", g, parse_governing))
         .transpose()?;
+    let room = match (&s.room_volume, &s.room_ventilation) {
+        (None, None) => None,
+        (None, Some(v)) => {
+            return Err(src.error(
+                v.span().start,
+                "site.room_ventilation".to_string(),
+                "a room's ventilation without its volume; accepted: give site.room_volume too (e.g. '60 m3')".to_string(),
+            ))
+        }
+        (Some(v), vent) => Some(SiteRoom {
+            volume: located(&src, "site.room_volume", v, |t| {
+                let q = units::parse_volume(t)?;
+                crate::limits::volume(q)?;
+                Ok(q)
+            })?,
+            ventilation: vent
+                .as_ref()
+                .map(|x| located(&src, "site.room_ventilation", x, units::parse_ventilation))
+                .transpose()?
+                .unwrap_or(Ventilation::AirChanges(0.0)),
+        }),
+    };
 
     let ctx = Context {
         src: &src,
         ambient,
         ambient_temperature,
+        has_room: room.is_some(),
     };
     let mut equipment = Vec::new();
     for (i, v) in raw.vessel.iter().enumerate() {
@@ -466,6 +518,7 @@ pub fn from_source(src: Source) -> Result<Site, FileError> {
         time_zone,
         clearance,
         governing,
+        room,
         equipment,
     })
 }
@@ -475,6 +528,8 @@ struct Context<'a> {
     src: &'a Source,
     ambient: Pressure,
     ambient_temperature: ThermodynamicTemperature,
+    /// Whether the site names a room, for a drain's `to = "room"`.
+    has_room: bool,
 }
 
 impl Context<'_> {
@@ -533,6 +588,27 @@ impl Context<'_> {
                         x
                     }
                 };
+                let to = d
+                    .to
+                    .as_ref()
+                    .map(|t| {
+                        located(src, &key("drain.to"), t, |s| match s.trim() {
+                            "room" => Ok(VentTo::Room),
+                            "outdoors" => Ok(VentTo::Outdoors),
+                            _ => Err(format!(
+                                "'{s}' is not a place to vent to; accepted: \"room\" (the site's room_volume) or \"outdoors\""
+                            )),
+                        })
+                    })
+                    .transpose()?;
+                if to == Some(VentTo::Room) && !self.has_room {
+                    let t = d.to.as_ref().map_or(0, |t| t.span().start);
+                    return Err(src.error(
+                        t,
+                        key("drain.to"),
+                        "'room': the site names no room; accepted: give site.room_volume (and room_ventilation), or to = \"outdoors\"".to_string(),
+                    ));
+                }
                 Ok(Drain {
                     description: d
                         .description
@@ -540,6 +616,7 @@ impl Context<'_> {
                         .unwrap_or_else(|| "vent or drain".to_string()),
                     orifice,
                     cd,
+                    to,
                 })
             })
             .transpose()?;

@@ -10,7 +10,7 @@ use uom::si::{
 };
 
 use crate::assess::{
-    self, EnergyAsk, Finding, Governing, Hazard, PlannedFill, Verdict, WallVent, Work,
+    self, Discharge, EnergyAsk, Finding, Governing, Hazard, PlannedFill, Verdict, WallVent, Work,
 };
 use crate::caution::{deferral, distinct, ordered, Caution, Level, Note, Part};
 use crate::gas::GasModel;
@@ -19,11 +19,12 @@ use crate::rules::energy::{
     self, EnergyInput, DEFAULT_OVERPRESSURES_PA, DEFAULT_TNT_ENERGY_J_PER_KG,
 };
 use crate::rules::fill::FillInput;
+use crate::rules::room::Room;
 use crate::rules::transient::{
     self, CylinderMass, Depressuring, Exchange, FillRate, HeatTransfer, Wall,
 };
 use crate::rules::vent::{VentInput, DEFAULT_TARGET_MARGIN};
-use crate::site::{Cylinder, Equipment, EquipmentKind, Material, Site, Vessel};
+use crate::site::{Cylinder, Equipment, EquipmentKind, Material, Site, VentTo, Vessel};
 
 /// The depressuring check's cap on the gauge pressure to reach, Pa (690 kPa(g)).
 const DEPRESSURING_CAP_PA: f64 = 690.0e3;
@@ -652,7 +653,24 @@ fn vent_down(
         check: Some(check),
         exchange,
     };
-    let report = assess::vent(model, &input, Some(&wall_vent), None, governing(site, t))?;
+    let room = site.room.map(|r| Room {
+        volume: r.volume,
+        ventilation: r.ventilation,
+        temperature: site.ambient_temperature,
+        pressure: site.ambient,
+    });
+    let discharge = match (v.drain.as_ref().and_then(|d| d.to), &room) {
+        (Some(VentTo::Outdoors), _) => Discharge::Outdoors,
+        (_, Some(room)) => Discharge::Room(room),
+        (_, None) => Discharge::Unstated,
+    };
+    let report = assess::vent(
+        model,
+        &input,
+        Some(&wall_vent),
+        discharge,
+        governing(site, t),
+    )?;
     out.assessed(&report.verdict, &report.cautions, &report.basis);
     if let Some(warm) = &report.transient {
         out.section(
@@ -671,6 +689,9 @@ fn vent_down(
         "Vent-down on the ideal gas, for comparison",
         report.comparison_entries(),
     );
+    if report.release.is_some() {
+        out.section("Where the gas goes", report.release_entries());
+    }
     let series = |label: &str, right_axis: bool, points: Vec<(f64, f64)>| Series {
         label: label.to_string(),
         right_axis,

@@ -1706,3 +1706,72 @@ fn page_one_holds_the_decision_and_every_finding() {
         }
     }
 }
+
+#[test]
+fn a_site_room_takes_the_vented_gas_and_a_drain_outdoors_says_so() {
+    let dir = Scratch::new("room");
+    let text = read_text(&sample(LARKSPUR));
+    // The nitrogen drum's drain into the compressor house instead of the vent stack.
+    let indoors = dir.write(
+        "indoors.toml",
+        &edit(
+            &text,
+            "cd = 0.8, to = \"outdoors\"",
+            "cd = 0.8, to = \"room\"",
+        ),
+    );
+    let out = dir.path("out");
+    worksheet(&indoors, &out, &["--tag", "N2-201"])
+        .assert()
+        .success();
+    let record = names(&out)
+        .into_iter()
+        .find(|n| n.ends_with(".json"))
+        .expect("a record");
+    let v = json_file(&out.join(&record));
+    let found = v["verdict"]["findings"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .find(|f| f["hazard"] == "oxygen-depletion")
+        .expect("the room's oxygen finding")
+        .clone();
+    assert_eq!(found["basis"], "room, well mixed");
+    let pdf = out.join(record.replace(".json", ".pdf"));
+    assert!(pdf_text(&pdf).contains("Where the gas goes"));
+    // The sample site's own drain goes outdoors: a NOTICE, and no room computed.
+    let out = dir.path("sample");
+    worksheet(&sample(LARKSPUR), &out, &["--tag", "N2-201"])
+        .assert()
+        .success();
+    let pdf = names(&out)
+        .into_iter()
+        .find(|n| n.ends_with(".pdf"))
+        .unwrap();
+    let text = pdf_text(&out.join(pdf));
+    assert!(text.contains("vented outdoors"), "{text}");
+    assert!(!text.contains("Where the gas goes"));
+}
+
+#[test]
+fn a_drain_into_a_room_the_site_does_not_name_is_refused() {
+    let dir = Scratch::new("no-room");
+    let text = edit(
+        &read_text(&sample(LARKSPUR)),
+        "room_volume = \"180 m3\"\nroom_ventilation = \"2 /h\"\n",
+        "",
+    );
+    let site = dir.write(
+        "site.toml",
+        &edit(
+            &text,
+            "cd = 0.8, to = \"outdoors\"",
+            "cd = 0.8, to = \"room\"",
+        ),
+    );
+    worksheet(&site, &dir.path("out"), &["--tag", "N2-201"])
+        .assert()
+        .code(2)
+        .stderr(predicates::str::contains("vessel[3].drain.to"))
+        .stderr(predicates::str::contains("site.room_volume"));
+}

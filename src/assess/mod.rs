@@ -17,7 +17,7 @@ mod vent;
 pub use energy::{energy, EnergyAsk, Work};
 pub use fill::{fill, PlannedFill};
 pub use finding::{Decision, Finding, Hazard, Status, Verdict};
-pub use vent::{vent, WallVent};
+pub use vent::{vent, Discharge, WallVent};
 
 use crate::caution::{distinct, ordered, Caution, Note};
 

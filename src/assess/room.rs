@@ -261,3 +261,14 @@ fn capitalised(name: &str) -> String {
         .map(|f| f.to_uppercase().chain(c).collect())
         .unwrap_or_default()
 }
+
+/// The NOTICE for a vent outdoors: nothing computed for the room, and what to check.
+pub(super) fn outdoors(model: &dyn GasModel) -> Caution {
+    Caution::new(
+        Level::Notice,
+        format!(
+            "The {} is vented outdoors: no room atmosphere is computed. Check that the outlet discharges away from doors, air intakes, pits and where people work.",
+            model.gas().name
+        ),
+    )
+}

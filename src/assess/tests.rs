@@ -126,7 +126,7 @@ fn the_wall_model_governs_cold_metal_where_it_ran() {
     );
     assert_eq!(bound.verdict.decision, Decision::NoGo);
 
-    let alone = vent(&model, &input, None, None, Governing::Model).unwrap();
+    let alone = vent(&model, &input, None, Discharge::Unstated, Governing::Model).unwrap();
     let cold = alone.verdict.finding(Hazard::ColdMetal).unwrap();
     assert_eq!(
         cold.status,
@@ -203,7 +203,14 @@ fn a_fill_within_its_rating_at_the_planned_rate_carries_no_adiabatic_warning() {
     assert_banners_apply(&r.verdict, &r.cautions);
 
     // Without the planned rate the bound governs, and the action asks for the rate.
-    let alone = fill(&air(), &input, pa(AMBIENT_PA), None, Governing::Model).unwrap();
+    let alone = fill(
+        &air(),
+        &input,
+        pa(AMBIENT_PA),
+        Discharge::Unstated,
+        Governing::Model,
+    )
+    .unwrap();
     let t = alone.verdict.finding(Hazard::FillTemperature).unwrap();
     assert_eq!(
         (t.status, t.basis.as_str()),
@@ -309,7 +316,7 @@ fn one_banner_per_hazard_across_a_worksheets_calculations() {
     let a = energy(&model, &e, &ask).unwrap();
     let mut v = receiver_vent();
     v.pressure = pa(200e5);
-    let b = vent(&model, &v, None, None, Governing::Model).unwrap();
+    let b = vent(&model, &v, None, Discharge::Unstated, Governing::Model).unwrap();
     let merged = a.verdict.merged(b.verdict);
     for h in [Hazard::TwoPhase, Hazard::OxygenDepletion] {
         assert_eq!(merged.findings.iter().filter(|f| f.hazard == h).count(), 1);

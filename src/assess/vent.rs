@@ -23,13 +23,24 @@ pub struct WallVent {
     pub exchange: Exchange,
 }
 
+/// Where the vented gas goes.
+#[derive(Debug, Clone, Copy)]
+pub enum Discharge<'a> {
+    /// Not said: the gas's own hazard is named, nothing computed.
+    Unstated,
+    /// Outdoors or through a line to outside: no room to compute, and a NOTICE says so.
+    Outdoors,
+    /// Into this room: its atmosphere decides the gas's hazards.
+    Room(&'a Room),
+}
+
 /// The vent report of `input` with its findings, verdict, banners and basis; with the
-/// wall-model run when `wall` is given, and the atmosphere of the `room` vented into.
+/// wall-model run when `wall` is given, and where the gas goes.
 pub fn vent(
     model: &dyn GasModel,
     input: &VentInput,
     wall: Option<&WallVent>,
-    room: Option<&Room>,
+    discharge: Discharge,
     governing: Governing,
 ) -> Result<VentReport, InputError> {
     let out = vent::blow_down(model, input)?;
@@ -72,12 +83,16 @@ pub fn vent(
         ));
     }
     // The room, where given, decides the gas's own hazards; without one they are named.
-    if let Some(room) = room {
-        let r = room::release(model, &report, room);
-        found.extend(room::findings(model, &r));
-        basis.push(room::basis(model));
-        cautions.extend(room::pooling(model));
-        report.release = Some(r);
+    match discharge {
+        Discharge::Room(room) => {
+            let r = room::release(model, &report, room);
+            found.extend(room::findings(model, &r));
+            basis.push(room::basis(model));
+            cautions.extend(room::pooling(model));
+            report.release = Some(r);
+        }
+        Discharge::Outdoors => cautions.push(room::outdoors(model)),
+        Discharge::Unstated => {}
     }
     if let Some(g) = gas::released(model) {
         if !found.iter().any(|f| f.hazard == g.hazard) {

@@ -9,7 +9,7 @@ use uom::si::pressure::pascal;
 use uom::si::volume::cubic_meter;
 
 use super::Failure;
-use crate::assess::{self, EnergyAsk, Governing, PlannedFill, WallVent, Work};
+use crate::assess::{self, Discharge, EnergyAsk, Governing, PlannedFill, WallVent, Work};
 use crate::atmosphere;
 use crate::gas::{Gas, ModelKind};
 use crate::heat;
@@ -756,7 +756,7 @@ pub(super) fn vent_command(a: VentArgs) -> Result<String, Failure> {
         model.as_ref(),
         &input,
         wall.as_ref().map(|(w, _)| w),
-        room.as_ref(),
+        room.as_ref().map_or(Discharge::Unstated, Discharge::Room),
         Governing::Model,
     )?;
     if let (Some(t), Some(d)) = (a.within, report.required_orifice_m) {

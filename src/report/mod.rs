@@ -1177,6 +1177,14 @@ impl From<&FillReport> for Worksheet {
 }
 
 impl VentReport {
+    /// The room the gas is vented into, as given, and its atmosphere's results.
+    pub fn release_entries(&self) -> Vec<Entry> {
+        self.release
+            .as_ref()
+            .map(|r| [release::inputs(r), release::results(r)].concat())
+            .unwrap_or_default()
+    }
+
     /// The vent-down's results, with methods.
     pub fn result_entries(&self) -> Vec<Entry> {
         let method = "V·dρ/dt = −Cd·A·G(ρ), isentropic nozzle, integrated";

@@ -69,7 +69,8 @@ pub(super) fn results(r: &RoomRelease) -> Vec<Entry> {
     out.push(result(
         "Back within limits",
         match r.recovery_time {
-            Some(t) => Value::Time(t),
+            Some(t) if t.get::<uom::si::time::second>() > 0.0 => Value::Time(t),
+            Some(_) => Value::Text("never out of them".to_string()),
             None => Value::Text("never, without fresh air".to_string()),
         },
         "from the vent's start, ventilation clearing the room after it",
