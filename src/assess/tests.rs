@@ -97,7 +97,7 @@ fn the_wall_model_governs_cold_metal_where_it_ran() {
         &model,
         &input,
         Some(&receiver_wall()),
-        None,
+        Discharge::Unstated,
         Governing::Model,
     )
     .unwrap();
@@ -115,7 +115,7 @@ fn the_wall_model_governs_cold_metal_where_it_ran() {
         &model,
         &input,
         Some(&receiver_wall()),
-        None,
+        Discharge::Unstated,
         Governing::Bound,
     )
     .unwrap();
@@ -203,14 +203,7 @@ fn a_fill_within_its_rating_at_the_planned_rate_carries_no_adiabatic_warning() {
     assert_banners_apply(&r.verdict, &r.cautions);
 
     // Without the planned rate the bound governs, and the action asks for the rate.
-    let alone = fill(
-        &air(),
-        &input,
-        pa(AMBIENT_PA),
-        Discharge::Unstated,
-        Governing::Model,
-    )
-    .unwrap();
+    let alone = fill(&air(), &input, pa(AMBIENT_PA), None, Governing::Model).unwrap();
     let t = alone.verdict.finding(Hazard::FillTemperature).unwrap();
     assert_eq!(
         (t.status, t.basis.as_str()),
@@ -340,7 +333,7 @@ fn a_wall_run_without_heat_exchange_is_the_bound_not_the_model() {
         &air(),
         &receiver_vent(),
         Some(&wall),
-        None,
+        Discharge::Unstated,
         Governing::Model,
     )
     .unwrap();
