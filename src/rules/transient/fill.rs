@@ -303,9 +303,14 @@ pub fn fill(
             .map(|r| r.end.density.get::<kilogram_per_cubic_meter>() / target_density - 1.0)
             .unwrap_or(f64::NAN)
     };
-    let fill_to_pressure = crate::solve::root(gap, to_pa * 0.8, to_pa * 1.6, to_pa * 1e-9)
-        .ok()
-        .map(Pressure::new::<pascal>);
+    // The bracket kept within the model's range: a run beyond it is no answer.
+    let top = model
+        .max_pressure()
+        .map_or(f64::INFINITY, |p| p.get::<pascal>());
+    let fill_to_pressure =
+        crate::solve::root(gap, to_pa * 0.8, (to_pa * 1.6).min(top), to_pa * 1e-9)
+            .ok()
+            .map(Pressure::new::<pascal>);
     let result = FillTransient {
         run,
         peak_gas_upper,
