@@ -1163,3 +1163,22 @@ fn carbon_dioxide_that_would_freeze_on_expansion_is_refused_with_the_way_forward
     ideal.extend(["--model", "ideal"]);
     assert!(num(&json(&ideal), "/energy_j/isentropic") > 0.0);
 }
+
+#[test]
+fn energy_json_echoes_what_the_keep_back_distance_is_for() {
+    let base = [
+        "energy",
+        "--gas",
+        "air",
+        "--volume",
+        "2 m3",
+        "--pressure",
+        "10 barg",
+    ];
+    let v = json(&base);
+    assert_eq!(v["inputs"]["work"], "in-service");
+    assert_eq!(v["inputs"]["keep_back_overpressure_pa"], 6900.0);
+    let test = json(&[&base[..], &["--work", "pressure-test"]].concat());
+    assert_eq!(test["inputs"]["work"], "pressure-test");
+    assert!(test["inputs"]["keep_back_overpressure_pa"].is_null());
+}

@@ -79,6 +79,10 @@ pub fn energy(
             report.compare_with(&EnergyReport::new(&ideal, &input, out));
         }
     }
+    (report.inputs.work, report.inputs.keep_back_overpressure_pa) = match ask.work {
+        Work::InService { overpressure } => ("in-service", Some(overpressure)),
+        Work::PressureTest => ("pressure-test", None),
+    };
     let mut basis = std::mem::take(&mut report.basis);
     basis.push(zone_note(ask.work));
     (report.verdict, report.cautions, report.basis) = super::conclude(

@@ -106,6 +106,10 @@ pub struct EnergyInputs {
     pub clearance_m: Option<Length>,
     /// The empty vessel's mass, for the fragments, kg.
     pub empty_mass_kg: Option<Mass>,
+    /// What the keep-back distance is for: `in-service` or `pressure-test`.
+    pub work: &'static str,
+    /// For in-service work, the overpressure whose standoff keeps people back, Pa.
+    pub keep_back_overpressure_pa: Option<Pressure>,
 }
 
 /// One overpressure standoff.
@@ -136,6 +140,8 @@ impl EnergyReport {
                 mawp_pa: input.mawp,
                 clearance_m: input.clearance,
                 empty_mass_kg: None,
+                work: "in-service",
+                keep_back_overpressure_pa: None,
             },
             gas_mass_kg: r.gas_mass,
             energy_j: r.energy,
