@@ -19,7 +19,7 @@ use crate::rules::energy::{
     self, EnergyInput, DEFAULT_OVERPRESSURES_PA, DEFAULT_TNT_ENERGY_J_PER_KG,
 };
 use crate::rules::fill::FillInput;
-use crate::rules::room::Room;
+use crate::rules::room::{Room, RoomRelease, RoomSample};
 use crate::rules::transient::{
     self, CylinderMass, Depressuring, Exchange, FillRate, HeatTransfer, Wall,
 };
@@ -752,8 +752,77 @@ fn vent_down(
                 .collect(),
         });
     }
+    if let Some(room) = &report.release {
+        out.plots.push(room_plot(room));
+    }
     out.result("vent", &report);
     Ok(())
+}
+
+/// The room's atmosphere against time: the oxygen (or for a flammable gas its share of the
+/// room, or carbon dioxide) with the limits it is judged on.
+fn room_plot(room: &RoomRelease) -> Plot {
+    // (what is plotted, whether it is the oxygen, the limits drawn)
+    let (label, oxygen, limits) =
+        match (room.peak_flammable_fraction_of_lfl, room.peak_co2_fraction) {
+            (Some(_), _) => (
+                "Flammable gas in the room",
+                false,
+                vec![(
+                    room.peak_gas_fraction / room.peak_flammable_fraction_of_lfl.unwrap_or(1.0)
+                        * crate::rules::room::LFL_SHARE_LIMIT,
+                    "10 % of the LFL".to_string(),
+                )],
+            ),
+            (_, Some(_)) => (
+                "Carbon dioxide in the room",
+                false,
+                vec![(
+                    crate::rules::room::CO2_LIMITS.0,
+                    "3 % short-term limit".to_string(),
+                )],
+            ),
+            _ => (
+                "Oxygen in the room",
+                true,
+                match room.max_oxygen_fraction {
+                    Some(_) => vec![(crate::rules::room::OXYGEN_ENRICHED, "23.5 %".to_string())],
+                    None => vec![
+                        (crate::rules::room::OXYGEN_DEFICIENT, "19.5 %".to_string()),
+                        (crate::rules::room::OXYGEN_IMPAIRING, "18 %".to_string()),
+                    ],
+                },
+            ),
+        };
+    Plot {
+        title: "Where the gas goes: the room's atmosphere".to_string(),
+        x: Axis {
+            label: "Time".to_string(),
+            kind: AxisKind::Time,
+        },
+        left: Axis {
+            label: label.to_string(),
+            kind: AxisKind::Fraction,
+        },
+        right: None,
+        series: vec![Series {
+            label: label.to_string(),
+            right_axis: false,
+            points: room
+                .samples
+                .iter()
+                .map(|s: &RoomSample| {
+                    let y = if oxygen {
+                        s.oxygen_fraction
+                    } else {
+                        s.gas_fraction
+                    };
+                    (s.time.get::<second>(), y)
+                })
+                .collect(),
+        }],
+        limits,
+    }
 }
 
 fn cylinder_parts(

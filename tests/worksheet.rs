@@ -1738,7 +1738,10 @@ fn a_site_room_takes_the_vented_gas_and_a_drain_outdoors_says_so() {
         .clone();
     assert_eq!(found["basis"], "room, well mixed");
     let pdf = out.join(record.replace(".json", ".pdf"));
-    assert!(pdf_text(&pdf).contains("Where the gas goes"));
+    let text = pdf_text(&pdf);
+    assert!(text.contains("Where the gas goes"));
+    assert!(text.contains("the room's atmosphere"), "the room's plot");
+    assert!(text.contains("Largest orifice that keeps the room within limits"));
     // The sample site's own drain goes outdoors: a NOTICE, and no room computed.
     let out = dir.path("sample");
     worksheet(&sample(LARKSPUR), &out, &["--tag", "N2-201"])

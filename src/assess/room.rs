@@ -1,7 +1,7 @@
 //! Where the vented gas goes: the room's atmosphere while a vessel is vented into it, and
 //! the findings on oxygen, flammability and toxicity it decides.
 
-use uom::si::f64::{Pressure, ThermodynamicTemperature, Time};
+use uom::si::f64::{Length, Pressure, ThermodynamicTemperature, Time};
 use uom::si::time::second;
 use uom::si::volume::cubic_meter;
 
@@ -58,8 +58,13 @@ pub(super) fn release(model: &dyn GasModel, report: &VentReport, room: &Room) ->
     room::release(model.gas(), room, &released)
 }
 
-/// The findings the room's atmosphere decides, one per hazard the gas carries.
-pub(super) fn findings(model: &dyn GasModel, r: &RoomRelease) -> Vec<Finding> {
+/// The findings the room's atmosphere decides, one per hazard the gas carries; `orifice` is
+/// the vent's.
+pub(super) fn findings(
+    model: &dyn GasModel,
+    r: &RoomRelease,
+    orifice: Option<Length>,
+) -> Vec<Finding> {
     let basis = "room, well mixed";
     let gas = model.gas();
     let room_words = vec![
@@ -80,6 +85,10 @@ pub(super) fn findings(model: &dyn GasModel, r: &RoomRelease) -> Vec<Finding> {
                 fmt_sig(n, 2)
             ))),
             _ => {}
+        }
+        if let Some(d) = orifice.and_then(|o| r.largest_orifice(o)) {
+            a.push(Part::from(", or vent through an orifice no larger than "));
+            a.push(Part::from(Value::Diameter(d)));
         }
         match r.recovery_time {
             Some(t) if t.get::<second>() > 0.0 => {

@@ -86,7 +86,7 @@ pub fn vent(
     match discharge {
         Discharge::Room(room) => {
             let r = room::release(model, &report, room);
-            found.extend(room::findings(model, &r));
+            found.extend(room::findings(model, &r, input.orifice));
             basis.push(room::basis(model));
             cautions.extend(room::pooling(model));
             report.release = Some(r);

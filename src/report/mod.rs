@@ -1187,7 +1187,13 @@ impl VentReport {
     pub fn release_entries(&self) -> Vec<Entry> {
         self.release
             .as_ref()
-            .map(|r| [release::inputs(r), release::results(r)].concat())
+            .map(|r| {
+                [
+                    release::inputs(r),
+                    release::results(r, self.inputs.orifice_m),
+                ]
+                .concat()
+            })
             .unwrap_or_default()
     }
 
@@ -1262,7 +1268,7 @@ impl From<&VentReport> for Worksheet {
         }
         if let Some(room) = &r.release {
             inputs.extend(release::inputs(room));
-            results.extend(release::results(room));
+            results.extend(release::results(room, i.orifice_m));
         }
         Worksheet {
             title: format!("Vent-down — {}, {} gas model", r.gas, r.model.name()),

@@ -3,6 +3,7 @@
 use super::{entry, result, Entry};
 use crate::rules::room::{RoomRelease, Ventilation};
 use crate::units::Value;
+use uom::si::f64::Length;
 
 /// The room as given.
 pub(super) fn inputs(r: &RoomRelease) -> Vec<Entry> {
@@ -24,8 +25,8 @@ pub(super) fn inputs(r: &RoomRelease) -> Vec<Entry> {
     ]
 }
 
-/// The room's results, with methods.
-pub(super) fn results(r: &RoomRelease) -> Vec<Entry> {
+/// The room's results, with methods; `orifice` is the vent's.
+pub(super) fn results(r: &RoomRelease, orifice: Option<Length>) -> Vec<Entry> {
     const MIXED: &str = "room well mixed at ambient pressure, fresh air in, mixture out";
     let mut out = vec![result(
         "Gas vented into the room",
@@ -86,5 +87,15 @@ pub(super) fn results(r: &RoomRelease) -> Vec<Entry> {
         },
         "the least fresh air, solved on the room model",
     ));
+    if let Some(d) = orifice {
+        out.push(result(
+            "Largest orifice that keeps the room within limits",
+            match r.largest_orifice(d) {
+                Some(d) => Value::Diameter(d),
+                None => Value::Text("no orifice size changes it".to_string()),
+            },
+            "at this ventilation and Cd; the vent's time scales as 1/(Cd·A), as for the quasi-steady vent",
+        ));
+    }
     out
 }

@@ -9,7 +9,7 @@
 //! decays as exp(−ṅ_air·t/N): no step size enters the result.
 
 use serde::Serialize;
-use uom::si::f64::{Mass, Pressure, ThermodynamicTemperature, Time, Volume};
+use uom::si::f64::{Length, Mass, Pressure, ThermodynamicTemperature, Time, Volume};
 use uom::si::{
     mass::kilogram, pressure::pascal, thermodynamic_temperature::kelvin, time::second,
     volume::cubic_meter,
@@ -146,6 +146,33 @@ pub struct RoomRelease {
     /// The least ventilation, air changes per hour, that keeps the room within its limits
     /// for this vent (null when even 10 000 /h does not).
     pub ventilation_needed_per_h: Option<f64>,
+    /// The largest factor on the vent's flow area (the orifice's Cd·A) that keeps the room
+    /// within its limits at the given ventilation, the vent's time series scaled as a
+    /// quasi-steady vent scales (times as 1/A); null where no factor between a thousandth
+    /// and a thousand changes the answer (a closed room holds all the gas whatever the rate).
+    pub largest_area_factor: Option<f64>,
+    /// The room's atmosphere over the vent and its clearing after.
+    pub samples: Vec<RoomSample>,
+}
+
+/// One moment of the room's atmosphere.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct RoomSample {
+    /// Time from the vent's start.
+    #[serde(rename = "time_s")]
+    pub time: Time,
+    /// The vented gas's mole fraction.
+    pub gas_fraction: f64,
+    /// The oxygen's mole fraction.
+    pub oxygen_fraction: f64,
+}
+
+impl RoomRelease {
+    /// The largest orifice that keeps the room within its limits, for a vent through
+    /// `orifice`: scaled by the square root of the area factor, at the same Cd.
+    pub fn largest_orifice(&self, orifice: Length) -> Option<Length> {
+        Some(orifice * self.largest_area_factor?.sqrt())
+    }
 }
 
 /// The highest ventilation the search for the ventilation needed tries, air changes per
@@ -191,7 +218,52 @@ pub fn release(gas: &Gas, room: &Room, released: &[(f64, f64)]) -> RoomRelease {
         within_limits: peak <= limits.gas_fraction,
         recovery_time: run.recovery(limits.gas_fraction).map(Time::new::<second>),
         ventilation_needed_per_h: ventilation_needed,
+        largest_area_factor: largest_area_factor(gas, room, released, &limits),
+        samples: run
+            .with_decay(history)
+            .into_iter()
+            .map(|(t, x)| RoomSample {
+                time: Time::new::<second>(t),
+                gas_fraction: x,
+                oxygen_fraction: oxygen(x),
+            })
+            .collect(),
     }
+}
+
+/// The range of flow-area factors searched for the largest that keeps the room within its
+/// limits.
+const AREA_FACTORS: (f64, f64) = (1e-3, 1e3);
+
+/// The largest factor on the vent's flow area within [`AREA_FACTORS`] that keeps the room
+/// within `limits`: a quasi-steady vent through k times the area passes the same gas in
+/// 1/k of the time.
+fn largest_area_factor(
+    gas: &Gas,
+    room: &Room,
+    released: &[(f64, f64)],
+    limits: &Limits,
+) -> Option<f64> {
+    let within = |k: f64| {
+        let scaled: Vec<(f64, f64)> = released.iter().map(|&(t, m)| (t / k, m)).collect();
+        let run = Mixing::new(gas, room, &scaled);
+        run.within(limits, run.ventilation)
+    };
+    let (lo, hi) = AREA_FACTORS;
+    // A faster vent only raises the peak: the answer is a crossing, if there is one.
+    if within(hi) || !within(lo) {
+        return None;
+    }
+    let (mut a, mut b) = (lo.ln(), hi.ln());
+    while b - a > 1e-4 {
+        let mid = 0.5 * (a + b);
+        if within(mid.exp()) {
+            a = mid;
+        } else {
+            b = mid;
+        }
+    }
+    Some(a.exp())
 }
 
 /// The vented gas's mole fraction at which the oxygen fraction is `o2`, the gas itself
@@ -291,6 +363,25 @@ impl Mixing {
 
     fn history(&self) -> Vec<(f64, f64)> {
         self.history_with(self.ventilation)
+    }
+
+    /// `history` with the clearing after the vent: forty points over three of the fresh
+    /// air's time constants, or over as long again as the vent without fresh air.
+    fn with_decay(&self, mut history: Vec<(f64, f64)>) -> Vec<(f64, f64)> {
+        let Some(&(end, x)) = history.last() else {
+            return history;
+        };
+        let span = if self.ventilation > 0.0 {
+            3.0 * self.moles / self.ventilation
+        } else {
+            (end - history[0].0).max(1.0)
+        };
+        let rate = self.ventilation / self.moles;
+        history.extend((1..=40).map(|i| {
+            let dt = span * i as f64 / 40.0;
+            (end + dt, x * (-rate * dt).exp())
+        }));
+        history
     }
 
     /// Whether the fraction stays at or below the limits' with fresh air `air` mol/s. The
@@ -451,6 +542,20 @@ mod tests {
         assert!(at.min_oxygen_fraction.unwrap() < OXYGEN_DEFICIENT + 2e-4);
         let below = release(n2, &room(60.0, needed * 0.99), &released);
         assert!(!below.within_limits);
+        // With some fresh air, a small enough orifice keeps the room within its limits: at
+        // the largest, the released series run that much slower just stays within them.
+        let r = release(n2, &room(60.0, 2.0), &released);
+        let k = r.largest_area_factor.unwrap();
+        assert!(k < 1.0, "{k}");
+        let slower =
+            |f: f64| -> Vec<(f64, f64)> { released.iter().map(|&(t, m)| (t / f, m)).collect() };
+        assert!(release(n2, &room(60.0, 2.0), &slower(k * 0.999)).within_limits);
+        assert!(!release(n2, &room(60.0, 2.0), &slower(k * 1.01)).within_limits);
+        // A closed room holds all the gas whatever the rate: no orifice changes it.
+        assert_eq!(
+            release(n2, &room(60.0, 0.0), &released).largest_area_factor,
+            None
+        );
     }
 
     #[test]

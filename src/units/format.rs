@@ -21,6 +21,8 @@ pub enum AxisKind {
     Pressure,
     /// Temperature, SI kelvin.
     Temperature,
+    /// A mole or volume fraction, shown in percent.
+    Fraction,
 }
 
 /// A fraction as a percentage to three significant figures: `17.3 %`.
@@ -339,6 +341,7 @@ impl Display {
             (AxisKind::Pressure, UnitSystem::Us) => "psig",
             (AxisKind::Temperature, UnitSystem::Si) => "°C",
             (AxisKind::Temperature, UnitSystem::Us) => "°F",
+            (AxisKind::Fraction, _) => "%",
         }
     }
 
@@ -353,6 +356,7 @@ impl Display {
             }
             (AxisKind::Temperature, UnitSystem::Si) => si - 273.15,
             (AxisKind::Temperature, UnitSystem::Us) => (si - 273.15) * 9.0 / 5.0 + 32.0,
+            (AxisKind::Fraction, _) => si * 100.0,
         }
     }
 
