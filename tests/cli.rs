@@ -1182,3 +1182,29 @@ fn energy_json_echoes_what_the_keep_back_distance_is_for() {
     assert_eq!(test["inputs"]["work"], "pressure-test");
     assert!(test["inputs"]["keep_back_overpressure_pa"].is_null());
 }
+
+#[test]
+fn a_csv_to_standard_output_replaces_the_report() {
+    let out = text(&[
+        "fill",
+        "--gas",
+        "air",
+        "--volume",
+        "6.8 L",
+        "--from",
+        "20 barg",
+        "--to",
+        "300 barg",
+        "--rate",
+        "100 bar/min",
+        "--csv",
+        "-",
+    ]);
+    let mut lines = out.lines();
+    assert_eq!(
+        lines.next(),
+        Some("time_s,pressure_pa,gas_temperature_k,wall_temperature_k")
+    );
+    assert!(lines.all(|l| l.split(',').count() == 4), "{out}");
+    assert!(!std::path::Path::new("-").exists(), "no file named '-'");
+}

@@ -1778,3 +1778,15 @@ fn a_drain_into_a_room_the_site_does_not_name_is_refused() {
         .stderr(predicates::str::contains("vessel[3].drain.to"))
         .stderr(predicates::str::contains("site.room_volume"));
 }
+
+#[test]
+fn a_worksheet_without_a_tag_points_at_tag_and_all() {
+    let dir = Scratch::new("no-tag");
+    bare_worksheet(&sample(LARKSPUR), &dir.path("out"), &[])
+        .assert()
+        .code(2)
+        .stderr(predicates::str::contains("--tag"))
+        .stderr(predicates::str::contains("--all"))
+        .stderr(predicates::str::contains("AR-101"));
+    assert!(!dir.path("out").exists(), "nothing written");
+}

@@ -168,7 +168,7 @@ pub(super) struct WallArgs {
     /// Inner heat-transfer coefficient to use instead of the correlations (e.g. 500 W/m2K).
     #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_heat_coefficient)]
     inner_coefficient: Option<f64>,
-    /// Write the transient's time series (t, p, gas and wall temperature) to this CSV file.
+    /// Write the transient's time series (t, p, gas and wall temperature) to this CSV file (`-`: to standard output, in place of the report).
     #[arg(long, value_name = "FILE")]
     csv: Option<std::path::PathBuf>,
 }
@@ -486,7 +486,9 @@ pub(super) fn fill_command(a: FillArgs) -> Result<String, Failure> {
         }
     })?;
     if let (Some(path), Some(t)) = (&a.wall.csv, &report.transient) {
-        write_csv(path, &t.samples)?;
+        if let Some(csv) = write_csv(path, &t.samples)? {
+            return Ok(csv);
+        }
     }
     render(&report, a.common.json, a.common.units)
 }
@@ -633,10 +635,12 @@ pub(super) fn compact(x: f64) -> String {
 }
 
 /// Writes a transient's samples as CSV, never over an existing file.
+/// Writes the time series to `path` as CSV, never over an existing file; for `-`, returns
+/// the CSV to print on standard output in place of the report.
 pub(super) fn write_csv(
     path: &std::path::Path,
     samples: &[transient::Sample],
-) -> Result<(), Failure> {
+) -> Result<Option<String>, Failure> {
     use uom::si::thermodynamic_temperature::kelvin;
     // A composite cylinder's wrap node adds a column.
     let wrap = samples.iter().any(|s| s.wrap_temperature.is_some());
@@ -655,10 +659,13 @@ pub(super) fn write_csv(
         }
         text.push('\n');
     }
+    if path == std::path::Path::new("-") {
+        return Ok(Some(text));
+    }
     let files = record::Files {
         files: vec![(path.to_path_buf(), text.as_bytes())],
     };
-    files.write(record::Mode::New).map(|_| ()).map_err(|e| match e {
+    files.write(record::Mode::New).map(|_| None).map_err(|e| match e {
         record::RecordError::Exists(p) => Failure::Refused(format!(
             "{} already exists; the CSV is not written over an existing file: choose another --csv path",
             p.display()
@@ -770,7 +777,9 @@ pub(super) fn vent_command(a: VentArgs) -> Result<String, Failure> {
     }
     report.inputs.design_pressure_pa = given.filter(|_| wall.is_some());
     if let (Some((_, Some(path))), Some(t)) = (&wall, &report.transient) {
-        write_csv(path, &t.samples)?;
+        if let Some(csv) = write_csv(path, &t.samples)? {
+            return Ok(csv);
+        }
     }
     render(&report, a.common.json, a.common.units)
 }

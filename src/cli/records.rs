@@ -21,12 +21,7 @@ pub(super) struct WorksheetArgs {
     #[arg(value_name = "SITE.toml")]
     site: std::path::PathBuf,
     /// Tag of an item on the site; repeatable.
-    #[arg(
-        long,
-        value_name = "TAG",
-        required_unless_present = "all",
-        conflicts_with = "all"
-    )]
+    #[arg(long, value_name = "TAG", conflicts_with = "all")]
     tag: Vec<String>,
     /// Every item on the site.
     #[arg(long)]
@@ -124,6 +119,23 @@ pub(super) fn selected<'a>(
     if all {
         return Ok(site.equipment.iter().collect());
     }
+    let tags_on_site = || {
+        site.equipment
+            .iter()
+            .map(|e| e.tag())
+            .collect::<Vec<_>>()
+            .join(", ")
+    };
+    if tags.is_empty() {
+        return Err(InputError::new(
+            "tag",
+            "(none)",
+            format!(
+                "no item named; accepted: --tag TAG (repeatable) for one item or a few, or --all for every item on the site ({})",
+                tags_on_site()
+            ),
+        ));
+    }
     let mut chosen: Vec<&Equipment> = Vec::new();
     for t in tags {
         let item = site
@@ -136,11 +148,7 @@ pub(super) fn selected<'a>(
                     t.clone(),
                     format!(
                         "no item with this tag on the site; accepted: {}",
-                        site.equipment
-                            .iter()
-                            .map(|e| e.tag())
-                            .collect::<Vec<_>>()
-                            .join(", ")
+                        tags_on_site()
                     ),
                 )
             })?;
@@ -212,7 +220,8 @@ pub(super) fn worksheet_command(a: WorksheetArgs) -> Result<String, Failure> {
         ));
     }
     if progress {
-        eprintln!();
+        // Clear the progress line: the summary follows on standard output.
+        eprint!("\r{:<40}\r", "");
     }
     if records.is_empty() && !skipped.is_empty() {
         return Err(Failure::Refused(format!(
