@@ -1208,3 +1208,51 @@ fn a_csv_to_standard_output_replaces_the_report() {
     assert!(lines.all(|l| l.split(',').count() == 4), "{out}");
     assert!(!std::path::Path::new("-").exists(), "no file named '-'");
 }
+
+#[test]
+fn parse_errors_and_the_tools_own_share_one_style() {
+    // A value the parser refuses, a missing option, and a refusal by the rules: each one
+    // line (or block) starting "pvhazard: error:", exit 2.
+    for (args, starts) in [
+        (
+            vec![
+                "vent",
+                "--gas",
+                "air",
+                "--volume",
+                "2 m3",
+                "--pressure",
+                "10 barg",
+                "--orifice",
+                "12 mm",
+                "--cd",
+                "7",
+            ],
+            "pvhazard: error: --cd = '7': ",
+        ),
+        (
+            vec!["fill", "--gas", "air", "--volume", "6.8 L"],
+            "pvhazard: error: ",
+        ),
+        (
+            vec![
+                "fill",
+                "--gas",
+                "air",
+                "--volume",
+                "6.8 L",
+                "--from",
+                "20 barg",
+                "--to",
+                "300 barg",
+                "--rate",
+                "1e-3 bar/min",
+            ],
+            "pvhazard: error: --rate = '1e-3 bar/min': ",
+        ),
+    ] {
+        let out = pvhazard(&args).assert().code(2).get_output().stderr.clone();
+        let err = String::from_utf8(out).unwrap();
+        assert!(err.starts_with(starts), "{err}");
+    }
+}

@@ -84,15 +84,14 @@ pub fn run(args: impl IntoIterator<Item = std::ffi::OsString>, out: &mut dyn Wri
     let args: Vec<std::ffi::OsString> = args.into_iter().collect();
     let cli = match Cli::try_parse_from(&args) {
         Ok(cli) => cli,
-        Err(e) => {
-            let code = if e.use_stderr() {
-                EXIT_BAD_INPUT
-            } else {
-                EXIT_OK
-            };
-            // A failed write of help or an error message leaves nothing more to do.
+        Err(e) if !e.use_stderr() => {
+            // Help and version. A failed write leaves nothing more to do.
             let _ = e.print();
-            return code;
+            return EXIT_OK;
+        }
+        Err(e) => {
+            eprintln!("{}", parse_error(&e));
+            return EXIT_BAD_INPUT;
         }
     };
     match execute(cli.command) {
@@ -122,6 +121,29 @@ pub fn run(args: impl IntoIterator<Item = std::ffi::OsString>, out: &mut dyn Wri
             EXIT_INTERNAL
         }
     }
+}
+
+/// A command-line parse error in the tool's own style: a refused value as `pvhazard:
+/// error: --option = 'value': why; accepted: ...`, anything else as clap words it, with the
+/// same prefix and the usage hint.
+fn parse_error(e: &clap::Error) -> String {
+    use clap::error::{ContextKind, ContextValue, ErrorKind};
+    if let (
+        ErrorKind::ValueValidation,
+        Some(ContextValue::String(arg)),
+        Some(ContextValue::String(value)),
+    ) = (
+        e.kind(),
+        e.get(ContextKind::InvalidArg),
+        e.get(ContextKind::InvalidValue),
+    ) {
+        // `--from <Q>` names the option; the parser's own message says what is accepted.
+        let option = arg.split_whitespace().next().unwrap_or(arg);
+        let why = std::error::Error::source(e).map_or_else(String::new, |s| s.to_string());
+        return format!("pvhazard: error: {option} = '{value}': {why}");
+    }
+    let text = e.render().to_string();
+    format!("pvhazard: {}", text.trim_end())
 }
 
 /// The error with its value as the user typed it, where the field is an option given once on
