@@ -1256,3 +1256,11 @@ fn parse_errors_and_the_tools_own_share_one_style() {
         assert!(err.starts_with(starts), "{err}");
     }
 }
+
+#[test]
+fn help_gives_the_exit_codes() {
+    let help = text(&["--help"]);
+    for code in ["0 computed", "1 internal failure", "2 bad input", "3 `check`"] {
+        assert!(help.contains(code), "{code}: {help}");
+    }
+}

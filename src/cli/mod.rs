@@ -31,7 +31,13 @@ pub const EXIT_DANGER: i32 = 3;
 /// vessels, with cautions. Every quantity takes a unit; every pressure says gauge or
 /// absolute (`10 barg`, `2.5 bara`, `150 psig`, `101.3 kPa(a)`).
 #[derive(Debug, Parser)]
-#[command(name = "pvhazard", version, about, long_about = None)]
+#[command(
+    name = "pvhazard",
+    version,
+    about,
+    long_about = None,
+    after_help = "Exit codes: 0 computed (whatever the findings); 1 internal failure; 2 bad input (the message names the option or key, the value as typed and what is accepted); 3 `check` found an item that raises DANGER."
+)]
 pub struct Cli {
     #[command(subcommand)]
     command: Command,
