@@ -1260,7 +1260,28 @@ fn parse_errors_and_the_tools_own_share_one_style() {
 #[test]
 fn help_gives_the_exit_codes() {
     let help = text(&["--help"]);
-    for code in ["0 computed", "1 internal failure", "2 bad input", "3 `check`"] {
+    for code in [
+        "0 computed",
+        "1 internal failure",
+        "2 bad input",
+        "3 `check`",
+    ] {
         assert!(help.contains(code), "{code}: {help}");
+    }
+}
+
+#[test]
+fn completions_are_printed_for_each_shell() {
+    for (shell, mark) in [
+        ("bash", "_pvhazard()"),
+        ("zsh", "#compdef pvhazard"),
+        ("fish", "complete -c pvhazard"),
+    ] {
+        let script = text(&["completions", shell]);
+        assert!(script.contains(mark), "{shell}");
+        assert!(
+            script.contains("room-volume"),
+            "{shell}: every option is offered"
+        );
     }
 }

@@ -57,6 +57,16 @@ enum Command {
     Worksheet(WorksheetArgs),
     /// Checks a site file and ranks its equipment by hazard; exits 3 if any item raises DANGER.
     Check(CheckArgs),
+    /// Shell completions for pvhazard, printed on standard output (e.g. `pvhazard completions
+    /// bash > ~/.local/share/bash-completion/completions/pvhazard`).
+    Completions(CompletionsArgs),
+}
+
+#[derive(Debug, clap::Args)]
+struct CompletionsArgs {
+    /// The shell: bash, elvish, fish, powershell or zsh.
+    #[arg(value_enum)]
+    shell: clap_complete::Shell,
 }
 
 /// Why a run stopped without a result.
@@ -194,5 +204,13 @@ fn execute(command: Command) -> Result<(String, i32), Failure> {
         Command::Gases(a) => gases::gases_command(a).map(computed),
         Command::Worksheet(a) => records::worksheet_command(a).map(computed),
         Command::Check(a) => records::check_command(a),
+        Command::Completions(a) => {
+            let mut script = Vec::new();
+            let mut cli = <Cli as clap::CommandFactory>::command();
+            clap_complete::generate(a.shell, &mut cli, "pvhazard", &mut script);
+            String::from_utf8(script)
+                .map(computed)
+                .map_err(|e| Failure::Internal(e.to_string()))
+        }
     }
 }
