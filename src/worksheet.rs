@@ -763,37 +763,35 @@ fn vent_down(
 /// room, or carbon dioxide) with the limits it is judged on.
 fn room_plot(room: &RoomRelease) -> Plot {
     // (what is plotted, whether it is the oxygen, the limits drawn)
-    let (label, oxygen, limits) =
-        match (room.peak_flammable_fraction_of_lfl, room.peak_co2_fraction) {
-            (Some(_), _) => (
-                "Flammable gas in the room",
-                false,
-                vec![(
-                    room.peak_gas_fraction / room.peak_flammable_fraction_of_lfl.unwrap_or(1.0)
-                        * crate::rules::room::LFL_SHARE_LIMIT,
-                    "10 % of the LFL".to_string(),
-                )],
-            ),
-            (_, Some(_)) => (
-                "Carbon dioxide in the room",
-                false,
-                vec![(
-                    crate::rules::room::CO2_LIMITS.0,
-                    "3 % short-term limit".to_string(),
-                )],
-            ),
-            _ => (
-                "Oxygen in the room",
-                true,
-                match room.max_oxygen_fraction {
-                    Some(_) => vec![(crate::rules::room::OXYGEN_ENRICHED, "23.5 %".to_string())],
-                    None => vec![
-                        (crate::rules::room::OXYGEN_DEFICIENT, "19.5 %".to_string()),
-                        (crate::rules::room::OXYGEN_IMPAIRING, "18 %".to_string()),
-                    ],
-                },
-            ),
-        };
+    let (label, oxygen, limits) = match (room.lower_flammable_limit, room.peak_co2_fraction) {
+        (Some(lfl), _) => (
+            "Flammable gas in the room",
+            false,
+            vec![(
+                lfl * crate::rules::room::LFL_SHARE_LIMIT,
+                "10 % of the LFL".to_string(),
+            )],
+        ),
+        (_, Some(_)) => (
+            "Carbon dioxide in the room",
+            false,
+            vec![(
+                crate::rules::room::CO2_LIMITS.0,
+                "3 % short-term limit".to_string(),
+            )],
+        ),
+        _ => (
+            "Oxygen in the room",
+            true,
+            match room.max_oxygen_fraction {
+                Some(_) => vec![(crate::rules::room::OXYGEN_ENRICHED, "23.5 %".to_string())],
+                None => vec![
+                    (crate::rules::room::OXYGEN_DEFICIENT, "19.5 %".to_string()),
+                    (crate::rules::room::OXYGEN_IMPAIRING, "18 %".to_string()),
+                ],
+            },
+        ),
+    };
     Plot {
         title: "Where the gas goes: the room's atmosphere".to_string(),
         x: Axis {

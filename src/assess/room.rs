@@ -195,7 +195,7 @@ pub(super) fn findings(
             Finding::ok(Hazard::Flammable, basis, result)
         };
         // In the room's terms: the gas's fraction against a tenth of its LFL.
-        let lfl = room::lower_flammable_limit(gas).unwrap_or(1.0);
+        let lfl = r.lower_flammable_limit.unwrap_or(1.0);
         out.push(f.against(
             Value::Fraction(r.peak_gas_fraction),
             Some(Value::Fraction(LFL_SHARE_LIMIT * lfl)),

@@ -133,6 +133,8 @@ pub struct RoomRelease {
     /// Time with the oxygen below 18 %, s (null when it does not end).
     #[serde(rename = "time_below_18_percent_s")]
     pub time_impairing: Option<Time>,
+    /// The gas's lower flammable limit in air, mole fraction, for hydrogen and methane.
+    pub lower_flammable_limit: Option<f64>,
     /// The highest share of the lower flammable limit, for hydrogen and methane.
     pub peak_flammable_fraction_of_lfl: Option<f64>,
     /// The highest carbon dioxide fraction, for carbon dioxide.
@@ -213,6 +215,7 @@ pub fn release(gas: &Gas, room: &Room, released: &[(f64, f64)]) -> RoomRelease {
         max_oxygen_fraction: enriches.then(|| oxygen(peak)),
         time_deficient: below(OXYGEN_DEFICIENT),
         time_impairing: below(OXYGEN_IMPAIRING),
+        lower_flammable_limit: lfl,
         peak_flammable_fraction_of_lfl: lfl.map(|l| peak / l),
         peak_co2_fraction: (gas.name == "carbon-dioxide").then_some(peak),
         within_limits: peak <= limits.gas_fraction,
