@@ -1790,3 +1790,37 @@ fn a_worksheet_without_a_tag_points_at_tag_and_all() {
         .stderr(predicates::str::contains("AR-101"));
     assert!(!dir.path("out").exists(), "nothing written");
 }
+
+#[test]
+fn check_ranks_an_item_by_its_room_and_its_fragments() {
+    let dir = Scratch::new("check-room");
+    let site = dir.write(
+        "indoors.toml",
+        &edit(
+            &read_text(&sample(LARKSPUR)),
+            "cd = 0.8, to = \"outdoors\"",
+            "cd = 0.8, to = \"room\"",
+        ),
+    );
+    let summary = check_json(&site, 0);
+    let items = summary["items"].as_array().unwrap();
+    // The nitrogen drum venting into the compressor house is the one NO-GO, and leads.
+    assert_eq!(items[0]["tag"], "N2-201");
+    assert_eq!(items[0]["verdict"]["decision"], "no-go");
+    let status = |item: &Value, hazard: &str| {
+        item["verdict"]["findings"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .find(|f| f["hazard"] == hazard)
+            .map(|f| f["status"].clone())
+    };
+    assert_eq!(
+        status(&items[0], "oxygen-depletion"),
+        Some(Value::from("stop"))
+    );
+    // Every receiver has its empty mass on the site: each carries the fragments.
+    for item in items {
+        assert!(status(item, "fragments").is_some(), "{}", item["tag"]);
+    }
+}
