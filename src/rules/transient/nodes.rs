@@ -34,6 +34,13 @@ const SLICE_BOUNDS: (f64, f64) = (2e-5, 3e-3);
 /// A metal layer is one node. An insulating one (a composite wrap, a plastic liner) is cut
 /// through its thickness into slices, each lumped at its mid-thickness: conduction through
 /// a few millimetres of it takes minutes, as long as a fill, so one lumped node would put
+/// The conductance, W/K, of a convective film of coefficient `h` (W/(m²·K)) over `area`
+/// (m²) in series with a conduction resistance `r` (K/W), half a layer.
+pub(super) fn film_conductance(h: f64, area: f64, r: f64) -> f64 {
+    let ha = h * area;
+    ha / (1.0 + ha * r)
+}
+
 /// all its heat capacity behind half its thickness.
 pub(super) struct Nodes {
     /// Heat capacities, innermost first.
@@ -146,10 +153,7 @@ impl Nodes {
         h_inner: f64,
         duration: f64,
     ) -> Nodes {
-        let film = |h: f64, r: f64| {
-            let ha = h * area;
-            ha / (1.0 + ha * r)
-        };
+        let film = |h: f64, r: f64| film_conductance(h, area, r);
         let last = self.capacities.len() - 1;
         for i in 0..=last {
             let inward = if i == 0 {

@@ -186,11 +186,7 @@ impl<'a> Setup<'a> {
         t_gas: f64,
         y: &[f64],
     ) -> Flows {
-        // A convective film in series with half a layer: the conductance between them.
-        let series = |h: f64, r: f64| {
-            let ha = h * self.area;
-            ha / (1.0 + ha * r)
-        };
+        let series = |h: f64, r: f64| nodes::film_conductance(h, self.area, r);
         let (g_in, g_out) = (series(h_inner, n.r_inner), series(h_outer, n.r_outer));
         let mut t: Vec<f64> = (0..n.capacities.len())
             .map(|i| y[Nodes::index(i)])
