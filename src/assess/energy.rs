@@ -103,10 +103,7 @@ fn fragment_finding(f: &Fragments, clearance: Option<Length>) -> Finding {
         Part::from(" (with air drag; up to "),
         Part::from(Value::Distance(f.max_range)),
         Part::from(" without, at "),
-        Part::from(Value::Text(format!(
-            "{} m/s",
-            crate::units::fmt_sig(f.velocity.get::<uom::si::velocity::meter_per_second>(), 3)
-        ))),
+        Part::from(Value::Speed(f.velocity)),
         Part::from(" by Moore's equation)."),
     ];
     let basis = "Moore's equation, range with drag";

@@ -2,17 +2,14 @@
 
 use super::{result, Entry};
 use crate::rules::fragments::Fragments;
-use crate::units::{fmt_sig, Value};
+use crate::units::Value;
 
 /// The fragments' results, with methods.
 pub(super) fn entries(f: &Fragments) -> Vec<Entry> {
     vec![
         result(
             "Fragment velocity",
-            Value::Text(format!(
-                "{} m/s",
-                fmt_sig(f.velocity.get::<uom::si::velocity::meter_per_second>(), 3)
-            )),
+            Value::Speed(f.velocity),
             "Moore (1967): v = 1.092·√(E·G/M), G = 1/(1 + C/(2M)), E the isentropic energy",
         ),
         result(

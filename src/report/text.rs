@@ -110,6 +110,7 @@ pub fn value_text(v: &Value, d: &Display) -> String {
         Value::Time(t) => d.time(*t),
         Value::MassFlow(m) => d.mass_flow(*m),
         Value::PressureRate(r) => d.pressure_rate(*r),
+        Value::Speed(v) => d.speed(*v),
         Value::Fraction(x) => crate::units::percent(*x),
         Value::Number(x) => fmt_sig(*x, 3),
         Value::Text(s) => s.clone(),

@@ -2,12 +2,12 @@
 
 use uom::si::f64::{
     AvailableEnergy, Energy, Length, Mass, MassRate, Pressure, ThermodynamicTemperature, Time,
-    Volume,
+    Velocity, Volume,
 };
 use uom::si::{
     available_energy::joule_per_kilogram, energy::joule, length::meter, mass::kilogram,
     mass_rate::kilogram_per_second, pressure::pascal, thermodynamic_temperature::kelvin,
-    time::second, volume::cubic_meter,
+    time::second, velocity::meter_per_second, volume::cubic_meter,
 };
 
 use super::{J_PER_FT_LBF, KG_PER_LB, M3_PER_US_GAL, M_PER_FT, PA_PER_PSI};
@@ -59,6 +59,8 @@ pub enum Value {
     MassFlow(MassRate),
     /// A rate of pressure change, as the pressure gained in one second.
     PressureRate(Pressure),
+    /// A speed (a fragment's).
+    Speed(Velocity),
     /// A mole or volume fraction (0–1), shown as a percentage.
     Fraction(f64),
     /// A plain number with its meaning.
@@ -83,6 +85,7 @@ impl Value {
             Value::Time(t) => (t.get::<second>(), "s"),
             Value::MassFlow(m) => (m.get::<kilogram_per_second>(), "kg/s"),
             Value::PressureRate(p) => (p.get::<pascal>(), "Pa/s"),
+            Value::Speed(v) => (v.get::<meter_per_second>(), "m/s"),
             Value::Fraction(x) => (*x, "1"),
             Value::Number(_) | Value::Text(_) => return None,
         })
@@ -248,6 +251,15 @@ impl Display {
         )
     }
 
+    /// A speed in m/s or ft/s.
+    pub fn speed(&self, v: Velocity) -> String {
+        let m_s = v.get::<meter_per_second>();
+        self.pair(
+            format!("{} m/s", fmt_sig(m_s, 3)),
+            format!("{} ft/s", fmt_sig(m_s / M_PER_FT, 3)),
+        )
+    }
+
     /// A mass flow in kg/s or lb/s.
     pub fn mass_flow(&self, m: MassRate) -> String {
         let kg = m.get::<kilogram_per_second>();
@@ -323,6 +335,7 @@ impl Display {
                     Value::Time(x) => full.time(*x),
                     Value::MassFlow(x) => full.mass_flow(*x),
                     Value::PressureRate(x) => full.pressure_rate(*x),
+                    Value::Speed(x) => full.speed(*x),
                     Value::Fraction(x) => percent(*x),
                     Value::Number(x) => fmt_sig(*x, 3),
                     Value::Text(s) => s.clone(),
