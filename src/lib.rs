@@ -16,6 +16,7 @@ pub mod fuzz;
 pub mod gas;
 pub mod heat;
 pub mod limits;
+pub mod parallel;
 pub mod record;
 pub mod report;
 pub mod rules;

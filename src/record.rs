@@ -11,6 +11,7 @@
 use std::fs::{self, File};
 use std::io::Write;
 use std::path::{Path, PathBuf};
+use std::sync::Mutex;
 
 /// Why a record could not be written.
 #[derive(Debug, thiserror::Error)]
@@ -19,6 +20,14 @@ pub enum RecordError {
     /// silently.
     #[error("{} already exists and holds a different record; records are never overwritten: pass --force to replace it, or give another --work-order, --date or --out (to finish an interrupted run, repeat it with the same --date)", .0.display())]
     Exists(PathBuf),
+    /// The folder could not be made.
+    #[error("cannot create the folder {}: {source}", path.display())]
+    Folder {
+        /// The folder.
+        path: PathBuf,
+        /// The underlying error.
+        source: std::io::Error,
+    },
     /// The file system refused.
     #[error("cannot write {}: {source}; nothing of this run was left behind", path.display())]
     Io {
@@ -147,12 +156,6 @@ pub enum Mode {
     Replace,
 }
 
-/// The files of one batch: each target path and its bytes, written together.
-pub struct Files<'a> {
-    /// (target path, contents).
-    pub files: Vec<(PathBuf, &'a [u8])>,
-}
-
 /// What a write did.
 #[derive(Debug, Default)]
 pub struct Written {
@@ -164,66 +167,116 @@ pub struct Written {
     pub stale: Vec<PathBuf>,
 }
 
-/// A file to place: its target, its bytes, whether it replaces one, and its staged copy.
-struct Pending<'p> {
-    target: &'p Path,
+/// A staged file: its target, its order in the batch, whether it replaces one, and its
+/// staged copy.
+struct Pending {
+    target: PathBuf,
+    order: usize,
     replaces: bool,
     temp: PathBuf,
 }
 
-impl Files<'_> {
-    /// Writes every file, or none. Under a lock on each folder (a second run in the same
-    /// folder waits), stale temporaries are removed first, then every file is staged in
-    /// full and synced, then linked in under its name (a hard link, which never replaces,
-    /// or with [`Mode::Replace`] a rename after keeping the old file aside). Any failure
-    /// removes what this call linked in and puts back what it replaced.
-    pub fn write(&self, mode: Mode) -> Result<Written, RecordError> {
-        let mut folders: Vec<&Path> = self.files.iter().map(|(t, _)| folder(t)).collect();
-        folders.sort();
-        folders.dedup();
-        // Held until the end of the write; dropping a file releases its lock.
-        let _locks: Vec<Option<File>> = folders.iter().map(|d| lock(d)).collect();
-        let mut out = Written::default();
-        for d in &folders {
-            out.stale.extend(remove_stale(d));
-        }
-        let mut todo: Vec<(&Path, &[u8], bool)> = Vec::new();
-        for (target, bytes) in &self.files {
-            match fs::read(target) {
-                Ok(old) if old == *bytes && mode != Mode::New => out.kept.push(target.clone()),
-                Ok(_) if mode == Mode::Replace => todo.push((target, bytes, true)),
-                Ok(_) => return Err(RecordError::Exists(target.clone())),
-                Err(e) if e.kind() == std::io::ErrorKind::NotFound => {
-                    todo.push((target, bytes, false))
-                }
-                Err(source) => {
-                    return Err(RecordError::Io {
-                        path: target.clone(),
-                        source,
-                    })
-                }
+/// One batch of files written into one folder together: every file or none.
+///
+/// [`Batch::open`] takes a lock on the folder (a second run in the same folder waits) and
+/// removes the temporaries a killed run left there. [`Batch::add`] stages a file in full,
+/// synced, as a hidden temporary; it may be called from several threads at once, so that
+/// nothing but the files themselves is held while a long batch is computed. [`Batch::commit`]
+/// links every staged file in under its name (a hard link, which never replaces, or with
+/// [`Mode::Replace`] a rename after keeping the old file aside), in the order of the batch.
+/// Any failure takes back what the commit linked in and puts back what it replaced; a batch
+/// dropped without a commit removes its temporaries, and the folder if it made it and it is
+/// empty.
+pub struct Batch {
+    dir: PathBuf,
+    mode: Mode,
+    made_dir: bool,
+    // Held until the batch ends; dropping the file releases its lock.
+    _lock: Option<File>,
+    state: Mutex<State>,
+}
+
+struct State {
+    pending: Vec<Pending>,
+    written: Written,
+    stop: Stop,
+}
+
+impl Batch {
+    /// Opens a batch in `dir`, creating the folder if it is missing.
+    pub fn open(dir: &Path, mode: Mode) -> Result<Batch, RecordError> {
+        let made_dir = !dir.is_dir();
+        fs::create_dir_all(dir).map_err(|source| RecordError::Folder {
+            path: dir.to_path_buf(),
+            source,
+        })?;
+        let lock = lock(dir);
+        let written = Written {
+            stale: remove_stale(dir),
+            ..Written::default()
+        };
+        Ok(Batch {
+            dir: dir.to_path_buf(),
+            mode,
+            made_dir,
+            _lock: lock,
+            state: Mutex::new(State {
+                pending: Vec::new(),
+                written,
+                stop: Stop::from_env(),
+            }),
+        })
+    }
+
+    /// The folder the batch writes into.
+    pub fn dir(&self) -> &Path {
+        &self.dir
+    }
+
+    /// Stages `bytes` as the file `name` in the batch's folder, `order` placing it among
+    /// the batch's files when they are linked in. A file already there is refused, or with
+    /// [`Mode::Complete`] counted as written if it holds the same bytes.
+    pub fn add(&self, name: &str, order: usize, bytes: &[u8]) -> Result<(), RecordError> {
+        let target = self.dir.join(name);
+        let replaces = match fs::read(&target) {
+            Ok(old) if old == bytes && self.mode != Mode::New => {
+                self.state().written.kept.push(target);
+                return Ok(());
             }
-        }
-        let mut stop = Stop::from_env();
-        let mut pending = Vec::new();
-        for (target, bytes, replaces) in todo {
-            match stage(target, bytes) {
-                Ok(temp) => {
-                    pending.push(Pending {
-                        target,
-                        replaces,
-                        temp,
-                    });
-                    stop.step();
-                }
-                Err(e) => {
-                    remove_all(pending.iter().map(|p| p.temp.as_path()));
-                    return Err(e);
-                }
+            Ok(_) if self.mode == Mode::Replace => true,
+            Ok(_) => return Err(RecordError::Exists(target)),
+            Err(e) if e.kind() == std::io::ErrorKind::NotFound => false,
+            Err(source) => {
+                return Err(RecordError::Io {
+                    path: target,
+                    source,
+                })
             }
-        }
+        };
+        let temp = stage(&target, bytes)?;
+        let mut state = self.state();
+        state.pending.push(Pending {
+            target,
+            order,
+            replaces,
+            temp,
+        });
+        state.stop.step();
+        Ok(())
+    }
+
+    /// Links every staged file in, in the batch's order; every one or none.
+    pub fn commit(self) -> Result<Written, RecordError> {
+        let mut state = self.state();
+        let State {
+            pending,
+            written,
+            stop,
+        } = &mut *state;
+        pending.sort_by_key(|p| p.order);
+        written.kept.sort();
         let mut done: Vec<(&Pending, Option<PathBuf>)> = Vec::new();
-        for p in &pending {
+        for p in pending.iter() {
             match place(p) {
                 Ok(aside) => {
                     done.push((p, aside));
@@ -231,7 +284,6 @@ impl Files<'_> {
                 }
                 Err(e) => {
                     undo(&done);
-                    remove_all(pending.iter().map(|p| p.temp.as_path()));
                     return Err(e);
                 }
             }
@@ -242,17 +294,47 @@ impl Files<'_> {
                 let _ = fs::remove_file(a);
             }
             stop.step();
-            out.placed.push(p.target.to_path_buf());
+            written.placed.push(p.target.clone());
         }
-        for d in &folders {
-            // The names are in place once the folder is synced; a folder that cannot be
-            // opened for it (some platforms) is left to the file system.
-            if let Ok(f) = File::open(d) {
-                let _ = f.sync_all();
-            }
+        pending.clear();
+        // The names are in place once the folder is synced; a folder that cannot be opened
+        // for it (some platforms) is left to the file system.
+        if let Ok(f) = File::open(&self.dir) {
+            let _ = f.sync_all();
         }
-        Ok(out)
+        Ok(std::mem::take(written))
     }
+
+    fn state(&self) -> std::sync::MutexGuard<'_, State> {
+        // A thread that panicked while holding the lock leaves the list whole: each push is
+        // one step.
+        self.state.lock().unwrap_or_else(|e| e.into_inner())
+    }
+}
+
+impl Drop for Batch {
+    fn drop(&mut self) {
+        let state = self.state.get_mut().unwrap_or_else(|e| e.into_inner());
+        remove_all(state.pending.iter().map(|p| p.temp.as_path()));
+        if self.made_dir {
+            // Only an empty folder goes: what is left in it is not this run's to remove.
+            let _ = fs::remove_dir(&self.dir);
+        }
+    }
+}
+
+/// Writes one file as a batch of its own in its folder.
+pub fn write_one(target: &Path, bytes: &[u8], mode: Mode) -> Result<Written, RecordError> {
+    let name = target
+        .file_name()
+        .map(|n| n.to_string_lossy().into_owned())
+        .ok_or_else(|| RecordError::Io {
+            path: target.to_path_buf(),
+            source: std::io::Error::new(std::io::ErrorKind::InvalidInput, "not a file name"),
+        })?;
+    let batch = Batch::open(folder(target), mode)?;
+    batch.add(&name, 0, bytes)?;
+    batch.commit()
 }
 
 /// The variable that makes a write stop dead after so many steps (each file staged, each
@@ -378,9 +460,9 @@ fn place(p: &Pending) -> Result<Option<PathBuf>, RecordError> {
         }
     };
     if p.replaces {
-        let aside = temporary(p.target, "replaced");
-        fs::hard_link(p.target, &aside).map_err(io)?;
-        if let Err(e) = fs::rename(&p.temp, p.target) {
+        let aside = temporary(&p.target, "replaced");
+        fs::hard_link(&p.target, &aside).map_err(io)?;
+        if let Err(e) = fs::rename(&p.temp, &p.target) {
             let _ = fs::remove_file(&aside);
             return Err(io(e));
         }
@@ -388,7 +470,7 @@ fn place(p: &Pending) -> Result<Option<PathBuf>, RecordError> {
     } else {
         // A hard link fails if the target exists, so a file that appeared since the check
         // is still not overwritten.
-        fs::hard_link(&p.temp, p.target).map_err(io)?;
+        fs::hard_link(&p.temp, &p.target).map_err(io)?;
         Ok(None)
     }
 }
@@ -399,10 +481,10 @@ fn undo(done: &[(&Pending, Option<PathBuf>)]) {
         // Clean-up after a failure: the failure itself is what is reported.
         match aside {
             Some(a) => {
-                let _ = fs::rename(a, p.target);
+                let _ = fs::rename(a, &p.target);
             }
             None => {
-                let _ = fs::remove_file(p.target);
+                let _ = fs::remove_file(&p.target);
             }
         }
     }
@@ -479,31 +561,34 @@ mod tests {
         assert!(!is_temporary("..partial"));
     }
 
+    /// Writes `files` (name, bytes) as one batch in `d`.
+    fn write(d: &Path, files: &[(&str, &[u8])], mode: Mode) -> Result<Written, RecordError> {
+        let batch = Batch::open(d, mode)?;
+        for (order, (name, bytes)) in files.iter().enumerate() {
+            batch.add(name, order, bytes)?;
+        }
+        batch.commit()
+    }
+
     #[test]
     fn never_overwrites_without_replace_and_leaves_no_temporary_files() {
         let d = scratch("clobber");
-        let a = d.join("a.pdf");
-        let b = d.join("a.json");
-        let first = Files {
-            files: vec![(a.clone(), b"one"), (b.clone(), b"{}")],
-        };
-        first.write(Mode::Complete).unwrap();
-        let second = Files {
-            files: vec![(a.clone(), b"two"), (b.clone(), b"{}")],
-        };
+        let first: &[(&str, &[u8])] = &[("a.pdf", b"one"), ("a.json", b"{}")];
+        let second: &[(&str, &[u8])] = &[("a.pdf", b"two"), ("a.json", b"{}")];
+        write(&d, first, Mode::Complete).unwrap();
         assert!(matches!(
-            second.write(Mode::Complete),
+            write(&d, second, Mode::Complete),
             Err(RecordError::Exists(_))
         ));
         assert!(matches!(
-            first.write(Mode::New),
+            write(&d, first, Mode::New),
             Err(RecordError::Exists(_))
         ));
-        assert_eq!(fs::read(&a).unwrap(), b"one");
-        let w = second.write(Mode::Replace).unwrap();
-        assert_eq!(w.placed, vec![a.clone()]);
-        assert_eq!(w.kept, vec![b.clone()]);
-        assert_eq!(fs::read(&a).unwrap(), b"two");
+        assert_eq!(fs::read(d.join("a.pdf")).unwrap(), b"one");
+        let w = write(&d, second, Mode::Replace).unwrap();
+        assert_eq!(w.placed, vec![d.join("a.pdf")]);
+        assert_eq!(w.kept, vec![d.join("a.json")]);
+        assert_eq!(fs::read(d.join("a.pdf")).unwrap(), b"two");
         assert_eq!(listing(&d), ["a.json", "a.pdf"]);
         fs::remove_dir_all(&d).unwrap();
     }
@@ -511,18 +596,18 @@ mod tests {
     #[test]
     fn a_rerun_removes_stale_temporaries_and_completes_an_interrupted_batch() {
         let d = scratch("complete");
-        let files: Vec<(PathBuf, &[u8])> = vec![
-            (d.join("r1.json"), b"{1}"),
-            (d.join("r1.pdf"), b"pdf 1"),
-            (d.join("r2.json"), b"{2}"),
-            (d.join("r2.pdf"), b"pdf 2"),
+        let files: &[(&str, &[u8])] = &[
+            ("r1.json", b"{1}"),
+            ("r1.pdf", b"pdf 1"),
+            ("r2.json", b"{2}"),
+            ("r2.pdf", b"pdf 2"),
         ];
         // What a killed run leaves: one record's JSON linked in, staged copies of the rest.
-        fs::write(&files[0].0, files[0].1).unwrap();
+        fs::write(d.join(files[0].0), files[0].1).unwrap();
         fs::write(d.join(".r1.json.4242.partial"), b"{1}").unwrap();
         fs::write(d.join(".r2.pdf.4242.partial"), b"pdf").unwrap();
         fs::write(d.join(".r1.pdf.4242.replaced"), b"old").unwrap();
-        let w = Files { files }.write(Mode::Complete).unwrap();
+        let w = write(&d, files, Mode::Complete).unwrap();
         assert_eq!(w.stale.len(), 3, "{:?}", w.stale);
         assert_eq!(w.kept, vec![d.join("r1.json")]);
         assert_eq!(w.placed.len(), 3);
@@ -538,21 +623,61 @@ mod tests {
         // A dangling link reads as missing but refuses the link: the second file fails
         // after the first is placed, as when another writer gets there first.
         std::os::unix::fs::symlink(d.join("nowhere"), d.join("b.pdf")).unwrap();
-        let r = Files {
-            files: vec![(d.join("a.json"), b"{}"), (d.join("b.pdf"), b"pdf")],
-        }
-        .write(Mode::Complete);
+        let r = write(&d, &[("a.json", b"{}"), ("b.pdf", b"pdf")], Mode::Complete);
         assert!(matches!(r, Err(RecordError::Exists(_))), "{r:?}");
         assert_eq!(listing(&d), ["b.pdf"]);
         // A replacement that fails part-way puts the old file back.
         fs::write(d.join("a.json"), b"old").unwrap();
-        let r = Files {
-            files: vec![(d.join("a.json"), b"new"), (d.join("b.pdf"), b"pdf")],
-        }
-        .write(Mode::Replace);
+        let r = write(&d, &[("a.json", b"new"), ("b.pdf", b"pdf")], Mode::Replace);
         assert!(r.is_err());
         assert_eq!(fs::read(d.join("a.json")).unwrap(), b"old");
         assert_eq!(listing(&d), ["a.json", "b.pdf"]);
+        fs::remove_dir_all(&d).unwrap();
+    }
+
+    #[test]
+    fn files_staged_from_several_threads_are_linked_in_the_batch_order() {
+        let d = scratch("threads");
+        let out = d.join("made");
+        let batch = Batch::open(&out, Mode::New).unwrap();
+        std::thread::scope(|s| {
+            for t in 0..4 {
+                let batch = &batch;
+                s.spawn(move || {
+                    for i in (t..40).step_by(4) {
+                        batch.add(&format!("r{i:02}"), 39 - i, b"x").unwrap();
+                    }
+                });
+            }
+        });
+        let w = batch.commit().unwrap();
+        let names: Vec<String> = w
+            .placed
+            .iter()
+            .map(|p| p.file_name().unwrap().to_string_lossy().into_owned())
+            .collect();
+        let expected: Vec<String> = (0..40).rev().map(|i| format!("r{i:02}")).collect();
+        assert_eq!(names, expected);
+        assert_eq!(listing(&out).len(), 40);
+        fs::remove_dir_all(&d).unwrap();
+    }
+
+    #[test]
+    fn a_batch_dropped_without_a_commit_leaves_nothing_not_even_its_folder() {
+        let d = scratch("dropped");
+        let out = d.join("made");
+        let batch = Batch::open(&out, Mode::New).unwrap();
+        batch.add("a.pdf", 0, b"pdf").unwrap();
+        assert_eq!(listing(&out).len(), 1, "the staged temporary");
+        drop(batch);
+        assert!(!out.exists());
+        // A folder that was there stays, with what was in it.
+        fs::create_dir_all(&out).unwrap();
+        fs::write(out.join("keep.txt"), b"k").unwrap();
+        let batch = Batch::open(&out, Mode::New).unwrap();
+        batch.add("b.pdf", 0, b"pdf").unwrap();
+        drop(batch);
+        assert_eq!(listing(&out), ["keep.txt"]);
         fs::remove_dir_all(&d).unwrap();
     }
 }

@@ -247,6 +247,13 @@ fn the_command_line_refuses_each_bad_value_naming_the_option_and_the_value_as_ty
             &[],
         ),
         opt(&["worksheet", LARKSPUR_ARG], "--tag", "NOPE-1", &[]),
+        // A folder that cannot be made: under a file.
+        opt(
+            &["worksheet", LARKSPUR_ARG, "--all"],
+            "--out",
+            "/dev/null/records",
+            &[],
+        ),
         opt(
             &["worksheet", LARKSPUR_ARG, "--all"],
             "--template",

@@ -282,3 +282,53 @@ fn a_batch_that_fills_the_disk_writes_nothing_and_one_that_fits_is_written() {
     // Unmounted before the scratch folder goes, so that the mount point can be removed.
     drop(disk);
 }
+
+/// `command` on `site` with `threads` threads: its exit code, its standard output with the
+/// output folder's path taken out, and the files it wrote.
+fn with_threads(
+    site: &Path,
+    command: &[&str],
+    out: &Path,
+    threads: &str,
+) -> (Option<i32>, String, BTreeMap<String, Vec<u8>>) {
+    let mut cmd = Command::new(env!("CARGO_BIN_EXE_pvhazard"));
+    cmd.arg(command[0])
+        .arg(site)
+        .args(&command[1..])
+        .env("SOURCE_DATE_EPOCH", "1798761600")
+        .env("PVHAZARD_THREADS", threads)
+        .env_remove(STOP_AFTER);
+    if command[0] == "worksheet" {
+        cmd.arg("--out").arg(out);
+    }
+    let o = run(cmd);
+    let stdout = String::from_utf8_lossy(&o.stdout).replace(&out.display().to_string(), "OUT");
+    (o.status.code(), stdout, files(out))
+}
+
+#[test]
+fn one_thread_and_several_give_the_same_bytes_and_the_same_order() {
+    let scratch = Scratch::new("threads");
+    let sites = Path::new(env!("CARGO_MANIFEST_DIR")).join("sample_sites");
+    for site in ["larkspur-fabrication.toml", "kestrel-fill-room.toml"] {
+        for command in [
+            &["worksheet", "--all"][..],
+            &["check"][..],
+            &["check", "--json"][..],
+        ] {
+            let runs: Vec<_> = ["1", "2", "5"]
+                .iter()
+                .map(|t| {
+                    let out = scratch.path(&format!("{site}-{}-{t}", command.join("")));
+                    with_threads(&sites.join(site), command, &out, t)
+                })
+                .collect();
+            assert!(runs[0].0 == Some(0) || runs[0].0 == Some(3), "{runs:?}");
+            assert!(!runs[0].1.is_empty());
+            assert_eq!(runs[0].2.is_empty(), command[0] == "check", "{runs:?}");
+            for other in &runs[1..] {
+                assert!(other == &runs[0], "{site} {command:?}: {other:?}");
+            }
+        }
+    }
+}

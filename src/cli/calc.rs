@@ -662,10 +662,8 @@ pub(super) fn write_csv(
     if path == std::path::Path::new("-") {
         return Ok(Some(text));
     }
-    let files = record::Files {
-        files: vec![(path.to_path_buf(), text.as_bytes())],
-    };
-    files.write(record::Mode::New).map(|_| None).map_err(|e| match e {
+    let written = record::write_one(path, text.as_bytes(), record::Mode::New);
+    written.map(|_| None).map_err(|e| match e {
         record::RecordError::Exists(p) => Failure::Refused(format!(
             "{} already exists; the CSV is not written over an existing file: choose another --csv path",
             p.display()

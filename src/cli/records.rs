@@ -178,82 +178,30 @@ pub(super) fn worksheet_command(a: WorksheetArgs) -> Result<String, Failure> {
         date,
     };
     let given_template = a.template.as_deref().map(template::resolve).transpose()?;
-    // Every worksheet is computed and rendered before any is written, so a bad item leaves
-    // no partial batch behind.
-    let progress = a.all && std::io::stderr().is_terminal();
-    let mut records = Vec::new();
-    // With --all, a template that does not fit an item skips it, with the reason; the batch
-    // fails only when it fits no item.
-    let mut skipped = Vec::new();
-    for (i, item) in items.iter().enumerate() {
-        if progress {
-            eprint!("\r[{}/{}] {:<24}", i + 1, items.len(), item.tag());
-        }
-        let template = match &given_template {
-            Some(t) => t.clone(),
-            None => template::resolve(template::default_for(item.kind()))?,
-        };
-        if a.all {
-            if let Some(why) = worksheet::misfit(item, &template) {
-                skipped.push(format!("{}: skipped ({why})\n", item.tag()));
-                continue;
-            }
-        }
-        let model = super::gas_model(a.model, item.gas());
-        let sheet = worksheet::build(model.as_ref(), &site, item, &template, &meta)?;
-        let pdf =
-            render_pdf(&sheet.document, a.paper).map_err(|e| Failure::Internal(e.to_string()))?;
-        let json = to_json(&sheet.record).map_err(Failure::Internal)? + "\n";
-        let stem = record::stem(
-            &site.name,
-            item.tag(),
-            &template.name,
-            a.work_order.as_deref(),
-            &date.format("%Y-%m-%d").to_string(),
-        );
-        records.push((
-            item.tag().to_string(),
-            (sheet.verdict.decision, sheet.highest),
-            stem,
-            pdf,
-            json,
-        ));
-    }
-    if progress {
-        // Clear the progress line: the summary follows on standard output.
-        eprint!("\r{:<40}\r", "");
-    }
-    if records.is_empty() && !skipped.is_empty() {
-        return Err(Failure::Refused(format!(
-            "the template fits no item on the site; nothing is written:\n{}",
-            skipped.concat().trim_end()
-        )));
-    }
-    std::fs::create_dir_all(&a.out).map_err(|e| {
-        Failure::Internal(format!("cannot create the folder {}: {e}", a.out.display()))
-    })?;
-    // One batch: every record is staged before any is linked in, and a failure takes back
-    // what this run linked in.
-    let batch = record::Files {
-        files: records
-            .iter()
-            .flat_map(|(_, _, stem, pdf, json)| {
-                [
-                    (a.out.join(format!("{stem}.json")), json.as_bytes()),
-                    (a.out.join(format!("{stem}.pdf")), pdf.as_slice()),
-                ]
-            })
-            .collect(),
-    };
     let mode = if a.force {
         record::Mode::Replace
     } else {
         record::Mode::Complete
     };
-    let written = batch.write(mode).map_err(|e| match e {
-        record::RecordError::Exists(_) => Failure::Refused(e.to_string()),
-        record::RecordError::Io { .. } => Failure::Internal(e.to_string()),
+    // One batch: each record is staged in the folder as soon as it is rendered (so that a
+    // long batch holds no more than a few in memory), and none is linked in until every
+    // item is computed; a failure removes what was staged.
+    let batch = record::Batch::open(&a.out, mode).map_err(|e| {
+        InputError::new(
+            "out",
+            a.out.display().to_string(),
+            format!("{e}; accepted: a folder that exists or can be created, and can be written"),
+        )
     })?;
+    let (done, skipped) =
+        batch_of_worksheets(&a, &site, &items, given_template.as_ref(), &meta, &batch)?;
+    if done.is_empty() && !skipped.is_empty() {
+        return Err(Failure::Refused(format!(
+            "the template fits no item on the site; nothing is written:\n{}",
+            skipped.concat().trim_end()
+        )));
+    }
+    let written = batch.commit().map_err(record_failure)?;
     if !written.stale.is_empty() {
         eprintln!(
             "pvhazard: removed {} temporary file(s) an interrupted run had left in {}",
@@ -262,13 +210,15 @@ pub(super) fn worksheet_command(a: WorksheetArgs) -> Result<String, Failure> {
         );
     }
     let mut text = String::new();
-    for ((tag, (decision, highest), _, _, _), files) in records.iter().zip(batch.files.chunks(2)) {
-        let names: Vec<String> = files.iter().map(|(p, _)| p.display().to_string()).collect();
+    for d in &done {
+        let names = ["json", "pdf"].map(|ext| a.out.join(format!("{}.{ext}", d.stem)));
         text.push_str(&format!(
-            "{tag}: {} ({}; highest caution: {})\n",
-            names.join(", "),
-            decision.word(),
-            highest.word()
+            "{}: {}, {} ({}; highest caution: {})\n",
+            d.tag,
+            names[0].display(),
+            names[1].display(),
+            d.decision.word(),
+            d.highest.word()
         ));
     }
     if !written.kept.is_empty() {
@@ -279,6 +229,104 @@ pub(super) fn worksheet_command(a: WorksheetArgs) -> Result<String, Failure> {
     }
     text.push_str(&skipped.concat());
     Ok(text)
+}
+
+/// One worksheet staged in a batch: what the summary line says of it.
+struct Staged {
+    tag: String,
+    decision: crate::assess::Decision,
+    highest: Level,
+    stem: String,
+}
+
+/// What an item of a batch came to: staged, or skipped with the reason.
+enum Outcome {
+    Staged(Staged),
+    Skipped(String),
+}
+
+/// Computes, renders and stages every item's worksheet on all cores; returns the staged
+/// ones and the skipped ones' lines, both in item order.
+fn batch_of_worksheets(
+    a: &WorksheetArgs,
+    site: &Site,
+    items: &[&Equipment],
+    given_template: Option<&template::Template>,
+    meta: &Meta,
+    batch: &record::Batch,
+) -> Result<(Vec<Staged>, Vec<String>), Failure> {
+    let progress = a.all && std::io::stderr().is_terminal();
+    let date = meta.date.format("%Y-%m-%d").to_string();
+    let work = |i: usize, item: &&Equipment| -> Result<Outcome, Failure> {
+        let template = match given_template {
+            Some(t) => t.clone(),
+            None => template::resolve(template::default_for(item.kind()))?,
+        };
+        // With --all, a template that does not fit an item skips it, with the reason; the
+        // batch fails only when it fits no item.
+        if a.all {
+            if let Some(why) = worksheet::misfit(item, &template) {
+                return Ok(Outcome::Skipped(format!(
+                    "{}: skipped ({why})\n",
+                    item.tag()
+                )));
+            }
+        }
+        let model = super::gas_model(a.model, item.gas());
+        let sheet = worksheet::build(model.as_ref(), site, item, &template, meta)?;
+        let pdf =
+            render_pdf(&sheet.document, a.paper).map_err(|e| Failure::Internal(e.to_string()))?;
+        let json = to_json(&sheet.record).map_err(Failure::Internal)? + "\n";
+        let stem = record::stem(
+            &site.name,
+            item.tag(),
+            &template.name,
+            a.work_order.as_deref(),
+            &date,
+        );
+        batch
+            .add(&format!("{stem}.json"), 2 * i, json.as_bytes())
+            .and_then(|_| batch.add(&format!("{stem}.pdf"), 2 * i + 1, &pdf))
+            .map_err(record_failure)?;
+        Ok(Outcome::Staged(Staged {
+            tag: item.tag().to_string(),
+            decision: sheet.verdict.decision,
+            highest: sheet.highest,
+            stem,
+        }))
+    };
+    let mut outcomes: Vec<Option<Outcome>> = (0..items.len()).map(|_| None).collect();
+    let mut finished = 0;
+    crate::parallel::run(items, crate::parallel::threads(), work, |i, outcome| {
+        finished += 1;
+        if progress {
+            eprint!("\r[{finished}/{}] {:<24}", items.len(), items[i].tag());
+        }
+        outcomes[i] = Some(outcome);
+        Ok(())
+    })?;
+    if progress {
+        // Clear the progress line: the summary follows on standard output.
+        eprint!("\r{:<40}\r", "");
+    }
+    let mut done = Vec::new();
+    let mut skipped = Vec::new();
+    for outcome in outcomes.into_iter().flatten() {
+        match outcome {
+            Outcome::Staged(s) => done.push(s),
+            Outcome::Skipped(line) => skipped.push(line),
+        }
+    }
+    Ok((done, skipped))
+}
+
+fn record_failure(e: record::RecordError) -> Failure {
+    match e {
+        record::RecordError::Exists(_) => Failure::Refused(e.to_string()),
+        record::RecordError::Folder { .. } | record::RecordError::Io { .. } => {
+            Failure::Internal(e.to_string())
+        }
+    }
 }
 
 pub(super) fn check_command(a: CheckArgs) -> Result<(String, i32), Failure> {
@@ -310,12 +358,13 @@ pub(super) fn check_command(a: CheckArgs) -> Result<(String, i32), Failure> {
             .unwrap_or_default()
             .with_timezone(&site.time_zone),
     };
-    let mut items = Vec::new();
-    for item in &site.equipment {
+    let equipment: Vec<&Equipment> = site.equipment.iter().collect();
+    let mut items: Vec<Option<Item>> = (0..equipment.len()).map(|_| None).collect();
+    let work = |_: usize, item: &&Equipment| -> Result<Item, Failure> {
         let template = template::resolve(template::default_for(item.kind()))?;
         let model = super::gas_model(a.model, item.gas());
         let sheet = worksheet::build(model.as_ref(), &site, item, &template, &meta)?;
-        items.push(Item {
+        Ok(Item {
             tag: item.tag().to_string(),
             kind: item.kind(),
             gas: item.gas().name,
@@ -324,8 +373,13 @@ pub(super) fn check_command(a: CheckArgs) -> Result<(String, i32), Failure> {
             verdict: sheet.verdict,
             highest_level: sheet.highest,
             cautions: sheet.record.cautions,
-        });
-    }
+        })
+    };
+    crate::parallel::run(&equipment, crate::parallel::threads(), work, |i, item| {
+        items[i] = Some(item);
+        Ok(())
+    })?;
+    let mut items: Vec<Item> = items.into_iter().flatten().collect();
     // Ranked by decision, then by the signal word of the worst banner, then by the energy
     // at risk.
     items.sort_by(|x, y| {
