@@ -99,17 +99,25 @@ pub fn range_with_drag(v: f64, mass: f64, drag_area: f64) -> f64 {
         return 0.0;
     }
     let k = 0.5 * AIR_DENSITY * drag_area / mass;
-    // Coarse over the angles, then fine about the best.
-    let best = |angles: &mut dyn Iterator<Item = f64>| {
-        angles
-            .map(|a| (a, flight(v, a, k)))
-            .fold((0.0, 0.0), |b, x| if x.1 > b.1 { x } else { b })
-    };
-    let (coarse, _) = best(&mut (1..90).map(|i| (i as f64).to_radians()));
-    let step = 1f64.to_radians();
-    best(&mut (0..=40).map(|i| coarse - step + step * i as f64 / 20.0))
-        .1
-        .max(0.0)
+    // The range rises with the angle to one best angle and falls after it, so a golden-
+    // section search finds the best to 0.01° in about twenty flights.
+    let inverse_phi = (5f64.sqrt() - 1.0) / 2.0;
+    let (mut lo, mut hi) = (1f64.to_radians(), 89f64.to_radians());
+    let mut a = hi - inverse_phi * (hi - lo);
+    let mut b = lo + inverse_phi * (hi - lo);
+    let (mut fa, mut fb) = (flight(v, a, k), flight(v, b, k));
+    while hi - lo > 0.01f64.to_radians() {
+        if fa >= fb {
+            (hi, b, fb) = (b, a, fa);
+            a = hi - inverse_phi * (hi - lo);
+            fa = flight(v, a, k);
+        } else {
+            (lo, a, fa) = (a, b, fb);
+            b = lo + inverse_phi * (hi - lo);
+            fb = flight(v, b, k);
+        }
+    }
+    fa.max(fb).max(0.0)
 }
 
 /// The horizontal distance of one flight at `angle` (radians) with drag constant `k`
@@ -167,6 +175,18 @@ mod tests {
         // Equal gas and vessel masses: 2/3 for a cylinder, 5/8 for a sphere.
         assert_relative_eq!(gas_factor(Shape::Cylinder, 1.0, 1.0), 2.0 / 3.0);
         assert_relative_eq!(gas_factor(Shape::Sphere, 1.0, 1.0), 5.0 / 8.0);
+    }
+
+    #[test]
+    fn the_search_finds_the_best_angle_a_fine_scan_finds() {
+        // Light and heavy fragments, slow and fast: the best angle moves well below 45°.
+        for (v, mass, area) in [(60.0, 1.0, 0.05), (150.0, 5.0, 0.2), (20.0, 50.0, 0.01)] {
+            let k = 0.5 * AIR_DENSITY * area / mass;
+            let scan = (100..=8900)
+                .map(|i| flight(v, (i as f64 / 100.0).to_radians(), k))
+                .fold(0.0, f64::max);
+            assert_relative_eq!(range_with_drag(v, mass, area), scan, max_relative = 1e-6);
+        }
     }
 
     #[test]
