@@ -43,15 +43,27 @@ impl fmt::Display for InputError {
 
 impl std::error::Error for InputError {}
 
-/// A value as typed, for an error message: in full if short, else its start and its length.
+/// A value as typed, for an error message: in full if short, else its start and its length;
+/// a control character shown as its escape (`\u{7}`), so that the message cannot ring, erase
+/// or reorder what the terminal shows.
 pub fn as_typed(text: &str) -> String {
+    let visible = |s: &mut dyn Iterator<Item = char>| -> String {
+        s.map(|c| {
+            if c.is_control()
+                || ('\u{202A}'..='\u{202E}').contains(&c)
+                || ('\u{2066}'..='\u{2069}').contains(&c)
+            {
+                c.escape_unicode().to_string()
+            } else {
+                c.to_string()
+            }
+        })
+        .collect()
+    };
     let n = text.chars().count();
     if n <= 60 {
-        text.to_string()
+        visible(&mut text.chars())
     } else {
-        format!(
-            "{}… ({n} characters)",
-            text.chars().take(40).collect::<String>()
-        )
+        format!("{}… ({n} characters)", visible(&mut text.chars().take(40)))
     }
 }

@@ -549,6 +549,7 @@ mod tests {
         assert!(check_name("WO 2291").is_ok());
         assert!(check_name(&"w".repeat(48)).is_ok());
         assert_eq!(crate::as_typed("short"), "short");
+        assert_eq!(crate::as_typed("a\u{7}b\u{202E}"), "a\\u{7}b\\u{202e}");
         assert!(crate::as_typed(&"w".repeat(5000)).ends_with("(5000 characters)"));
     }
 

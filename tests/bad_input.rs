@@ -213,12 +213,16 @@ fn the_command_line_refuses_each_bad_value_naming_the_option_and_the_value_as_ty
             "#!?",
             &[],
         ),
-        opt(
-            &["worksheet", LARKSPUR_ARG, "--all"],
-            "--work-order",
-            "WO\u{7}2291",
-            &[],
-        ),
+        // A control character is echoed as its escape, so that it cannot act on the terminal.
+        Case {
+            typed: "WO\\u{7}2291".into(),
+            ..opt(
+                &["worksheet", LARKSPUR_ARG, "--all"],
+                "--work-order",
+                "WO\u{7}2291",
+                &[],
+            )
+        },
         Case {
             typed: "W".repeat(40),
             ..opt(
@@ -395,6 +399,30 @@ fn site_and_template_files_refuse_each_bad_value_naming_the_key_and_the_value_as
             "cd = 1e-320".into(),
             "vessel[1].drain.cd",
             "1e-320".into(),
+        ),
+        (
+            "location = \"Compressor house and weld bay, Unit 7\"",
+            "location = \"Unit 7\\u0007\"".into(),
+            "site.location",
+            "U+0007".into(),
+        ),
+        (
+            "description = \"Vertical air receiver, compressor house, no. 1\"",
+            "description = \"\"".into(),
+            "vessel[1].description",
+            "''".into(),
+        ),
+        (
+            "description = \"1/2 in ball valve to the drain line\"",
+            format!("description = \"{}\"", "v".repeat(300)),
+            "vessel[1].drain.description",
+            "300 characters".into(),
+        ),
+        (
+            "mawp = \"13 barg\"",
+            "mawp = \"0 barg\"".into(),
+            "vessel[1].mawp",
+            "0 barg".into(),
         ),
         (
             "orifice = \"12 mm\"",

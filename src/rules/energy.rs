@@ -103,6 +103,10 @@ pub struct EnergyResult {
 /// Stored energy, TNT equivalent, exclusion distance and standoffs of gas at `input`'s
 /// state, with the cautions they raise.
 ///
+/// The incident overpressures accepted for a standoff, Pa: round numbers inside what the
+/// Kingery–Bulmash fits cover (about 249 Pa to 17.3 MPa), since the standoffs come from them.
+pub const OVERPRESSURE_RANGE_PA: (f64, f64) = (250.0, 17.0e6);
+
 /// Pressure at or below ambient stores no expansion energy: the result is zero with a
 /// NOTICE (not an error), so a script checking a vented vessel gets a number.
 pub fn stored_energy(
@@ -124,7 +128,19 @@ pub fn stored_energy(
         ));
     }
     for p in &input.overpressures {
-        check_positive("overpressure", p.get::<pascal>(), "Pa", 1.0e7)?;
+        let pa = p.get::<pascal>();
+        let (lo, hi) = OVERPRESSURE_RANGE_PA;
+        if !(pa >= lo && pa <= hi) {
+            return Err(InputError::new(
+                "overpressure",
+                super::si_text(pa, "Pa"),
+                format!(
+                    "lies outside the overpressures the Kingery–Bulmash blast fits cover; accepted: {} to {}",
+                    super::si_text(lo, "Pa"),
+                    super::si_text(hi, "Pa")
+                ),
+            ));
+        }
     }
     if let Some(e) = input.energy_limit {
         if !(e.get::<joule>() >= 1.0 && e.get::<joule>() <= 1.0e15) {
@@ -137,6 +153,16 @@ pub fn stored_energy(
     }
     if let Some(m) = input.mawp {
         check_positive("mawp", m.get::<pascal>(), "Pa(a)", MAX_PRESSURE_PA)?;
+        if m <= input.ambient {
+            return Err(InputError::new(
+                "mawp",
+                super::si_text(m.get::<pascal>(), "Pa(a)"),
+                format!(
+                    "is not above the ambient pressure ({}), so it rates no vessel for pressure; accepted: the MAWP on the rating plate, a gauge pressure above zero, e.g. '13 barg'",
+                    super::si_text(input.ambient.get::<pascal>(), "Pa(a)")
+                ),
+            ));
+        }
     }
     if let Some(c) = input.clearance {
         check_positive("clearance", c.get::<meter>(), "m", 1.0e5)?;
@@ -450,6 +476,17 @@ mod tests {
     use super::*;
     use crate::gas::{Gas, IdealGas};
     use approx::assert_relative_eq;
+
+    #[test]
+    fn the_accepted_overpressures_lie_inside_the_blast_fits() {
+        let (z_lo, z_hi) = blast::KB_RANGE;
+        let (lo, hi) = OVERPRESSURE_RANGE_PA;
+        assert!(blast::kingery_bulmash_overpressure(z_hi).unwrap() <= lo);
+        assert!(blast::kingery_bulmash_overpressure(z_lo).unwrap() >= hi);
+        for p in [lo, hi] {
+            assert!(blast::scaled_distance_for(p).is_some(), "{p} Pa");
+        }
+    }
 
     fn air_input(gauge_pa: f64, ambient_pa: f64) -> EnergyInput {
         EnergyInput {

@@ -32,10 +32,39 @@ fn check_positive(field: &str, value: f64, unit: &str, max: f64) -> Result<(), I
     } else {
         Err(InputError::new(
             field,
-            format!("{value} {unit}"),
-            format!("must be above zero and at most {max} {unit}; accepted: a value in that range"),
+            si_text(value, unit),
+            format!(
+                "must be above zero and at most {}; accepted: a value in that range",
+                si_text(max, unit)
+            ),
         ))
     }
+}
+
+/// A number and its SI unit as a message shows it: pascals with the prefix that keeps the
+/// number short (`10 MPa`), and very large or small numbers in exponent form (`1e8 s`), so
+/// that no message prints a long run of digits.
+fn si_text(value: f64, unit: &str) -> String {
+    let (x, prefix) = match unit {
+        "Pa" | "Pa(a)" if value.abs() >= 1e6 => (value / 1e6, "M"),
+        "Pa" | "Pa(a)" if value.abs() >= 1e3 => (value / 1e3, "k"),
+        _ => (value, ""),
+    };
+    let number = if x == 0.0 {
+        "0".to_string()
+    } else if (1e-3..1e6).contains(&x.abs()) {
+        // Six significant digits, without trailing zeros.
+        let decimals = (5 - x.abs().log10().floor() as i32).max(0) as usize;
+        let text = format!("{x:.decimals$}");
+        if text.contains('.') {
+            text.trim_end_matches('0').trim_end_matches('.').to_string()
+        } else {
+            text
+        }
+    } else {
+        format!("{x:e}")
+    };
+    format!("{number} {prefix}{unit}")
 }
 
 /// Refuses a temperature outside (0, MAX_TEMPERATURE_K].
@@ -101,4 +130,23 @@ fn gas_cautions(model: &dyn GasModel, state: &State) -> (Vec<Caution>, Vec<Note>
         format!("{} ({}).", capitalised(&model.describe()), model.gas().name),
     )];
     (model.limitations(state), basis)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn limits_in_messages_are_short() {
+        assert_eq!(si_text(1e7, "Pa"), "10 MPa");
+        assert_eq!(si_text(1e9, "Pa(a)"), "1000 MPa(a)");
+        assert_eq!(si_text(6900.0, "Pa"), "6.9 kPa");
+        assert_eq!(si_text(1e8, "s"), "1e8 s");
+        assert_eq!(si_text(1e-300, "Pa"), "1e-300 Pa");
+        assert_eq!(si_text(2000.0, "K"), "2000 K");
+        assert_eq!(si_text(0.0, "m3"), "0 m3");
+        assert_eq!(si_text(-1e300, "m"), "-1e300 m");
+        assert_eq!(si_text(249.468_17, "Pa"), "249.468 Pa");
+        assert_eq!(si_text(0.001_234_567, "m"), "0.00123457 m");
+    }
 }
