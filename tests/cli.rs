@@ -187,6 +187,44 @@ fn assert_text_deferral(report: &str) {
 // ---------------------------------------------------------------------------------------
 
 #[test]
+fn a_vent_outdoors_computes_no_room_and_says_where_to_look() {
+    let vent = [
+        "vent",
+        "--gas",
+        "air",
+        "--volume",
+        "2 m3",
+        "--pressure",
+        "10 barg",
+        "--orifice",
+        "12 mm",
+    ];
+    let out = pvhazard(
+        &with(&vent, &["--outdoors", "--json"])
+            .iter()
+            .map(String::as_str)
+            .collect::<Vec<_>>(),
+    )
+    .assert()
+    .success()
+    .get_output()
+    .stdout
+    .clone();
+    let v: serde_json::Value = serde_json::from_slice(&out).expect("JSON");
+    assert!(v["release"].is_null(), "{}", v["release"]);
+    let text = String::from_utf8_lossy(&out);
+    assert!(
+        text.contains("vented outdoors: no room atmosphere is computed"),
+        "{text}"
+    );
+    // Outdoors and a room at once is refused.
+    refused(
+        &as_strs(&with(&vent, &["--outdoors", "--room-volume", "40 m3"])),
+        &["--outdoors", "--room-volume"],
+    );
+}
+
+#[test]
 fn bare_bar_is_refused_because_it_says_neither_gauge_nor_absolute() {
     let args = with(&ENERGY[..5], &["--pressure", "10 bar"]);
     refused(

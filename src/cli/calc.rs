@@ -221,10 +221,14 @@ pub(super) struct VentArgs {
     /// The depressuring check's cap on the gauge pressure to reach.
     #[arg(long, value_name = "Q", allow_hyphen_values = true, default_value = "690 kPa", value_parser = parse_cap)]
     depressuring_cap: Pressure,
-    /// Free volume of the room the gas is vented into (without it: vented outdoors, no
-    /// room calculation).
+    /// Free volume of the room the gas is vented into (without it and without --outdoors:
+    /// where the gas goes is not stated, and no room is computed).
     #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_volume)]
     room_volume: Option<Volume>,
+    /// The gas is vented outdoors: no room is computed, and a NOTICE says to check where the
+    /// outlet discharges.
+    #[arg(long, conflicts_with_all = ["room_volume", "ventilation"])]
+    outdoors: bool,
     /// The room's fresh air: air changes per hour ('2 /h'; '0 /h' a closed room) or a flow ('120 m3/h', '300 cfm') [default: 0 /h].
     #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_ventilation, requires = "room_volume")]
     ventilation: Option<Ventilation>,
@@ -761,7 +765,11 @@ pub(super) fn vent_command(a: VentArgs) -> Result<String, Failure> {
         model.as_ref(),
         &input,
         wall.as_ref().map(|(w, _)| w),
-        room.as_ref().map_or(Discharge::Unstated, Discharge::Room),
+        match (&room, a.outdoors) {
+            (Some(r), _) => Discharge::Room(r),
+            (None, true) => Discharge::Outdoors,
+            (None, false) => Discharge::Unstated,
+        },
         Governing::Model,
     )?;
     if let (Some(t), Some(d)) = (a.within, report.required_orifice_m) {

@@ -3,26 +3,36 @@
 use super::{entry, result, Entry};
 use crate::rules::room::{RoomRelease, Ventilation};
 use crate::units::Value;
-use uom::si::f64::Length;
+use uom::si::f64::{Length, VolumeRate};
+use uom::si::volume_rate::cubic_meter_per_second;
 
 /// The room as given.
 pub(super) fn inputs(r: &RoomRelease) -> Vec<Entry> {
-    vec![
+    let mut out = vec![
         entry("Room volume", Value::Volume(r.room_volume)),
         entry(
             "Room ventilation",
-            Value::Text(match r.ventilation {
-                Ventilation::AirChanges(n) => {
-                    format!("{} air changes per hour", crate::units::fmt_sig(n, 3))
-                }
-                Ventilation::Flow(q) => format!(
-                    "{} m³/h ({} air changes per hour)",
-                    crate::units::fmt_sig(q * 3600.0, 3),
+            match r.ventilation {
+                Ventilation::AirChanges(_) => Value::Text(format!(
+                    "{} air changes per hour",
                     crate::units::fmt_sig(r.air_changes_per_h, 3)
-                ),
-            }),
+                )),
+                Ventilation::Flow(q) => {
+                    Value::VolumeFlow(VolumeRate::new::<cubic_meter_per_second>(q))
+                }
+            },
         ),
-    ]
+    ];
+    if let Ventilation::Flow(_) = r.ventilation {
+        out.push(entry(
+            "Room air changes",
+            Value::Text(format!(
+                "{} per hour",
+                crate::units::fmt_sig(r.air_changes_per_h, 3)
+            )),
+        ));
+    }
+    out
 }
 
 /// The room's results, with methods; `orifice` is the vent's.
@@ -79,6 +89,9 @@ pub(super) fn results(r: &RoomRelease, orifice: Option<Length>) -> Vec<Entry> {
     out.push(result(
         "Ventilation that keeps the room within limits",
         match r.ventilation_needed_per_h {
+            Some(0.0) => {
+                Value::Text("none: the room stays within them closed".to_string())
+            }
             Some(n) => Value::Text(format!(
                 "{} air changes per hour",
                 crate::units::fmt_sig(n, 3)

@@ -109,6 +109,7 @@ pub fn value_text(v: &Value, d: &Display) -> String {
         Value::Diameter(l) => d.small_length(*l),
         Value::Time(t) => d.time(*t),
         Value::MassFlow(m) => d.mass_flow(*m),
+        Value::VolumeFlow(q) => d.volume_flow(*q),
         Value::PressureRate(r) => d.pressure_rate(*r),
         Value::Speed(v) => d.speed(*v),
         Value::Fraction(x) => crate::units::percent(*x),

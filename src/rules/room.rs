@@ -146,7 +146,8 @@ pub struct RoomRelease {
     #[serde(rename = "recovery_time_s")]
     pub recovery_time: Option<Time>,
     /// The least ventilation, air changes per hour, that keeps the room within its limits
-    /// for this vent (null when even 10 000 /h does not).
+    /// for this vent: zero where the room stays within them closed, null when even
+    /// 10 000 /h does not.
     pub ventilation_needed_per_h: Option<f64>,
     /// The largest factor on the vent's flow area (the orifice's Cd·A) that keeps the room
     /// within its limits at the given ventilation, the vent's time series scaled as a
@@ -200,11 +201,7 @@ pub fn release(gas: &Gas, room: &Room, released: &[(f64, f64)]) -> RoomRelease {
         };
         Some(Time::new::<second>(t))
     };
-    let ventilation_needed = if run.within(&limits, run.ventilation) {
-        Some(room.air_changes())
-    } else {
-        run.ventilation_needed(&limits)
-    };
+    let ventilation_needed = run.ventilation_needed(&limits);
     RoomRelease {
         room_volume: room.volume,
         ventilation: room.ventilation,
@@ -455,9 +452,13 @@ impl Mixing {
         self.decay_time(x, limit).map(|t| end + t)
     }
 
-    /// The least fresh air, air changes per hour, that keeps the fraction within the limit.
+    /// The least fresh air, air changes per hour, that keeps the fraction within the limit:
+    /// zero where a closed room stays within it.
     fn ventilation_needed(&self, limits: &Limits) -> Option<f64> {
         let per_change = self.moles / 3600.0;
+        if self.within(limits, 0.0) {
+            return Some(0.0);
+        }
         if !self.within(limits, MOST_AIR_CHANGES * per_change) {
             return None;
         }
@@ -521,6 +522,19 @@ mod tests {
         assert_eq!(r.recovery_time, None);
         assert!(!r.within_limits);
         assert_eq!(r.time_deficient, None);
+    }
+
+    #[test]
+    fn a_release_a_closed_room_holds_within_its_limits_needs_no_ventilation() {
+        // 0.1 kg of nitrogen in 60 m³ lowers the oxygen by about 0.03 percentage points.
+        let n2 = Gas::find("nitrogen").unwrap();
+        let r = release(n2, &room(60.0, 2.0), &even(0.1, 60.0, 20));
+        assert!(r.within_limits);
+        assert_eq!(r.ventilation_needed_per_h, Some(0.0));
+        // Air vented into a room leaves its oxygen as it was.
+        let air = Gas::find("air").unwrap();
+        let r = release(air, &room(60.0, 2.0), &even(50.0, 60.0, 20));
+        assert_eq!(r.ventilation_needed_per_h, Some(0.0));
     }
 
     #[test]

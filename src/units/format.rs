@@ -2,12 +2,13 @@
 
 use uom::si::f64::{
     AvailableEnergy, Energy, Length, Mass, MassRate, Pressure, ThermodynamicTemperature, Time,
-    Velocity, Volume,
+    Velocity, Volume, VolumeRate,
 };
 use uom::si::{
     available_energy::joule_per_kilogram, energy::joule, length::meter, mass::kilogram,
     mass_rate::kilogram_per_second, pressure::pascal, thermodynamic_temperature::kelvin,
     time::second, velocity::meter_per_second, volume::cubic_meter,
+    volume_rate::cubic_meter_per_second,
 };
 
 use super::{J_PER_FT_LBF, KG_PER_LB, M3_PER_US_GAL, M_PER_FT, PA_PER_PSI};
@@ -57,6 +58,8 @@ pub enum Value {
     Time(Time),
     /// A mass flow.
     MassFlow(MassRate),
+    /// A volume flow (a room's fresh air).
+    VolumeFlow(VolumeRate),
     /// A rate of pressure change, as the pressure gained in one second.
     PressureRate(Pressure),
     /// A speed (a fragment's).
@@ -84,6 +87,7 @@ impl Value {
             Value::Distance(l) | Value::Diameter(l) => (l.get::<meter>(), "m"),
             Value::Time(t) => (t.get::<second>(), "s"),
             Value::MassFlow(m) => (m.get::<kilogram_per_second>(), "kg/s"),
+            Value::VolumeFlow(q) => (q.get::<cubic_meter_per_second>(), "m3/s"),
             Value::PressureRate(p) => (p.get::<pascal>(), "Pa/s"),
             Value::Speed(v) => (v.get::<meter_per_second>(), "m/s"),
             Value::Fraction(x) => (*x, "1"),
@@ -260,6 +264,18 @@ impl Display {
         )
     }
 
+    /// A volume flow in m³/h or cubic feet a minute (cfm), as ventilation is rated.
+    pub fn volume_flow(&self, q: VolumeRate) -> String {
+        let m3_s = q.get::<cubic_meter_per_second>();
+        self.pair(
+            format!("{} m³/h", fmt_sig(m3_s * 3600.0, 3)),
+            format!(
+                "{} cfm",
+                fmt_sig(m3_s * 60.0 / (M_PER_FT * M_PER_FT * M_PER_FT), 3)
+            ),
+        )
+    }
+
     /// A mass flow in kg/s or lb/s.
     pub fn mass_flow(&self, m: MassRate) -> String {
         let kg = m.get::<kilogram_per_second>();
@@ -334,6 +350,7 @@ impl Display {
                     Value::Diameter(x) => full.small_length(*x),
                     Value::Time(x) => full.time(*x),
                     Value::MassFlow(x) => full.mass_flow(*x),
+                    Value::VolumeFlow(x) => full.volume_flow(*x),
                     Value::PressureRate(x) => full.pressure_rate(*x),
                     Value::Speed(x) => full.speed(*x),
                     Value::Fraction(x) => percent(*x),
@@ -406,5 +423,22 @@ mod tests {
         let s = d.pressure(Pressure::new::<pascal>(1.101325e6));
         assert!(s.starts_with("10.00 barg, 11.01 bara"), "{s}");
         assert!(s.contains("psig"), "{s}");
+    }
+
+    #[test]
+    fn a_ventilation_flow_reads_in_the_readers_units_first() {
+        // 200 cfm = 200 × 0.3048³ m³/min = 0.094 39 m³/s = 339.8 m³/h (NIST SP 811 factors).
+        let q = VolumeRate::new::<cubic_meter_per_second>(200.0 * 0.3048f64.powi(3) / 60.0);
+        let ambient = Pressure::new::<pascal>(101_325.0);
+        let us = Display {
+            system: UnitSystem::Us,
+            ambient,
+        };
+        let si = Display {
+            system: UnitSystem::Si,
+            ambient,
+        };
+        assert_eq!(us.volume_flow(q), "200 cfm (340 m³/h)");
+        assert_eq!(si.volume_flow(q), "340 m³/h (200 cfm)");
     }
 }
