@@ -192,3 +192,240 @@ fn the_elision_rule_is_strict_where_it_should_be() {
     assert!(matches(&e(&["a"]), &["a", "b"]).is_err());
     assert!(matches(&e(&["b", "a"]), &["a", "b"]).is_err());
 }
+
+/// Where a claim's numbers are read: the command's standard output, or the text of the one
+/// PDF it writes into its `--out` folder.
+enum Read {
+    Stdout,
+    Pdf,
+}
+
+/// A number a document states in its prose, not in an example's output, and the command
+/// whose output holds it. When the tool's answer changes, the output no longer holds the
+/// number and the test names the document to correct (and this table with it).
+struct Claim {
+    file: &'static str,
+    args: &'static [&'static str],
+    read: Read,
+    /// Each as the document prints it and as the output holds it (a minus sign as `-`).
+    numbers: &'static [&'static str],
+}
+
+const CLAIMS: &[Claim] = &[
+    Claim {
+        file: "README.md",
+        args: &[
+            "worksheet",
+            "sample_sites/larkspur-fabrication.toml",
+            "--tag",
+            "AR-101",
+            "--work-order",
+            "WO-2291",
+            "--out",
+            "out",
+        ],
+        read: Read::Pdf,
+        numbers: &[
+            "208 m",
+            "1.006 bar(a)",
+            "15.7 m",
+            "-15.2 °C",
+            "12.5 °C",
+            "-22.1 °C",
+            "12.2 °C",
+            "2.701 MJ",
+            "397.4 s",
+            "326.8 s",
+            "-126.8 °C",
+            "2.729 MJ",
+            "326.9 s",
+        ],
+    },
+    Claim {
+        file: "docs/worksheets.md",
+        args: &[
+            "worksheet",
+            "sample_sites/kestrel-fill-room.toml",
+            "--tag",
+            "BA-07",
+            "--out",
+            "out",
+        ],
+        read: Read::Pdf,
+        numbers: &[
+            "136.9 °F",
+            "58.3 °C",
+            "138.1 °F",
+            "5419 psia",
+            "262.8 °F",
+            "1327 psi/min",
+        ],
+    },
+    Claim {
+        file: "docs/check.md",
+        args: &[
+            "check",
+            "sample_sites/kestrel-fill-room.toml",
+            "--model",
+            "ideal",
+        ],
+        read: Read::Stdout,
+        numbers: &["12.57 MJ"],
+    },
+    Claim {
+        file: "docs/vent.md",
+        args: &[
+            "vent",
+            "--gas",
+            "nitrogen",
+            "--volume",
+            "500 L",
+            "--pressure",
+            "8 barg",
+            "--orifice",
+            "6 mm",
+            "--process",
+            "isothermal",
+        ],
+        read: Read::Stdout,
+        numbers: &["341.0 s", "5.68 min"],
+    },
+    Claim {
+        file: "docs/vent.md",
+        args: &[
+            "vent",
+            "--gas",
+            "air",
+            "--volume",
+            "2 m3",
+            "--pressure",
+            "10 barg",
+            "--orifice",
+            "12 mm",
+            "--heat-transfer",
+            "lumped",
+            "--wall-mass",
+            "540 kg",
+            "--process",
+            "isothermal",
+        ],
+        read: Read::Stdout,
+        numbers: &["376.3 s"],
+    },
+    Claim {
+        file: "docs/fill.md",
+        args: &[
+            "fill",
+            "--gas",
+            "air",
+            "--volume",
+            "6.8 L",
+            "--from",
+            "20 bara",
+            "--to",
+            "300 bara",
+            "--rate",
+            "100 bar/min",
+            "--rated-temperature",
+            "65 C",
+            "--construction",
+            "composite",
+            "--liner",
+            "plastic",
+        ],
+        read: Read::Stdout,
+        numbers: &["1.124 kg", "2.711 kg"],
+    },
+    Claim {
+        file: "docs/fill.md",
+        args: &[
+            "fill",
+            "--gas",
+            "air",
+            "--volume",
+            "6.8 L",
+            "--from",
+            "20 bara",
+            "--to",
+            "300 bara",
+            "--rate",
+            "100 bar/min",
+            "--rated-temperature",
+            "65 C",
+            "--construction",
+            "composite",
+            "--liner",
+            "aluminium",
+        ],
+        read: Read::Stdout,
+        numbers: &["58.2 °C", "59.6 °C", "196 bar/min"],
+    },
+    Claim {
+        file: "docs/gas-models.md",
+        args: &[
+            "energy",
+            "--gas",
+            "air",
+            "--volume",
+            "1 m3",
+            "--pressure",
+            "10 barg",
+        ],
+        read: Read::Stdout,
+        numbers: &["1.01 % lower", "0.774 K colder"],
+    },
+];
+
+/// All the text of the one PDF in `dir`.
+fn pdf_text(dir: &Path) -> String {
+    let pdf = std::fs::read_dir(dir)
+        .expect("the worksheet folder")
+        .map(|e| e.expect("an entry").path())
+        .find(|p| p.extension().is_some_and(|x| x == "pdf"))
+        .expect("a PDF");
+    let doc = lopdf::Document::load(&pdf).expect("the PDF parses");
+    let pages: Vec<u32> = doc.get_pages().keys().copied().collect();
+    doc.extract_text(&pages).expect("the PDF's text")
+}
+
+#[test]
+fn the_numbers_the_documents_state_in_prose_are_what_the_tool_prints() {
+    let root = Path::new(env!("CARGO_MANIFEST_DIR"));
+    let scratch = std::env::temp_dir().join(format!("pvhazard-prose-{}", std::process::id()));
+    let _ = std::fs::remove_dir_all(&scratch);
+    let mut failures = Vec::new();
+    for (i, claim) in CLAIMS.iter().enumerate() {
+        let doc = std::fs::read_to_string(root.join(claim.file))
+            .expect("the document")
+            .replace('−', "-")
+            .split_whitespace()
+            .collect::<Vec<_>>()
+            .join(" ");
+        let cwd = scratch.join(i.to_string());
+        copy_dir(&root.join("sample_sites"), &cwd.join("sample_sites"));
+        let out = std::process::Command::new(env!("CARGO_BIN_EXE_pvhazard"))
+            .args(claim.args)
+            .current_dir(&cwd)
+            .env("SOURCE_DATE_EPOCH", "1798761600")
+            .output()
+            .unwrap();
+        let text = match claim.read {
+            Read::Stdout => String::from_utf8_lossy(&out.stdout).into_owned(),
+            Read::Pdf => pdf_text(&cwd.join("out")),
+        };
+        let text = text.split_whitespace().collect::<Vec<_>>().join(" ");
+        for n in claim.numbers {
+            if !doc.contains(n) {
+                failures.push(format!("{}: does not state '{n}' any more: correct the table of claims in tests/docs.rs", claim.file));
+            } else if !text.contains(n) {
+                failures.push(format!(
+                    "{}: states '{n}', which `pvhazard {}` no longer prints: correct the document (and the table of claims)",
+                    claim.file,
+                    claim.args.join(" ")
+                ));
+            }
+        }
+    }
+    let _ = std::fs::remove_dir_all(&scratch);
+    assert!(failures.is_empty(), "{}", failures.join("\n"));
+}

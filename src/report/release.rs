@@ -89,9 +89,7 @@ pub(super) fn results(r: &RoomRelease, orifice: Option<Length>) -> Vec<Entry> {
     out.push(result(
         "Ventilation that keeps the room within limits",
         match r.ventilation_needed_per_h {
-            Some(0.0) => {
-                Value::Text("none: the room stays within them closed".to_string())
-            }
+            Some(0.0) => Value::Text("none: the room stays within them closed".to_string()),
             Some(n) => Value::Text(format!(
                 "{} air changes per hour",
                 crate::units::fmt_sig(n, 3)
