@@ -224,6 +224,105 @@ fn a_vent_outdoors_computes_no_room_and_says_where_to_look() {
     );
 }
 
+/// The JSON `pvhazard` prints for `args`.
+fn json_of(args: &[&str]) -> Value {
+    let out = pvhazard(args)
+        .assert()
+        .success()
+        .get_output()
+        .stdout
+        .clone();
+    serde_json::from_slice(&out).expect("JSON")
+}
+
+#[test]
+fn forgiving_spellings_mean_what_they_say() {
+    let vent = [
+        "vent",
+        "--gas",
+        "air",
+        "--volume",
+        "2 m3",
+        "--pressure",
+        "10 barg",
+        "--json",
+    ];
+    // A fraction of an inch, as drain valves are named: 1/2 in = 12.7 mm exactly.
+    let half = json_of(&as_strs(&with(&vent, &["--orifice", "1/2 in"])));
+    let mm = json_of(&as_strs(&with(&vent, &["--orifice", "12.7 mm"])));
+    assert_eq!(half["time_s"], mm["time_s"]);
+    assert!(half["time_s"].as_f64().is_some());
+    // Enum values in any case.
+    let upper = json_of(&as_strs(&with(
+        &vent,
+        &[
+            "--orifice",
+            "12 mm",
+            "--process",
+            "Isentropic",
+            "--units",
+            "US",
+        ],
+    )));
+    let lower = json_of(&as_strs(&with(&vent, &["--orifice", "12 mm"])));
+    assert_eq!(upper["time_s"], lower["time_s"]);
+    // Down to 0 barg is down to ambient: the usual end just above it, said in the basis.
+    let zero = json_of(&as_strs(&with(
+        &vent,
+        &["--orifice", "12 mm", "--down-to", "0 barg"],
+    )));
+    assert_eq!(zero["time_s"], lower["time_s"]);
+    assert!(
+        zero.to_string().contains("read as down to ambient"),
+        "{zero}"
+    );
+    // A wall option alone switches the wall model on, and says so.
+    let wall = json_of(&as_strs(&with(
+        &vent,
+        &["--orifice", "12 mm", "--wall-mass", "540 kg"],
+    )));
+    assert!(wall["transient"].is_object(), "{}", wall["transient"]);
+    assert!(wall.to_string().contains("also run with the wall model"));
+    assert!(lower["transient"].is_null());
+}
+
+#[test]
+fn a_worksheet_date_without_an_offset_is_read_in_the_sites_time_zone() {
+    let dir = std::env::temp_dir().join(format!("pvhazard-cli-date-{}", std::process::id()));
+    let _ = std::fs::remove_dir_all(&dir);
+    let site = concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/sample_sites/larkspur-fabrication.toml"
+    );
+    for (given, recorded) in [
+        ("2026-03-14T09:30", "2026-03-14T09:30:00+01:00"),
+        ("2026-03-14", "2026-03-14T00:00:00+01:00"),
+        ("2026-03-14T09:30:00Z", "2026-03-14T09:30:00+00:00"),
+    ] {
+        let out = dir.join(given.replace(':', "-"));
+        pvhazard(&[
+            "worksheet",
+            site,
+            "--tag",
+            "AR-101",
+            "--date",
+            given,
+            "--out",
+            out.to_str().unwrap(),
+        ])
+        .assert()
+        .success();
+        let json = std::fs::read_dir(&out)
+            .unwrap()
+            .map(|e| e.unwrap().path())
+            .find(|p| p.extension().is_some_and(|x| x == "json"))
+            .unwrap();
+        let v: Value = serde_json::from_str(&std::fs::read_to_string(json).unwrap()).unwrap();
+        assert_eq!(v["date"], recorded, "--date {given}");
+    }
+    let _ = std::fs::remove_dir_all(&dir);
+}
+
 #[test]
 fn bare_bar_is_refused_because_it_says_neither_gauge_nor_absolute() {
     let args = with(&ENERGY[..5], &["--pressure", "10 bar"]);

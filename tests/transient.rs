@@ -283,20 +283,20 @@ fn without_heat_transfer_no_rate_is_solved_for_and_no_supply_is_blamed() {
 }
 
 #[test]
-fn wall_options_without_a_wall_run_are_refused() {
+fn fill_wall_options_without_a_rate_are_refused_and_a_vents_switch_the_wall_model_on() {
+    // A fill's wall model needs the rate it runs at.
     Command::cargo_bin("pvhazard")
         .unwrap()
         .args(FILL)
         .assert()
         .code(2)
         .stderr(predicates::str::contains("--rate"));
-    Command::cargo_bin("pvhazard")
-        .unwrap()
-        .args(RECEIVER_VENT)
-        .args(["--wall-mass", "100 kg"])
-        .assert()
-        .code(2)
-        .stderr(predicates::str::contains("--heat-transfer"));
+    // A vent's runs from the vessel as it stands, so a wall option alone asks for it.
+    let mut args = RECEIVER_VENT.to_vec();
+    args.extend(["--wall-mass", "100 kg"]);
+    let v = run(&args);
+    assert_eq!(num(&v, "transient.wall.mass_kg"), 100.0);
+    assert_eq!(v["transient"]["heat_transfer"], "lumped");
 }
 
 #[test]

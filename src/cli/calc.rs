@@ -38,10 +38,10 @@ pub(super) struct Common {
     #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_length)]
     elevation: Option<Length>,
     /// Gas model: the reference equation of state of the gas, or the ideal gas for comparison.
-    #[arg(long, value_enum, default_value = "real")]
+    #[arg(long, value_enum, ignore_case = true, default_value = "real")]
     model: ModelKind,
     /// Units for the text output (the other system is shown alongside).
-    #[arg(long, value_enum, default_value = "si")]
+    #[arg(long, value_enum, ignore_case = true, default_value = "si")]
     units: UnitSystem,
     /// Print one JSON object (SI units, absolute pressures in Pa) instead of text.
     #[arg(long)]
@@ -80,7 +80,7 @@ pub(super) struct EnergyArgs {
     #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_mass)]
     empty_mass: Option<Mass>,
     /// What the work is: in service (people kept back to the 6.9 kPa standoff) or a pneumatic pressure test (the test rule's exclusion distance).
-    #[arg(long, value_enum, default_value = "in-service")]
+    #[arg(long, value_enum, ignore_case = true, default_value = "in-service")]
     work: WorkKind,
 }
 
@@ -130,10 +130,10 @@ pub(super) struct FillArgs {
     #[command(flatten)]
     wall: WallArgs,
     /// Cylinder construction (steel means carbon steel; a composite is a liner, see --liner, and a carbon-fibre wrap).
-    #[arg(long, value_enum, default_value = "steel")]
+    #[arg(long, value_enum, ignore_case = true, default_value = "steel")]
     construction: Construction,
     /// A composite cylinder's liner [default: aluminium, with a CAUTION].
-    #[arg(long, value_enum)]
+    #[arg(long, value_enum, ignore_case = true)]
     liner: Option<Liner>,
     /// The empty cylinder's mass without its valve (its tare weight), instead of --wall-mass and --wrap-mass.
     #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_mass, conflicts_with_all = ["wall_mass", "wrap_mass"])]
@@ -160,7 +160,7 @@ impl WallArgs {
 #[derive(Debug, Args)]
 pub(super) struct WallArgs {
     /// Heat exchanged between gas and wall: lumped (gas and wall nodes) or none (the adiabatic bound).
-    #[arg(long, value_enum)]
+    #[arg(long, value_enum, ignore_case = true)]
     heat_transfer: Option<HeatTransfer>,
     /// Mass of the wall [default: estimated from the volume, pressure and material].
     #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_mass)]
@@ -193,7 +193,7 @@ pub(super) struct VentArgs {
     #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_pressure)]
     down_to: Option<PressureReading>,
     /// What the gas in the vessel does while venting.
-    #[arg(long, value_enum, default_value = "isentropic")]
+    #[arg(long, value_enum, ignore_case = true, default_value = "isentropic")]
     process: Process,
     /// Starting gas temperature.
     #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_temperature, default_value = "20 C")]
@@ -207,7 +207,7 @@ pub(super) struct VentArgs {
     #[command(flatten)]
     wall: WallArgs,
     /// Wall material, for the wall heat-transfer model.
-    #[arg(long, value_enum, default_value = "carbon-steel")]
+    #[arg(long, value_enum, ignore_case = true, default_value = "carbon-steel")]
     material: Material,
     /// Design pressure (MAWP) from the rating plate, for the depressuring check and the wall estimate [default: the starting pressure].
     #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = units::parse_pressure)]
@@ -679,9 +679,12 @@ pub(super) fn write_csv(
 pub(super) fn vent_command(a: VentArgs) -> Result<String, Failure> {
     let model = super::gas_model(a.common.model, a.common.gas);
     let pa = ambient(&a.common)?;
+    // `--down-to "0 barg"` means down to ambient: the vent's usual end just above it, since
+    // the flow falls to nothing at ambient itself.
+    let to_ambient = a.down_to.is_some_and(|r| r.to_absolute(pa) == pa);
     let down_to = match a.down_to {
-        Some(r) => absolute("down-to", r, pa)?,
-        None => pa * (1.0 + vent::DEFAULT_TARGET_MARGIN),
+        Some(r) if !to_ambient => absolute("down-to", r, pa)?,
+        _ => pa * (1.0 + vent::DEFAULT_TARGET_MARGIN),
     };
     let start = absolute("pressure", a.pressure, pa)?;
     if a.down_to.is_some() && down_to >= start {
@@ -707,22 +710,15 @@ pub(super) fn vent_command(a: VentArgs) -> Result<String, Failure> {
         min_metal_temperature: a.min_metal_temperature,
         within: a.within,
     };
-    if a.wall.heat_transfer.is_none()
+    // A wall option given alone asks for the wall model: it is switched on, and said so.
+    let switched_on = a.wall.heat_transfer.is_none()
         && !a.depressuring_check
-        && (a.wall.any() || a.design_pressure.is_some())
-    {
-        return Err(InputError::new(
-            "heat-transfer",
-            "(none)",
-            "the wall options (--wall-mass, --inner-coefficient, --design-pressure, --csv) act on the vent with wall heat transfer; accepted: give --heat-transfer lumped or --depressuring-check",
-        )
-        .into());
-    }
+        && (a.wall.any() || a.design_pressure.is_some());
     let given = a
         .design_pressure
         .map(|r| absolute("design-pressure", r, pa))
         .transpose()?;
-    let wall = if a.wall.heat_transfer.is_some() || a.depressuring_check {
+    let wall = if a.wall.any() || a.design_pressure.is_some() || a.depressuring_check {
         let design = given.unwrap_or(input.pressure);
         let design_gauge = (design - pa).get::<pascal>().max(0.0);
         let wall = Wall::vessel(
@@ -782,6 +778,18 @@ pub(super) fn vent_command(a: VentArgs) -> Result<String, Failure> {
         })?;
     }
     report.inputs.design_pressure_pa = given.filter(|_| wall.is_some());
+    if to_ambient {
+        report.basis.push(crate::caution::Note::new(
+            "vent target",
+            "--down-to at ambient is read as down to ambient: the vent ends at ambient + 1 %, since the flow falls to nothing at ambient itself.",
+        ));
+    }
+    if switched_on {
+        report.basis.push(crate::caution::Note::new(
+            "heat transfer",
+            "A wall option was given, so the vent is also run with the wall model (--heat-transfer lumped).",
+        ));
+    }
     if let (Some((_, Some(path))), Some(t)) = (&wall, &report.transient) {
         if let Some(csv) = write_csv(path, &t.samples)? {
             return Ok(csv);

@@ -65,7 +65,7 @@ enum Command {
 #[derive(Debug, clap::Args)]
 struct CompletionsArgs {
     /// The shell: bash, elvish, fish, powershell or zsh.
-    #[arg(value_enum)]
+    #[arg(value_enum, ignore_case = true)]
     shell: clap_complete::Shell,
 }
 

@@ -35,11 +35,11 @@ pub(super) struct WorksheetArgs {
     /// The name of the person preparing the worksheet.
     #[arg(long, value_name = "NAME")]
     prepared_by: Option<String>,
-    /// The worksheet's date and time, RFC 3339 (e.g. 2026-03-14T09:30:00+01:00) [default: SOURCE_DATE_EPOCH if set, else now, in the site's time zone].
-    #[arg(long, value_name = "RFC3339", value_parser = parse_date)]
-    date: Option<chrono::DateTime<chrono::FixedOffset>>,
+    /// The worksheet's date and time: 2026-03-14T09:30:00+01:00, or without an offset (2026-03-14T09:30, 2026-03-14) in the site's time zone [default: SOURCE_DATE_EPOCH if set, else now, in the site's time zone].
+    #[arg(long, value_name = "DATE", value_parser = parse_date)]
+    date: Option<DateArg>,
     /// Paper size.
-    #[arg(long, value_enum, default_value = "a4")]
+    #[arg(long, value_enum, ignore_case = true, default_value = "a4")]
     paper: Paper,
     /// Folder for the PDFs and their JSON records (created if missing).
     #[arg(long, value_name = "DIR", default_value = ".")]
@@ -48,7 +48,7 @@ pub(super) struct WorksheetArgs {
     #[arg(long)]
     force: bool,
     /// Gas model: the reference equation of state of the gas, or the ideal gas for comparison.
-    #[arg(long, value_enum, default_value = "real")]
+    #[arg(long, value_enum, ignore_case = true, default_value = "real")]
     model: ModelKind,
 }
 
@@ -61,7 +61,7 @@ pub(super) struct CheckArgs {
     #[arg(long)]
     json: bool,
     /// Gas model: the reference equation of state of the gas, or the ideal gas for comparison.
-    #[arg(long, value_enum, default_value = "real")]
+    #[arg(long, value_enum, ignore_case = true, default_value = "real")]
     model: ModelKind,
 }
 
@@ -72,27 +72,62 @@ const MAX_PREPARER: usize = 120;
 /// last year a record's four-digit dates can hold.
 const LAST_EPOCH: i64 = 253_402_300_799;
 
-pub(super) fn parse_date(s: &str) -> Result<chrono::DateTime<chrono::FixedOffset>, String> {
-    const ACCEPTED: &str =
-        "accepted: e.g. 2026-03-14T09:30:00+01:00 or 2026-03-14T08:30:00Z, from 1970 to 9999";
-    let d = chrono::DateTime::parse_from_rfc3339(s.trim())
-        .map_err(|e| format!("'{s}' is not an RFC 3339 date and time ({e}); {ACCEPTED}"))?;
-    if !(0..=LAST_EPOCH).contains(&d.timestamp()) {
-        return Err(format!(
-            "'{s}' is outside the years a record is dated in; {ACCEPTED}"
-        ));
+/// A worksheet date as given: with its own offset, or a local time in the site's zone.
+#[derive(Debug, Clone, Copy)]
+pub(super) enum DateArg {
+    /// RFC 3339, with an offset.
+    Fixed(chrono::DateTime<chrono::FixedOffset>),
+    /// A date, or a date and time, to be read in the site's time zone.
+    Local(chrono::NaiveDateTime),
+}
+
+pub(super) fn parse_date(s: &str) -> Result<DateArg, String> {
+    const ACCEPTED: &str = "accepted: 2026-03-14T09:30:00+01:00 or 2026-03-14T08:30:00Z, or in the site's time zone 2026-03-14T09:30 or 2026-03-14; from 1970 to 9999";
+    let t = s.trim();
+    let in_range = |secs: i64| (0..=LAST_EPOCH).contains(&secs);
+    let outside = || format!("'{s}' is outside the years a record is dated in; {ACCEPTED}");
+    if let Ok(d) = chrono::DateTime::parse_from_rfc3339(t) {
+        return in_range(d.timestamp())
+            .then_some(DateArg::Fixed(d))
+            .ok_or_else(outside);
     }
-    Ok(d)
+    let local = [
+        "%Y-%m-%dT%H:%M:%S",
+        "%Y-%m-%dT%H:%M",
+        "%Y-%m-%d %H:%M:%S",
+        "%Y-%m-%d %H:%M",
+    ]
+    .iter()
+    .find_map(|f| chrono::NaiveDateTime::parse_from_str(t, f).ok())
+    .or_else(|| {
+        chrono::NaiveDate::parse_from_str(t, "%Y-%m-%d")
+            .ok()
+            .and_then(|d| d.and_hms_opt(0, 0, 0))
+    })
+    .ok_or_else(|| format!("'{s}' is not a date and time; {ACCEPTED}"))?;
+    // A day either side of the range leaves room for any time zone.
+    let secs = local.and_utc().timestamp();
+    (in_range(secs - 86_400) && in_range(secs + 86_400))
+        .then_some(DateArg::Local(local))
+        .ok_or_else(outside)
 }
 
 /// The worksheet date: `--date`, else SOURCE_DATE_EPOCH, else now; in the site's zone
 /// unless `--date` gave its own offset.
 pub(super) fn worksheet_date(
-    given: Option<chrono::DateTime<chrono::FixedOffset>>,
+    given: Option<DateArg>,
     zone: chrono::FixedOffset,
 ) -> Result<chrono::DateTime<chrono::FixedOffset>, Failure> {
-    if let Some(d) = given {
-        return Ok(d);
+    match given {
+        Some(DateArg::Fixed(d)) => return Ok(d),
+        Some(DateArg::Local(t)) => {
+            return t.and_local_timezone(zone).single().ok_or_else(|| {
+                Failure::Refused(format!(
+                    "--date = '{t}': not a time in the site's zone ({zone}); accepted: the date with its offset, e.g. 2026-03-14T09:30:00+01:00"
+                ))
+            })
+        }
+        None => {}
     }
     if let Ok(epoch) = std::env::var("SOURCE_DATE_EPOCH") {
         let refused = || {

@@ -145,7 +145,7 @@ pub fn parse_length(text: &str) -> Result<Length, String> {
         text,
         UNITS,
         "a length",
-        "accepted: mm, cm, m, km, in or ft, e.g. '10 mm', '0.5 in', '300 ft'",
+        "accepted: mm, cm, m, km, in or ft, e.g. '10 mm', '0.5 in', '1/2 in', '300 ft'",
     )?;
     Ok(Length::new::<meter>(f))
 }
@@ -400,11 +400,24 @@ fn split(text: &str) -> Result<(f64, &str), String> {
         ));
     }
     let (number, unit) = t.split_at(end);
-    let value: f64 = number.parse().map_err(|_| {
+    let mut value: f64 = number.parse().map_err(|_| {
         format!(
             "'{number}' is not a number; accepted: a number followed by its unit, e.g. '10 barg'"
         )
     })?;
+    // A fraction, as valves and fittings are named: `1/2 in`, or a mixed number `1 1/2 in`.
+    let whole = number.bytes().all(|b| b.is_ascii_digit());
+    let (value, unit) = if let (true, Some(rest)) = (whole, unit.strip_prefix('/')) {
+        let (denominator, rest) = fraction_part(t, rest)?;
+        value /= denominator;
+        (value, rest)
+    } else if let (true, Some((numerator, rest))) = (whole, leading_fraction(unit)) {
+        let (denominator, rest) = fraction_part(t, rest)?;
+        value += numerator / denominator;
+        (value, rest)
+    } else {
+        (value, unit)
+    };
     if !value.is_finite() {
         return Err(format!(
             "'{number}' is too large to be a physical value; accepted: a finite number with its unit"
@@ -416,6 +429,31 @@ fn split(text: &str) -> Result<(f64, &str), String> {
         ));
     }
     Ok((value, unit.trim()))
+}
+
+/// The denominator at the start of `rest` (digits after a `/`) and what follows it; `text` is
+/// the whole value, for the message.
+fn fraction_part<'a>(text: &str, rest: &'a str) -> Result<(f64, &'a str), String> {
+    let digits = rest.bytes().take_while(u8::is_ascii_digit).count();
+    let denominator: f64 = rest[..digits].parse().unwrap_or(0.0);
+    if denominator == 0.0 {
+        return Err(format!(
+            "'{text}' has a fraction without a whole denominator above zero; accepted: e.g. '1/2 in', '1 1/4 in', '0.5 in'"
+        ));
+    }
+    Ok((denominator, &rest[digits..]))
+}
+
+/// `a/` at the start of `unit` after spaces (the fraction of a mixed number, `1 1/2 in`):
+/// the numerator and what follows the slash.
+fn leading_fraction(unit: &str) -> Option<(f64, &str)> {
+    let u = unit.trim_start();
+    if u.len() == unit.len() {
+        return None;
+    }
+    let digits = u.bytes().take_while(u8::is_ascii_digit).count();
+    let rest = u[digits..].strip_prefix('/')?;
+    Some((u[..digits].parse().ok()?, rest))
 }
 
 /// The length of the decimal number at the start of `s` (sign, digits, point, exponent).
@@ -500,6 +538,19 @@ mod tests {
         match r {
             PressureReading::Gauge(p) => (true, p.get::<pascal>()),
             PressureReading::Absolute(p) => (false, p.get::<pascal>()),
+        }
+    }
+
+    #[test]
+    fn fractions_are_read_as_valves_are_named() {
+        let mm = |t: &str| parse_length(t).map(|l| l.get::<uom::si::length::millimeter>());
+        assert_relative_eq!(mm("1/2 in").unwrap(), 12.7, max_relative = 1e-12);
+        assert_relative_eq!(mm("1/4\"").unwrap(), 6.35, max_relative = 1e-12);
+        assert_relative_eq!(mm("3/8 in").unwrap(), 9.525, max_relative = 1e-12);
+        assert_relative_eq!(mm("1 1/2 in").unwrap(), 38.1, max_relative = 1e-12);
+        assert_relative_eq!(mm("12 mm").unwrap(), 12.0, max_relative = 1e-12);
+        for bad in ["1/0 in", "1/ in", "1.5/2 in", "1 1/0 in"] {
+            assert!(mm(bad).is_err(), "{bad}");
         }
     }
 
