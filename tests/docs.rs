@@ -429,3 +429,39 @@ fn the_numbers_the_documents_state_in_prose_are_what_the_tool_prints() {
     let _ = std::fs::remove_dir_all(&scratch);
     assert!(failures.is_empty(), "{}", failures.join("\n"));
 }
+
+#[test]
+fn the_readme_stays_short_and_its_test_command_is_the_one_ci_runs() {
+    let root = Path::new(env!("CARGO_MANIFEST_DIR"));
+    let readme = std::fs::read_to_string(root.join("README.md")).expect("README.md");
+    let lines = readme.lines().count();
+    assert!(
+        lines < 400,
+        "README.md is {lines} lines; the manual lives in docs/"
+    );
+    // The first block of "Two commands": the main job, then the tests.
+    let section = readme
+        .split("## Two commands on a fresh machine")
+        .nth(1)
+        .expect("the two-commands section");
+    let block = section
+        .split("```sh\n")
+        .nth(1)
+        .and_then(|b| b.split("```").next())
+        .expect("its commands");
+    let commands: Vec<&str> = block.lines().collect();
+    assert_eq!(commands.len(), 2, "{commands:?}");
+    assert!(commands[0].starts_with("cargo run --release -- "));
+    let ci = std::fs::read_to_string(root.join(".ci/run")).expect(".ci/run");
+    let ci_runs = ci
+        .lines()
+        .map(str::trim)
+        .any(|l| l == commands[1] || l == format!("{} --locked", commands[1]));
+    assert!(
+        ci_runs,
+        "CI does not run the README's test command `{}`",
+        commands[1]
+    );
+    // CI runs it in the same profile as the first command, so the second reuses its build.
+    assert!(commands[1].contains("--release"));
+}
