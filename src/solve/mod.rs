@@ -37,16 +37,50 @@ pub struct NoRoot {
 ///
 /// `f(lo)` and `f(hi)` must differ in sign (a zero at either end is returned as is).
 pub fn root(f: impl Fn(f64) -> f64, lo: f64, hi: f64, tol: f64) -> Result<f64, NoRoot> {
+    let ends = ((lo, f(lo)), (hi, f(hi)));
+    root_within(f, ends, tol, 0.0).map(|r| r.x)
+}
+
+/// Where [`root_within`] stopped: the last iterate and the far end of the bracket it
+/// closed, each with its value; `f` changes sign between them unless `fx` is within the
+/// value tolerance.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Settled {
+    /// The last iterate.
+    pub x: f64,
+    /// `f` there.
+    pub fx: f64,
+    /// The other end of the final bracket.
+    pub other: f64,
+    /// `f` there.
+    pub f_other: f64,
+}
+
+/// Brent's method as [`root`], from ends whose values are already known, stopping also as
+/// soon as an iterate's |f| is within `ftol`: a search whose answer needs only that value
+/// accuracy spends no evaluations beyond it.
+pub fn root_within(
+    f: impl Fn(f64) -> f64,
+    ((lo, f_lo), (hi, f_hi)): ((f64, f64), (f64, f64)),
+    tol: f64,
+    ftol: f64,
+) -> Result<Settled, NoRoot> {
     let (mut a, mut b) = (lo, hi);
-    let (mut fa, mut fb) = (f(a), f(b));
+    let (mut fa, mut fb) = (f_lo, f_hi);
     if !(fa.is_finite() && fb.is_finite()) || fa * fb > 0.0 {
         return Err(NoRoot { lo, hi });
     }
-    if fa == 0.0 {
-        return Ok(a);
+    let done = |x: f64, fx: f64, other: f64, f_other: f64| Settled {
+        x,
+        fx,
+        other,
+        f_other,
+    };
+    if fa.abs() <= ftol || fa == 0.0 {
+        return Ok(done(a, fa, b, fb));
     }
-    if fb == 0.0 {
-        return Ok(b);
+    if fb.abs() <= ftol || fb == 0.0 {
+        return Ok(done(b, fb, a, fa));
     }
     let (mut c, mut fc) = (a, fa);
     let mut d = b - a;
@@ -68,8 +102,8 @@ pub fn root(f: impl Fn(f64) -> f64, lo: f64, hi: f64, tol: f64) -> Result<f64, N
         }
         let tol1 = 2.0 * f64::EPSILON * b.abs() + 0.5 * tol;
         let m = 0.5 * (c - b);
-        if m.abs() <= tol1 || fb == 0.0 {
-            return Ok(b);
+        if m.abs() <= tol1 || fb.abs() <= ftol || fb == 0.0 {
+            return Ok(done(b, fb, c, fc));
         }
         if e.abs() >= tol1 && fa.abs() > fb.abs() {
             let s = fb / fa;
