@@ -145,6 +145,76 @@ pub fn root_within(
     Err(NoRoot { lo, hi })
 }
 
+/// The maximum of `f` inside a bracket `a < c < b` with f(c) above both ends, to `tol` in
+/// x: Brent's method for a minimum (Brent 1973, ch. 5) turned over, parabolic steps through
+/// the best three points with golden-section steps where a parabola does not shrink the
+/// bracket fast enough. Returns (x, f(x)) of the best point found.
+pub fn maximum(
+    f: impl Fn(f64) -> f64,
+    (a, c, b): (f64, f64, f64),
+    fc: f64,
+    tol: f64,
+) -> (f64, f64) {
+    const GOLD: f64 = 0.381_966_011_250_105_1;
+    let (mut a, mut b) = (a, b);
+    let (mut x, mut w, mut v) = (c, c, c);
+    let (mut fx, mut fw, mut fv) = (-fc, -fc, -fc);
+    let (mut d, mut e) = (0.0f64, 0.0f64);
+    for _ in 0..100 {
+        let m = 0.5 * (a + b);
+        let tol1 = tol + 1e-10 * x.abs();
+        if (x - m).abs() <= 2.0 * tol1 - 0.5 * (b - a) {
+            break;
+        }
+        let mut golden = true;
+        if e.abs() > tol1 {
+            let r = (x - w) * (fx - fv);
+            let mut q = (x - v) * (fx - fw);
+            let mut p = (x - v) * q - (x - w) * r;
+            q = 2.0 * (q - r);
+            if q > 0.0 {
+                p = -p;
+            }
+            q = q.abs();
+            if p.abs() < (0.5 * q * e).abs() && p > q * (a - x) && p < q * (b - x) {
+                e = d;
+                d = p / q;
+                let u = x + d;
+                if u - a < 2.0 * tol1 || b - u < 2.0 * tol1 {
+                    d = tol1.copysign(m - x);
+                }
+                golden = false;
+            }
+        }
+        if golden {
+            e = if x >= m { a - x } else { b - x };
+            d = GOLD * e;
+        }
+        let u = x + if d.abs() >= tol1 { d } else { tol1.copysign(d) };
+        let fu = -f(u);
+        if fu <= fx {
+            if u >= x {
+                a = x;
+            } else {
+                b = x;
+            }
+            (v, fv, w, fw, x, fx) = (w, fw, x, fx, u, fu);
+        } else {
+            if u < x {
+                a = u;
+            } else {
+                b = u;
+            }
+            if fu <= fw || w == x {
+                (v, fv, w, fw) = (w, fw, u, fu);
+            } else if fu <= fv || v == x || v == w {
+                (v, fv) = (u, fu);
+            }
+        }
+    }
+    (x, -fx)
+}
+
 // Gauss–Kronrod 7/15 nodes and weights (Kronrod 1965; as tabulated in QUADPACK, qk15).
 const XGK: [f64; 8] = [
     0.991_455_371_120_812_6,
