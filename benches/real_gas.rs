@@ -1,5 +1,6 @@
-//! Speed of the real-gas model: density from (p, T), every property at one state, the
-//! isentropic nozzle, and a complete vent-down (the blow-down rule from 300 bar). Compare
+//! Speed of the real-gas model: density from (p, T) (carbon dioxide beside nitrogen, its
+//! reference), every property at one state, the isentropic nozzle, and complete vent-downs
+//! (the blow-down rule from 300 bar, and the sample site's air bank, which ends two-phase). Compare
 //! with CoolProp's PropsSI on the same machine: `python3 tools/bench_coolprop.py` runs
 //! these and times PropsSI in the same run.
 
@@ -52,6 +53,26 @@ fn benches(c: &mut Criterion) {
     c.bench_function(
         "vent-down 50 L air 300 -> 50 bar(a), isothermal, real gas",
         |b| b.iter(|| blow_down(&air, black_box(&vent)).unwrap()),
+    );
+    // The sample site's air bank (BANK-1): 200 L from 4500 psig through its 0.06 in bleed
+    // valve to 1 % above ambient, isentropic: the gas ends two-phase, and the nozzle's
+    // throat is two-phase over the last part of the vent.
+    let bank = VentInput {
+        volume: Volume::new::<cubic_meter>(0.2),
+        pressure: p(4500.0 * 6_894.757_293_168 + 101_325.0),
+        orifice: Some(Length::new::<meter>(0.06 * 0.0254)),
+        cd: 0.7,
+        down_to: p(1.01 * 101_325.0),
+        process: Process::Isentropic,
+        ..vent
+    };
+    c.bench_function(
+        "vent-down BANK-1: 200 L air 4500 psig -> 1.01 atm, 0.06 in, isentropic, real gas",
+        |b| {
+            b.iter(|| {
+                blow_down(&RealGas::new(Gas::find("air").unwrap()), black_box(&bank)).unwrap()
+            })
+        },
     );
 }
 

@@ -1,6 +1,8 @@
-//! Speed of the transient models: full 300-bar cylinder fills (steel, composite) and a full receiver
-//! vent-down, each one complete run of the adaptive integrator with wall heat transfer, on
-//! the real-gas and the ideal-gas model. Run with `cargo bench --bench transient`.
+//! Speed of the transient models: full 300-bar cylinder fills (steel, composite), a composite
+//! cylinder's whole fill check (the planned run, its conservative edge and the searches for
+//! the highest safe rate and the fill-to pressure), and a full receiver vent-down with its
+//! two conservative-edge runs, with wall heat transfer, on the real-gas and the ideal-gas
+//! model. Run with `cargo bench --bench transient`.
 
 use criterion::{criterion_group, criterion_main, Criterion};
 use pvhazard::gas::{Gas, GasModel, IdealGas, RealGas};
@@ -74,6 +76,23 @@ fn runs(c: &mut Criterion, air: &dyn GasModel) {
     c.bench_function(
         &format!("fill 6.8 L composite air 20 -> 300 bar(a), 100 bar/min, {name} gas"),
         |b| b.iter(|| transient::fill_once(air, &small, &composite).unwrap()),
+    );
+
+    // The search for the highest safe rate (and the fill-to pressure), on the conservative
+    // edge: every run the fill check makes, beside the single run above.
+    c.bench_function(
+        &format!("fill check 6.8 L composite air 20 -> 300 bar(a), 100 bar/min, rated 65 C: planned run, edge, highest safe rate, fill-to, {name} gas"),
+        |b| {
+            b.iter(|| {
+                transient::fill(
+                    air,
+                    &small,
+                    Some(ThermodynamicTemperature::new::<kelvin>(338.15)),
+                    &composite,
+                )
+                .unwrap()
+            })
+        },
     );
 
     let start = air.state_pt(p(11.01325e5), t).unwrap();

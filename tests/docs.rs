@@ -253,12 +253,12 @@ const CLAIMS: &[Claim] = &[
         ],
         read: Read::Pdf,
         numbers: &[
-            "136.9 °F",
-            "58.3 °C",
             "138.1 °F",
+            "59.0 °C",
+            "136.9 °F",
             "5419 psia",
             "262.8 °F",
-            "1327 psi/min",
+            "1316 psi/min",
         ],
     },
     Claim {

@@ -214,8 +214,10 @@ fn fill_to(
             .against(Value::Pressure(settled), limit_value);
         }
         return not_resolved(
-            "the search found no stop pressure between 0.8 and 1.6 times the target on the model"
-                .to_string(),
+            format!(
+                "the fill carried on at the planned rate does not reach the target's mass by {} times the target on the model",
+                transient::FILL_TO_CAP
+            ),
         );
     };
     let against = |f: Finding| f.against(Value::Pressure(p), limit_value.clone());

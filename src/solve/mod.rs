@@ -37,16 +37,50 @@ pub struct NoRoot {
 ///
 /// `f(lo)` and `f(hi)` must differ in sign (a zero at either end is returned as is).
 pub fn root(f: impl Fn(f64) -> f64, lo: f64, hi: f64, tol: f64) -> Result<f64, NoRoot> {
+    let ends = ((lo, f(lo)), (hi, f(hi)));
+    root_within(f, ends, tol, 0.0).map(|r| r.x)
+}
+
+/// Where [`root_within`] stopped: the last iterate and the far end of the bracket it
+/// closed, each with its value; `f` changes sign between them unless `fx` is within the
+/// value tolerance.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Settled {
+    /// The last iterate.
+    pub x: f64,
+    /// `f` there.
+    pub fx: f64,
+    /// The other end of the final bracket.
+    pub other: f64,
+    /// `f` there.
+    pub f_other: f64,
+}
+
+/// Brent's method as [`root`], from ends whose values are already known, stopping also as
+/// soon as an iterate's |f| is within `ftol`: a search whose answer needs only that value
+/// accuracy spends no evaluations beyond it.
+pub fn root_within(
+    f: impl Fn(f64) -> f64,
+    ((lo, f_lo), (hi, f_hi)): ((f64, f64), (f64, f64)),
+    tol: f64,
+    ftol: f64,
+) -> Result<Settled, NoRoot> {
     let (mut a, mut b) = (lo, hi);
-    let (mut fa, mut fb) = (f(a), f(b));
+    let (mut fa, mut fb) = (f_lo, f_hi);
     if !(fa.is_finite() && fb.is_finite()) || fa * fb > 0.0 {
         return Err(NoRoot { lo, hi });
     }
-    if fa == 0.0 {
-        return Ok(a);
+    let done = |x: f64, fx: f64, other: f64, f_other: f64| Settled {
+        x,
+        fx,
+        other,
+        f_other,
+    };
+    if fa.abs() <= ftol || fa == 0.0 {
+        return Ok(done(a, fa, b, fb));
     }
-    if fb == 0.0 {
-        return Ok(b);
+    if fb.abs() <= ftol || fb == 0.0 {
+        return Ok(done(b, fb, a, fa));
     }
     let (mut c, mut fc) = (a, fa);
     let mut d = b - a;
@@ -68,8 +102,8 @@ pub fn root(f: impl Fn(f64) -> f64, lo: f64, hi: f64, tol: f64) -> Result<f64, N
         }
         let tol1 = 2.0 * f64::EPSILON * b.abs() + 0.5 * tol;
         let m = 0.5 * (c - b);
-        if m.abs() <= tol1 || fb == 0.0 {
-            return Ok(b);
+        if m.abs() <= tol1 || fb.abs() <= ftol || fb == 0.0 {
+            return Ok(done(b, fb, c, fc));
         }
         if e.abs() >= tol1 && fa.abs() > fb.abs() {
             let s = fb / fa;
@@ -109,6 +143,76 @@ pub fn root(f: impl Fn(f64) -> f64, lo: f64, hi: f64, tol: f64) -> Result<f64, N
     }
     // Not settled within the iterations: not a root, whatever `b` is.
     Err(NoRoot { lo, hi })
+}
+
+/// The maximum of `f` inside a bracket `a < c < b` with f(c) above both ends, to `tol` in
+/// x: Brent's method for a minimum (Brent 1973, ch. 5) turned over, parabolic steps through
+/// the best three points with golden-section steps where a parabola does not shrink the
+/// bracket fast enough. Returns (x, f(x)) of the best point found.
+pub fn maximum(
+    f: impl Fn(f64) -> f64,
+    (a, c, b): (f64, f64, f64),
+    fc: f64,
+    tol: f64,
+) -> (f64, f64) {
+    const GOLD: f64 = 0.381_966_011_250_105_1;
+    let (mut a, mut b) = (a, b);
+    let (mut x, mut w, mut v) = (c, c, c);
+    let (mut fx, mut fw, mut fv) = (-fc, -fc, -fc);
+    let (mut d, mut e) = (0.0f64, 0.0f64);
+    for _ in 0..100 {
+        let m = 0.5 * (a + b);
+        let tol1 = tol + 1e-10 * x.abs();
+        if (x - m).abs() <= 2.0 * tol1 - 0.5 * (b - a) {
+            break;
+        }
+        let mut golden = true;
+        if e.abs() > tol1 {
+            let r = (x - w) * (fx - fv);
+            let mut q = (x - v) * (fx - fw);
+            let mut p = (x - v) * q - (x - w) * r;
+            q = 2.0 * (q - r);
+            if q > 0.0 {
+                p = -p;
+            }
+            q = q.abs();
+            if p.abs() < (0.5 * q * e).abs() && p > q * (a - x) && p < q * (b - x) {
+                e = d;
+                d = p / q;
+                let u = x + d;
+                if u - a < 2.0 * tol1 || b - u < 2.0 * tol1 {
+                    d = tol1.copysign(m - x);
+                }
+                golden = false;
+            }
+        }
+        if golden {
+            e = if x >= m { a - x } else { b - x };
+            d = GOLD * e;
+        }
+        let u = x + if d.abs() >= tol1 { d } else { tol1.copysign(d) };
+        let fu = -f(u);
+        if fu <= fx {
+            if u >= x {
+                a = x;
+            } else {
+                b = x;
+            }
+            (v, fv, w, fw, x, fx) = (w, fw, x, fx, u, fu);
+        } else {
+            if u < x {
+                a = u;
+            } else {
+                b = u;
+            }
+            if fu <= fw || w == x {
+                (v, fv, w, fw) = (w, fw, u, fu);
+            } else if fu <= fv || v == x || v == w {
+                (v, fv) = (u, fu);
+            }
+        }
+    }
+    (x, -fx)
 }
 
 // Gauss–Kronrod 7/15 nodes and weights (Kronrod 1965; as tabulated in QUADPACK, qk15).

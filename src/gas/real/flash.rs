@@ -44,7 +44,8 @@ impl Equilibrium {
         }
     }
 
-    fn mixture(sat: &Saturation, x: f64) -> Equilibrium {
+    /// The mixture of `sat`'s liquid and vapour with vapour mass fraction `x`.
+    pub(super) fn mixture(sat: &Saturation, x: f64) -> Equilibrium {
         let (l, v) = (&sat.liquid, &sat.vapour);
         let mix = |a: f64, b: f64| a + x * (b - a);
         Equilibrium {
@@ -171,6 +172,30 @@ impl Equation {
             .filter(|rho| *rho < top * (1.0 - 1e-9))
     }
 
+    /// How far outside the ancillary curves' saturated densities, as a fraction, a density
+    /// is taken as one phase without solving for saturation: 0.2 for a pure gas, whose
+    /// ancillaries hold within a few percent; 0.6 for a pseudo-pure mixture (air), whose
+    /// vapour curve is its dew line, well below the single Maxwell line's vapour (see the
+    /// tests).
+    pub(super) fn one_phase_margin(&self) -> f64 {
+        if self.fluid.pseudo_pure {
+            0.6
+        } else {
+            0.2
+        }
+    }
+
+    /// Whether density `rho` at temperature `t` lies so far outside the ancillary curves'
+    /// saturated densities ([`Equation::one_phase_margin`]) that no saturation solve is
+    /// needed to rule out two phases.
+    fn clearly_one_phase(&self, rho: f64, t: f64) -> bool {
+        let anc = &self.fluid.ancillary;
+        let (m, margin) = (self.fluid.molar_mass, self.one_phase_margin());
+        t >= self.t_sat_max
+            || rho < anc.rho_vapour.at(t) * m * (1.0 - margin)
+            || rho > anc.rho_liquid.at(t) * m * (1.0 + margin)
+    }
+
     /// A density at which the pressure exceeds `p`, searching upward from `from`.
     fn density_above(&self, p: f64, t: f64, from: f64) -> Result<f64, FlashError> {
         let mut rho = from;
@@ -257,6 +282,33 @@ impl Equation {
         }
     }
 
+    /// [`Equation::at_rho_t`] with the saturation solve started from `near`, the last one
+    /// found, which this updates: a search along temperature asks for neighbouring states.
+    fn at_rho_t_near(
+        &self,
+        rho: f64,
+        t: f64,
+        near: &std::cell::Cell<Option<Saturation>>,
+    ) -> Result<Equilibrium, FlashError> {
+        let (_, t_hi) = self.t_range();
+        if !(t >= self.fluid.t_triple && t <= t_hi && rho > 0.0) {
+            return self.at_rho_t(rho, t);
+        }
+        let last = near.get();
+        let sat = (t < self.fluid.t_critical)
+            .then(|| self.saturation_t_near(t, last.as_ref()))
+            .flatten();
+        if sat.is_some() {
+            near.set(sat);
+        }
+        match sat {
+            Some(sat) if sat.splits(rho) => {
+                Ok(Equilibrium::mixture(&sat, sat.quality_at_density(rho)))
+            }
+            _ => Ok(Equilibrium::single(self.props(rho, t))),
+        }
+    }
+
     /// The equilibrium state at density `rho` where `value` (one of u, s, p, rising with T)
     /// equals `target`; `slope` is its T-derivative in one phase, `guess` a temperature to
     /// start from.
@@ -299,9 +351,10 @@ impl Equation {
             let stands = if p.t < self.fluid.t_triple {
                 self.below_triple(rho, p.t).is_ok()
             } else {
-                !self
-                    .saturation_below_critical(p.t)
-                    .is_some_and(|sat| sat.splits(rho))
+                self.clearly_one_phase(rho, p.t)
+                    || !self
+                        .saturation_below_critical(p.t)
+                        .is_some_and(|sat| sat.splits(rho))
             };
             if stands {
                 return Ok(Equilibrium::single(p));
@@ -309,20 +362,32 @@ impl Equation {
         }
         // Two phases exist only from the triple point up.
         let t_lo = self.fluid.t_triple;
-        // Inside the dome (or beyond the ends): the equilibrium value along T.
+        // Inside the dome (or beyond the ends): the equilibrium value along T, each
+        // saturation solve started from the last.
+        let near = std::cell::Cell::new(None);
         let f = |t: f64| {
-            self.at_rho_t(rho, t)
+            self.at_rho_t_near(rho, t, &near)
                 .map_or(f64::NAN, |e| value(&e) - target)
         };
+        let tol = RTOL * self.fluid.t_critical;
+        // Near the guess first (a path asks for neighbouring states in turn): each value
+        // costs a saturation solve.
+        let (a, b) = ((guess * 0.99).max(t_lo), (guess * 1.01).min(t_hi));
+        let (fa, fb) = (f(a), f(b));
+        if fa <= 0.0 && fb >= 0.0 {
+            let t = crate::solve::root_within(f, ((a, fa), (b, fb)), tol, 0.0)
+                .map_err(|_| FlashError::NoConvergence)?
+                .x;
+            return self.at_rho_t_near(rho, t, &near);
+        }
         if f(t_lo) > 0.0 {
             return Err(FlashError::BelowTriplePoint);
         }
         if f(t_hi) < 0.0 {
             return Err(FlashError::OutOfRange);
         }
-        let t = crate::solve::root(f, t_lo, t_hi, RTOL * self.fluid.t_critical)
-            .map_err(|_| FlashError::NoConvergence)?;
-        self.at_rho_t(rho, t)
+        let t = crate::solve::root(f, t_lo, t_hi, tol).map_err(|_| FlashError::NoConvergence)?;
+        self.at_rho_t_near(rho, t, &near)
     }
 
     /// The equilibrium state at pressure `p` where `value` (s or h, rising with T at fixed
@@ -334,6 +399,19 @@ impl Equation {
         value: impl Fn(&Equilibrium) -> f64,
         slope: impl Fn(&Props) -> f64,
     ) -> Result<Equilibrium, FlashError> {
+        self.at_p_saturated(p, self.saturation_p(p), target, value, slope)
+    }
+
+    /// [`Equation::at_p`] with the saturation state at `p` already found (`None` where
+    /// there is none: above the critical pressure or below the triple point's).
+    pub fn at_p_saturated(
+        &self,
+        p: f64,
+        saturation: Option<Saturation>,
+        target: f64,
+        value: impl Fn(&Equilibrium) -> f64,
+        slope: impl Fn(&Props) -> f64,
+    ) -> Result<Equilibrium, FlashError> {
         let (floor, t_hi) = self.t_range();
         // Liquid and the gas above the triple-point pressure start at the triple point.
         let t_lo = self.fluid.t_triple;
@@ -341,7 +419,7 @@ impl Equation {
             return Err(FlashError::OutOfRange);
         }
         let mut vapour_bound = None;
-        let (lo, hi) = match self.saturation_p(p) {
+        let (lo, hi) = match saturation {
             Some(sat) => {
                 let (l, v) = (
                     value(&Equilibrium::single(sat.liquid)),

@@ -37,6 +37,10 @@ pub struct RealGas {
     /// next throat search starts (a vent asks for neighbouring states in turn). Only the
     /// speed depends on it; every throat is solved to the same tolerance.
     throat_ratio: std::cell::Cell<Option<f64>>,
+    /// The last two-phase throat's ln(p/p₀), where the next one's search starts.
+    hem_throat: std::cell::Cell<Option<f64>>,
+    /// The last two-phase throat's T − T₀, from a two-phase stagnation state.
+    hem_throat_t: std::cell::Cell<Option<f64>>,
     /// The last state's equilibrium, by its (ρ, T): a time step asks for h, cp and the
     /// nozzle flux of one state in turn.
     last: std::cell::Cell<Option<Equilibrium>>,
@@ -51,6 +55,8 @@ impl RealGas {
             gas,
             eq,
             throat_ratio: std::cell::Cell::new(None),
+            hem_throat: std::cell::Cell::new(None),
+            hem_throat_t: std::cell::Cell::new(None),
             last: std::cell::Cell::new(None),
         }
     }
@@ -123,40 +129,34 @@ impl RealGas {
     /// pressure; the flow is choked when the maximum lies above the back pressure.
     ///
     /// The flux is sampled on a grid in ln p first and the best sample's neighbourhood
-    /// refined by golden-section search, so a pressure with no state (the narrow band just
-    /// below the critical pressure, where the model has no two-phase state) is skipped
-    /// rather than steering a search that assumes one maximum.
+    /// refined by Brent's method for a maximum, so a pressure with no state (the narrow band
+    /// just below the critical pressure, where the model has no two-phase state) is skipped
+    /// rather than steering a search that assumes one maximum. The last throat found, where
+    /// it still brackets the maximum, stands in for the grid.
     fn equilibrium_nozzle(&self, e0: &Equilibrium, pb: f64) -> NozzleFlow {
+        if e0.quality.is_some() {
+            if let Some(flow) = self.two_phase_nozzle(e0, pb) {
+                return flow;
+            }
+        }
+        // Each throat pressure's saturation state starts from the last one found.
+        let near = std::cell::Cell::new(None);
         let flux = |ln_p: f64| {
+            let p = ln_p.exp();
+            let last: Option<Saturation> = near.get();
+            let sat = self.eq.saturation_p_near(p, last.as_ref());
+            if sat.is_some() {
+                near.set(sat);
+            }
             self.eq
-                .at_p(ln_p.exp(), e0.s, |e| e.s, |p| p.cp / p.t)
+                .at_p_saturated(p, sat, e0.s, |e| e.s, |p| p.cp / p.t)
                 .map_or(0.0, |e| throat_flux(e0, &e))
         };
         let (lo, hi) = (pb.ln(), e0.p.ln());
-        let step = (hi - lo) / HEM_GRID as f64;
-        let (best_i, _) = (0..=HEM_GRID)
-            .map(|i| (i, flux(lo + step * i as f64)))
-            .fold((0, f64::NEG_INFINITY), |a, b| if b.1 > a.1 { b } else { a });
-        let (mut a, mut b) = (
-            lo + step * best_i.saturating_sub(1) as f64,
-            lo + step * (best_i + 1).min(HEM_GRID) as f64,
-        );
-        let r = 0.5 * (5f64.sqrt() - 1.0);
-        let (mut c, mut d) = (b - r * (b - a), a + r * (b - a));
-        let (mut fc, mut fd) = (flux(c), flux(d));
-        for _ in 0..HEM_REFINE {
-            if fc > fd {
-                (b, d, fd) = (d, c, fc);
-                c = b - r * (b - a);
-                fc = flux(c);
-            } else {
-                (a, c, fc) = (c, d, fd);
-                d = a + r * (b - a);
-                fd = flux(d);
-            }
-        }
-        let at_back = flux(pb.ln());
-        let (best, ln_p) = if fc > fd { (fc, c) } else { (fd, d) };
+        let peak = throat_peak(&flux, (lo, hi), self.hem_throat.get(), HEM_TOL);
+        self.hem_throat.set(peak.map(|(x, _)| x - hi));
+        let (ln_p, best) = peak.unwrap_or((lo, 0.0));
+        let at_back = flux(lo);
         if at_back >= best || ln_p - pb.ln() < 1e-6 {
             NozzleFlow {
                 mass_flux: mass_flux(at_back),
@@ -168,6 +168,52 @@ impl RealGas {
                 choked: true,
             }
         }
+    }
+
+    /// [`RealGas::equilibrium_nozzle`] from a two-phase stagnation state, whose isentrope
+    /// stays two-phase down to the back pressure: the throat searched along temperature,
+    /// each state one saturation solve (started from the last) and the quality that keeps
+    /// the entropy, rather than a saturation search at each throat pressure. `None` where
+    /// the isentrope leaves the two-phase region on the way (then the search along pressure
+    /// serves).
+    fn two_phase_nozzle(&self, e0: &Equilibrium, pb: f64) -> Option<NozzleFlow> {
+        let back = self.eq.saturation_p(pb)?;
+        let near = std::cell::Cell::new(back);
+        let left = std::cell::Cell::new(false);
+        let state = |t: f64| -> Option<Equilibrium> {
+            let sat = self.eq.saturation_t_near(t, Some(&near.get()))?;
+            near.set(sat);
+            let x = (e0.s - sat.liquid.s) / (sat.vapour.s - sat.liquid.s);
+            (0.0..=1.0)
+                .contains(&x)
+                .then(|| Equilibrium::mixture(&sat, x))
+        };
+        let flux = |t: f64| match state(t) {
+            Some(e) => throat_flux(e0, &e),
+            None => {
+                left.set(true);
+                0.0
+            }
+        };
+        let (lo, hi) = (back.t, e0.t);
+        let at_back = flux(lo);
+        let peak = throat_peak(&flux, (lo, hi), self.hem_throat_t.get(), HEM_TOL * hi);
+        if left.get() {
+            return None;
+        }
+        self.hem_throat_t.set(peak.map(|(t, _)| t - hi));
+        let (t, best) = peak.unwrap_or((lo, 0.0));
+        Some(if at_back >= best || t - lo < HEM_TOL * lo {
+            NozzleFlow {
+                mass_flux: mass_flux(at_back),
+                choked: false,
+            }
+        } else {
+            NozzleFlow {
+                mass_flux: mass_flux(best),
+                choked: true,
+            }
+        })
     }
 
     /// The state at density and internal energy, the temperature search started at `guess`.
@@ -199,11 +245,65 @@ impl RealGas {
 }
 
 /// Samples of the homogeneous-equilibrium flux over ln p, from the back pressure to the
-/// stagnation pressure, before refinement.
+/// stagnation pressure, where no earlier throat brackets the maximum.
 const HEM_GRID: usize = 12;
-/// Golden-section steps refining the best sample's two neighbouring intervals (0.618^22 of
-/// two grid steps: below 1e-5 in ln p, where the flux is flat at its maximum).
-const HEM_REFINE: usize = 22;
+/// The bracket tried around the last throat is this many times narrower than a grid step.
+const HEM_LOCAL: f64 = 8.0;
+/// The throat's tolerance in ln p (relative, along temperature): the flux is flat at its
+/// maximum, so its error is of the order of the square of this.
+const HEM_TOL: f64 = 1e-6;
+
+/// The maximum of a throat's `flux` over its path variable in (lo, hi): bracketed around
+/// `hint` (the last throat's offset from `hi`; a vent asks for neighbouring states in turn)
+/// where the flux there stands above both ends of a narrow bracket, else from a grid's best
+/// sample and its neighbours, then refined by Brent's method for a maximum. `None` where no
+/// interior maximum shows (the flux peaks at an end).
+fn throat_peak(
+    flux: &impl Fn(f64) -> f64,
+    (lo, hi): (f64, f64),
+    hint: Option<f64>,
+    tol: f64,
+) -> Option<(f64, f64)> {
+    let width = (hi - lo) / HEM_GRID as f64;
+    let local = hint.and_then(|r| {
+        let c = hi + r;
+        let half = width / HEM_LOCAL;
+        let (a, b) = ((c - half).max(lo), (c + half).min(hi));
+        if !(a < c && c < b) {
+            return None;
+        }
+        let fc = flux(c);
+        (fc > flux(a) && fc > flux(b)).then_some((a, c, b, fc))
+    });
+    let bracket = local.or_else(|| {
+        let samples: Vec<f64> = (0..=HEM_GRID)
+            .map(|i| flux(lo + width * i as f64))
+            .collect();
+        let (best_i, _) = samples
+            .iter()
+            .enumerate()
+            .fold(
+                (0, f64::NEG_INFINITY),
+                |a, (i, &f)| if f > a.1 { (i, f) } else { a },
+            );
+        // At the first sample, the maximum may still lie inside the first interval.
+        let (c, fc) = match best_i {
+            0 => (lo + 0.5 * width, flux(lo + 0.5 * width)),
+            i => (lo + width * i as f64, samples[i]),
+        };
+        let (a, b) = (
+            lo + width * best_i.saturating_sub(1) as f64,
+            lo + width * (best_i + 1).min(HEM_GRID) as f64,
+        );
+        let (fa, fb) = (
+            samples[best_i.saturating_sub(1)],
+            samples[(best_i + 1).min(HEM_GRID)],
+        );
+        (a < c && c < b && fc > fa && fc > fb).then_some((a, c, b, fc))
+    })?;
+    let (a, c, b, fc) = bracket;
+    Some(crate::solve::maximum(flux, (a, c, b), fc, tol))
+}
 
 /// Mass flux ρ·c at a throat state `e` on the isentrope from the stagnation state `e0`,
 /// with the velocity c = √(2·(h0 − h)) from the energy balance.
@@ -532,6 +632,30 @@ impl GasModel for RealGas {
 mod tests {
     use super::*;
     use crate::gas::GASES;
+
+    #[test]
+    fn the_ancillary_densities_hold_well_inside_the_one_phase_margin() {
+        // A density outside the ancillaries' saturated densities by the margin is taken as
+        // one phase without a saturation solve: they must agree with the equation's own
+        // Maxwell solution well within it, up to the solver's highest temperature (measured:
+        // within 6.3 % for the pure gases, helium near its critical point the worst; air's
+        // vapour curve, its dew line, lies up to 41 % below its Maxwell vapour).
+        for eq in equations() {
+            let (f, m) = (&eq.fluid, eq.fluid.molar_mass);
+            for i in 0..=200 {
+                let t = f.t_triple + (eq.t_sat_max - f.t_triple) * i as f64 / 200.0;
+                let sat = eq.saturation_t(t).unwrap();
+                let liquid = f.ancillary.rho_liquid.at(t) * m / sat.liquid.rho - 1.0;
+                let vapour = f.ancillary.rho_vapour.at(t) * m / sat.vapour.rho - 1.0;
+                let within = 0.75 * eq.one_phase_margin();
+                assert!(
+                    liquid.abs() < within && vapour.abs() < within,
+                    "{} at {t} K: liquid {liquid}, vapour {vapour}",
+                    f.gas
+                );
+            }
+        }
+    }
 
     #[test]
     fn every_catalogue_gas_has_its_equation_with_matching_constants() {

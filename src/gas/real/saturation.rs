@@ -24,6 +24,13 @@ impl Saturation {
         (1.0 / rho - vl) / (vv - vl)
     }
 
+    /// d ln p / d(1/T) along the saturation curve, from the Clausius–Clapeyron equation.
+    fn ln_p_slope(&self) -> f64 {
+        let dv = 1.0 / self.vapour.rho - 1.0 / self.liquid.rho;
+        let dp_dt = (self.vapour.h - self.liquid.h) / (self.t * dv);
+        -self.t * self.t * dp_dt / self.p
+    }
+
     /// Whether a mass density lies strictly between the two saturated densities.
     pub fn splits(&self, rho: f64) -> bool {
         rho > self.vapour.rho && rho < self.liquid.rho
@@ -38,6 +45,21 @@ impl Equation {
     /// point the two phases are all but the same, and states there are taken as one phase.
     pub fn saturation_t(&self, t: f64) -> Option<Saturation> {
         (t <= self.t_sat_max).then(|| self.maxwell(t)).flatten()
+    }
+
+    /// Saturation at temperature `t` as [`Equation::saturation_t`], the phases started
+    /// from `near`'s densities where it lies within 2 % in temperature (from the ancillary
+    /// curves otherwise, or where that start does not converge).
+    pub fn saturation_t_near(&self, t: f64, near: Option<&Saturation>) -> Option<Saturation> {
+        if t > self.t_sat_max {
+            return None;
+        }
+        let reducing = self.fluid.molar_mass * self.fluid.rho_reducing;
+        near.filter(|n| ((t - n.t) / n.t).abs() < 0.02)
+            .and_then(|n| {
+                self.maxwell_from(t, Some((n.liquid.rho / reducing, n.vapour.rho / reducing)))
+            })
+            .or_else(|| self.maxwell(t))
     }
 
     /// The highest temperature, below the critical one, at which the saturation solver
@@ -131,6 +153,14 @@ impl Equation {
     /// Newton's method in 1/T on ln p with the Clausius–Clapeyron slope, started from the
     /// ancillary vapour-pressure curve.
     pub fn saturation_p(&self, p: f64) -> Option<Saturation> {
+        self.saturation_p_near(p, None)
+    }
+
+    /// Saturation at pressure `p` as [`Equation::saturation_p`], started from `near`, a
+    /// saturation state at a nearby pressure, where one is known: its Clausius–Clapeyron
+    /// line gives the temperature and its densities the phases, so a search along a path
+    /// (the nozzle's throat pressures) solves each state in a step or two.
+    pub fn saturation_p_near(&self, p: f64, near: Option<&Saturation>) -> Option<Saturation> {
         let f = &self.fluid;
         let (lo, hi) = (f.t_triple, self.t_sat_max);
         // The ends themselves, give or take rounding, belong to the range.
@@ -138,25 +168,31 @@ impl Equation {
             return None;
         }
         let ln_p = p.ln();
-        let anc = |t: f64| f.ancillary.p_sat.at(t).ln() - ln_p;
-        let guess = crate::solve::root(anc, lo, hi, 1e-9 * hi).unwrap_or(if anc(lo) > 0.0 {
-            lo
-        } else {
-            hi
-        });
-        let mut t = guess;
-        let mut start = None;
         let reducing = f.molar_mass * f.rho_reducing;
+        let from_near = near.and_then(|n| {
+            let t = (1.0 / (1.0 / n.t - (ln_p - n.p.ln()) / n.ln_p_slope())).clamp(lo, hi);
+            (((t - n.t) / n.t).abs() < 0.02)
+                .then_some((t, (n.liquid.rho / reducing, n.vapour.rho / reducing)))
+        });
+        let (mut t, mut start) = match from_near {
+            Some((t, densities)) => (t, Some(densities)),
+            None => {
+                let anc = |t: f64| f.ancillary.p_sat.at(t).ln() - ln_p;
+                let guess = crate::solve::root(anc, lo, hi, 1e-9 * hi)
+                    .unwrap_or(if anc(lo) > 0.0 { lo } else { hi });
+                (guess, None)
+            }
+        };
         for _ in 0..50 {
-            let sat = self.maxwell_from(t, start)?;
+            // A start from a neighbour that does not converge is retried from the ancillaries.
+            let sat = self
+                .maxwell_from(t, start)
+                .or_else(|| start.and_then(|_| self.maxwell(t)))?;
             if (sat.p / p - 1.0).abs() < 1e-13 {
                 return Some(sat);
             }
-            let dv = 1.0 / sat.vapour.rho - 1.0 / sat.liquid.rho;
-            let dp_dt = (sat.vapour.h - sat.liquid.h) / (t * dv);
             // ln p against 1/T is nearly straight: step in x = 1/T.
-            let slope = -t * t * dp_dt / sat.p;
-            let x = 1.0 / t - (sat.p.ln() - ln_p) / slope;
+            let x = 1.0 / t - (sat.p.ln() - ln_p) / sat.ln_p_slope();
             let next = (1.0 / x).clamp(lo, hi);
             if ((next - t) / t).abs() < 1e-14 {
                 return Some(sat);

@@ -3,11 +3,26 @@
 
 use super::*;
 
+/// The highest stop pressure the fill-to search looks at, as a multiple of the target.
+pub const FILL_TO_CAP: f64 = 1.6;
+
 /// The longest fill run, s: a month. A slower "fill" is storage, and its run would only
 /// spend steps (the search for the highest safe rate starts at a fill over a day).
 const MAX_FILL_DURATION: f64 = 30.0 * 86_400.0;
 
-/// The fill from `initial` to `to` with enthalpy `h_in` arriving at `rate`, in SI.
+/// A fill carried on past its stop pressure until the gas reaches a mass: the same run,
+/// its wall slices and step limit those of the fill to the stop pressure, so the two agree
+/// wherever they overlap.
+#[derive(Debug, Clone, Copy)]
+pub(super) struct Beyond {
+    /// The mass to stop at, kg.
+    pub(super) mass: f64,
+    /// The pressure, Pa, at which the run gives up on reaching it.
+    pub(super) cap: f64,
+}
+
+/// The fill from `initial` to `to` with enthalpy `h_in` arriving at `rate`, in SI; with
+/// `beyond`, carried on from there to its mass instead.
 #[allow(clippy::too_many_arguments)]
 pub(super) fn fill_run(
     setup: &Setup,
@@ -17,6 +32,7 @@ pub(super) fn fill_run(
     to: f64,
     rate: FillRate,
     inlet: f64,
+    beyond: Option<Beyond>,
 ) -> Result<Run, InputError> {
     let m0 = initial.density.get::<kilogram_per_cubic_meter>() * setup.volume;
     let u0 = setup
@@ -84,15 +100,20 @@ pub(super) fn fill_run(
     };
     let rhs = |_: f64, y: &[f64]| flows(y).map(|(d, _)| d);
     let (y0, scale) = setup.start(&nodes, m0, u0, wall_t0);
+    // Stop at the pressure, or carried on, at the mass or the cap, whichever comes first.
+    let stop_p = beyond.map_or(to, |b| b.cap);
     let event = |_: f64, y: &[f64]| {
-        setup
-            .gas(y[0], y[1])
-            .map_or(-1.0, |s| to - s.pressure.get::<pascal>())
+        setup.gas(y[0], y[1]).map_or(-1.0, |s| {
+            let by_pressure = (stop_p - s.pressure.get::<pascal>()) / stop_p;
+            beyond.map_or(by_pressure, |b| by_pressure.min((b.mass - y[0]) / b.mass))
+        })
     };
+    // Time enough for the fill to its last stop at the nominal pace.
+    let span = (stop_p - p0) / (to - p0);
     let run = ode::integrate(
         rhs,
         (0.0, &y0),
-        3.0 * nominal.max(1e-3),
+        3.0 * nominal.max(1e-3) * span.max(1.0),
         event,
         &scale,
         &options(nominal.max(1e-3), setup.rtol),
@@ -161,6 +182,7 @@ pub fn fill_once(
         case.to.get::<pascal>(),
         case.rate,
         case.inlet_diameter.map_or(0.0, |d| d.get::<meter>()),
+        None,
     )
 }
 
@@ -182,13 +204,26 @@ pub enum MaxRate {
     Unresolved,
 }
 
+/// How close below the rating, K, the highest safe rate brings the peak gas temperature:
+/// the search stops once a rate's peak lies within this of the rating, never above it.
+pub const RATE_PEAK_TOLERANCE: f64 = 0.1;
+
+/// Each step down from a rate too fast divides it by this, until a rate within the rating
+/// brackets the answer.
+const STEP_DOWN: f64 = 4.0;
+
 /// The highest safe ramp, Pa/s, from `excess` (the peak's excess over the rating at a
 /// ramp, K; NaN where the run failed), searched between a `slow` and a `fast` ramp, or up
 /// to the inlet's fastest where its bore is known: the peak rises with the rate.
+///
+/// The search starts at `start`, a ramp with its excess where a run already gave it (the
+/// planned fill's), steps down from there to a ramp within the rating only where needed,
+/// and closes the bracket by Brent's method on ln r to [`RATE_PEAK_TOLERANCE`]: the ramp
+/// returned keeps the peak within the rating.
 pub(super) fn highest_rate(
     excess: impl Fn(f64) -> f64,
-    slow: f64,
-    fast: f64,
+    start: (f64, Option<f64>),
+    (slow, fast): (f64, f64),
     inlet_limit: Option<f64>,
 ) -> MaxRate {
     let ramp = |r: f64| PressureRate {
@@ -202,12 +237,39 @@ pub(super) fn highest_rate(
     if at_fast <= 0.0 {
         return inlet_limit.map_or(MaxRate::Unlimited, |r| MaxRate::InletLimited(ramp(r)));
     }
-    // A run that fails is no answer: never read it as "no rate is safe".
-    match excess(slow) {
-        e if e.is_nan() => MaxRate::Unresolved,
-        e if e > 0.0 => MaxRate::NoneSafe,
-        _ => crate::solve::root(|ln_r| excess(ln_r.exp()), slow.ln(), fast.ln(), 1e-7)
-            .map_or(MaxRate::Unresolved, |ln_r| MaxRate::Ramp(ramp(ln_r.exp()))),
+    // The bracket's lower end: the first rate within the rating, from `start` down to the
+    // fill over a day. A run that fails is no answer: never read it as "no rate is safe".
+    let (mut hi, mut e_hi) = (fast, at_fast);
+    let mut next = (start.0.clamp(slow, fast), start.1);
+    let lo = loop {
+        let (r, known) = next;
+        let e = known.unwrap_or_else(|| excess(r));
+        if e.is_nan() {
+            return MaxRate::Unresolved;
+        }
+        if e <= 0.0 {
+            break (r, e);
+        }
+        if r <= slow {
+            return MaxRate::NoneSafe;
+        }
+        (hi, e_hi) = (r, e);
+        next = ((r / STEP_DOWN).max(slow), None);
+    };
+    if lo.1 >= -RATE_PEAK_TOLERANCE || hi <= lo.0 {
+        return MaxRate::Ramp(ramp(lo.0));
+    }
+    // Aim at the middle of the band [rating − tolerance, rating].
+    let half = RATE_PEAK_TOLERANCE / 2.0;
+    let g = |ln_r: f64| excess(ln_r.exp()) + half;
+    let ends = ((lo.0.ln(), lo.1 + half), (hi.ln(), e_hi + half));
+    match crate::solve::root_within(g, ends, 1e-7, half) {
+        // The iterate if its peak is within the rating, else the bracket's slower end.
+        Ok(s) if s.fx.is_finite() => {
+            let ln_r = if s.fx <= half { s.x } else { s.other };
+            MaxRate::Ramp(ramp(ln_r.exp()))
+        }
+        _ => MaxRate::Unresolved,
     }
 }
 
@@ -254,7 +316,7 @@ pub fn fill(
     let inlet = inlet_diameter.map_or(0.0, |d| d.get::<meter>());
     let wall_t0 = initial.temperature.get::<kelvin>();
     let to_pa = to.get::<pascal>();
-    let run = fill_run(&setup, initial, wall_t0, h_in, to_pa, rate, inlet)?;
+    let run = fill_run(&setup, initial, wall_t0, h_in, to_pa, rate, inlet, None)?;
     // The go/no-go and the highest safe rate are decided on the conservative edge: the
     // correlation's coefficient at the low end of its scatter, so the gas runs hotter.
     let correlated = matches!(
@@ -264,7 +326,7 @@ pub fn fill(
     let edge = setup.scaled(1.0 - heat::CORRELATION_SCATTER);
     let decide = if correlated { &edge } else { &setup };
     let peak_gas_upper = if correlated {
-        fill_run(&edge, initial, wall_t0, h_in, to_pa, rate, inlet)?.peak_gas()
+        fill_run(&edge, initial, wall_t0, h_in, to_pa, rate, inlet, None)?.peak_gas()
     } else {
         run.peak_gas()
     };
@@ -280,37 +342,66 @@ pub fn fill(
                 let r = FillRate::Ramp(PressureRate {
                     per_second: Pressure::new::<pascal>(rate_pa_s),
                 });
-                fill_run(decide, initial, wall_t0, h_in, to_pa, r, inlet)
+                fill_run(decide, initial, wall_t0, h_in, to_pa, r, inlet, None)
                     .map(|run| run.peak_gas().get::<kelvin>() - rated.get::<kelvin>())
                     .unwrap_or(f64::NAN)
             };
             // Between a fill over a day and one over a second, or, with the inlet's bore
-            // known, the fastest fill it can pass: the peak rises with the rate.
+            // known, the fastest fill it can pass: the peak rises with the rate. The
+            // search starts at the planned ramp, whose conservative peak is known, or at
+            // the mean ramp of the planned mass flow.
             let span = to_pa - initial.pressure.get::<pascal>();
             let inlet_limit = inlet_diameter
                 .and_then(|d| fastest_ramp(model, case, d))
                 .filter(|r| *r < span);
-            highest_rate(excess, span / 86_400.0, span, inlet_limit)
+            let start = match rate {
+                FillRate::Ramp(r) => (
+                    r.per_second.get::<pascal>(),
+                    Some(peak_gas_upper.get::<kelvin>() - rated.get::<kelvin>()),
+                ),
+                FillRate::MassFlow(_) => (span / run.duration().get::<second>(), None),
+            };
+            highest_rate(excess, start, (span / 86_400.0, span), inlet_limit)
         });
-    // The stop pressure whose mass, cooled to ambient, settles at the target.
-    let target_density = model
+    // The stop pressure whose mass, cooled to ambient, settles at the target: the planned
+    // fill carried on to that mass, up to 1.6 times the target and within the model's range
+    // (a run beyond it is no answer).
+    let target_mass = model
         .state_pt(to, exchange.ambient_temperature)
         .map_err(|e| model_failure(&e.to_string()))?
         .density
-        .get::<kilogram_per_cubic_meter>();
-    let gap = |p_stop: f64| {
-        fill_run(&setup, initial, wall_t0, h_in, p_stop, rate, inlet)
-            .map(|r| r.end.density.get::<kilogram_per_cubic_meter>() / target_density - 1.0)
-            .unwrap_or(f64::NAN)
-    };
-    // The bracket kept within the model's range: a run beyond it is no answer.
+        .get::<kilogram_per_cubic_meter>()
+        * volume.get::<cubic_meter>();
     let top = model
         .max_pressure()
         .map_or(f64::INFINITY, |p| p.get::<pascal>());
-    let fill_to_pressure =
-        crate::solve::root(gap, to_pa * 0.8, (to_pa * 1.6).min(top), to_pa * 1e-9)
-            .ok()
-            .map(Pressure::new::<pascal>);
+    let beyond = Beyond {
+        mass: target_mass,
+        cap: (to_pa * FILL_TO_CAP).min(top),
+    };
+    let fill_to_pressure = if initial.density.get::<kilogram_per_cubic_meter>()
+        * volume.get::<cubic_meter>()
+        >= target_mass
+    {
+        None
+    } else {
+        fill_run(
+            &setup,
+            initial,
+            wall_t0,
+            h_in,
+            to_pa,
+            rate,
+            inlet,
+            Some(beyond),
+        )
+        .ok()
+        .filter(|r| {
+            let m = r.end.density.get::<kilogram_per_cubic_meter>() * volume.get::<cubic_meter>();
+            m >= target_mass * (1.0 - 1e-9)
+        })
+        .map(|r| r.end.pressure)
+    };
     let result = FillTransient {
         run,
         peak_gas_upper,

@@ -38,7 +38,9 @@ mod setup;
 mod tests;
 mod vent;
 
-pub use fill::{fill, fill_from, fill_once, FillCase, FillTransient, MaxRate};
+pub use fill::{
+    fill, fill_from, fill_once, FillCase, FillTransient, MaxRate, FILL_TO_CAP, RATE_PEAK_TOLERANCE,
+};
 pub use vent::{vent, vent_from, VentTransient};
 
 use basis::model_basis;

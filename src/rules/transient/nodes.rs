@@ -25,8 +25,9 @@ pub(super) const SLICE_GRID: (f64, f64) = (0.1, 1.08);
 /// hold a 1 g and a 5 g wall within 0.1 K of the same wall stored.
 pub(super) const MASSLESS: (f64, f64) = (1e-2, 1e-3);
 
-/// Bounds on the innermost slice, m.
-const SLICE_BOUNDS: (f64, f64) = (2e-5, 3e-3);
+/// The thinnest innermost slice, m. There is no upper bound: over a long run the slices
+/// grow with the depth heat reaches, and thick ones settle in step with it.
+const MIN_SLICE: f64 = 2e-5;
 
 /// The wall's nodes in SI, a chain from the gas outwards: heat capacities (J/K) and
 /// conduction resistances (K/W).
@@ -70,7 +71,7 @@ fn layer(
         return vec![(0.0, 0.0)];
     }
     let diffusivity = material.conductivity() / (material.density() * material.specific_heat());
-    let first = (fraction * (diffusivity * duration).sqrt()).clamp(SLICE_BOUNDS.0, SLICE_BOUNDS.1);
+    let first = (fraction * (diffusivity * duration).sqrt()).max(MIN_SLICE);
     let node = |width: f64| {
         (
             mass * width / thickness * material.specific_heat(),
@@ -169,6 +170,35 @@ impl Nodes {
             let c = self.capacities[i];
             if c < MASSLESS.0 * gas_capacity && c < MASSLESS.1 * duration * (inward + outward) {
                 self.capacities[i] = 0.0;
+            }
+        }
+        self
+    }
+
+    /// The nodes with each neighbouring pair lumped into one whose link settles them within
+    /// [`MASSLESS`]`.1` of the run's `duration` (s): its time constant R·C₁C₂/(C₁ + C₂)
+    /// is that short.
+    ///
+    /// A metal liner and the wrap's first slice over a fill of hours or days are such a pair:
+    /// they settle within a minute, and integrated apart they would hold the integrator's
+    /// steps to that minute over the whole run. Lumped, their capacities add, and the link's
+    /// resistance moves onto the lumped node's outward path, so the conduction from the gas
+    /// to the surroundings is unchanged.
+    pub(super) fn lumped_within(mut self, duration: f64) -> Nodes {
+        let mut i = 0;
+        while i + 1 < self.capacities.len() {
+            let (a, b) = (self.capacities[i], self.capacities[i + 1]);
+            let settles = self.r_links[i] * a * b / (a + b);
+            if a > 0.0 && b > 0.0 && settles < MASSLESS.1 * duration {
+                let link = self.r_links.remove(i);
+                self.capacities[i] += self.capacities.remove(i + 1);
+                match self.r_links.get_mut(i) {
+                    Some(next) => *next += link,
+                    None => self.r_outer += link,
+                }
+                self.wrap_first = self.wrap_first.map(|w| if w > i { w - 1 } else { w });
+            } else {
+                i += 1;
             }
         }
         self

@@ -18,8 +18,9 @@ pub(super) struct Setup<'a> {
     /// The factor on a correlation's inner coefficient: 1 for the central result, 1 ∓
     /// [`heat::CORRELATION_SCATTER`] for its conservative edges.
     pub(super) edge: f64,
-    /// Whether wall nodes too light to matter are made massless (see [`Setup::nodes`]);
-    /// the tests compare with them stored.
+    /// Whether wall nodes too light to matter are made massless, and nodes that settle with
+    /// their neighbour far within the run lumped with it (see [`Setup::nodes`]); the tests
+    /// compare with them stored apart.
     pub(super) massless: bool,
     /// The gas temperature last found, where the next state search starts.
     pub(super) last_temperature: std::cell::Cell<ThermodynamicTemperature>,
@@ -110,8 +111,9 @@ impl<'a> Setup<'a> {
         }
     }
 
-    /// The wall's nodes over a run of `duration` s, those that neither hold nor delay
-    /// heat beside `gas_mass` kg of gas made massless (see [`Nodes::massless_below`]).
+    /// The wall's nodes over a run of `duration` s: neighbours that settle far within it
+    /// lumped (see [`Nodes::lumped_within`]), and those that neither hold nor delay heat
+    /// beside `gas_mass` kg of gas made massless (see [`Nodes::massless_below`]).
     pub(super) fn nodes(&self, duration: f64, gas_mass: f64) -> Nodes {
         let gas = self.model.gas();
         let cv = gas.specific_gas_constant() / (gas.gamma_300k() - 1.0);
@@ -122,7 +124,9 @@ impl<'a> Setup<'a> {
         };
         let nodes = Nodes::new(&self.exchange.wall, self.area, duration, self.grid);
         if self.massless {
-            nodes.massless_below(gas_mass * cv, self.area, h_max, duration)
+            nodes
+                .lumped_within(duration)
+                .massless_below(gas_mass * cv, self.area, h_max, duration)
         } else {
             nodes
         }
