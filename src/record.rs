@@ -2,8 +2,8 @@
 //! overwrite a record by accident and never leave half a file or half a batch behind.
 //!
 //! A batch is written in three steps, under a lock on its folder: every file is staged in
-//! full (a hidden temporary file, synced), then each is linked in under its name, then the
-//! temporaries go. A failure removes what this run linked in. A run that is killed leaves
+//! full (a hidden temporary file), all of them synced, then each is linked in under its
+//! name, then the temporaries go. A failure removes what this run linked in. A run that is killed leaves
 //! hidden temporaries and perhaps some of its records: the next write in that folder removes
 //! the temporaries (and says so), and a record already there with the same bytes counts as
 //! written, so rerunning the interrupted command finishes its batch.
@@ -179,10 +179,10 @@ struct Pending {
 /// One batch of files written into one folder together: every file or none.
 ///
 /// [`Batch::open`] takes a lock on the folder (a second run in the same folder waits) and
-/// removes the temporaries a killed run left there. [`Batch::add`] stages a file in full,
-/// synced, as a hidden temporary; it may be called from several threads at once, so that
-/// nothing but the files themselves is held while a long batch is computed. [`Batch::commit`]
-/// links every staged file in under its name (a hard link, which never replaces, or with
+/// removes the temporaries a killed run left there. [`Batch::add`] stages a file in full
+/// as a hidden temporary; it may be called from several threads at once, so that nothing
+/// but the files themselves is held while a long batch is computed. [`Batch::commit`] syncs
+/// every staged file, then links each in under its name (a hard link, which never replaces, or with
 /// [`Mode::Replace`] a rename after keeping the old file aside), in the order of the batch.
 /// Any failure takes back what the commit linked in and puts back what it replaced; a batch
 /// dropped without a commit removes its temporaries, and the folder if it made it and it is
@@ -275,6 +275,7 @@ impl Batch {
         } = &mut *state;
         pending.sort_by_key(|p| p.order);
         written.kept.sort();
+        sync_staged(pending)?;
         let mut done: Vec<(&Pending, Option<PathBuf>)> = Vec::new();
         for p in pending.iter() {
             match place(p) {
@@ -427,7 +428,8 @@ fn temporary(target: &Path, what: &str) -> PathBuf {
     folder(target).join(format!(".{name}.{}.{what}", std::process::id()))
 }
 
-/// Writes `bytes` in full to a new temporary file beside `target`, synced.
+/// Writes `bytes` in full to a new temporary file beside `target`. It is synced with the
+/// rest of the batch at the commit ([`sync_staged`]).
 fn stage(target: &Path, bytes: &[u8]) -> Result<PathBuf, RecordError> {
     let temp = temporary(target, "partial");
     let io = |source| RecordError::Io {
@@ -439,12 +441,43 @@ fn stage(target: &Path, bytes: &[u8]) -> Result<PathBuf, RecordError> {
         .create_new(true)
         .open(&temp)
         .map_err(io)?;
-    let written = f.write_all(bytes).and_then(|_| f.sync_all());
-    if let Err(e) = written {
+    if let Err(e) = f.write_all(bytes) {
         let _ = fs::remove_file(&temp);
         return Err(io(e));
     }
     Ok(temp)
+}
+
+/// Syncs every staged file before any is linked in, so that a name never points at a file
+/// the disk does not hold in full. The syncs run on several threads at once: the file
+/// system commits them together, where one after another each would wait for the disk.
+fn sync_staged(pending: &[Pending]) -> Result<(), RecordError> {
+    const AT_ONCE: usize = 16;
+    let sync = |p: &Pending| {
+        File::options()
+            .write(true)
+            .open(&p.temp)
+            .and_then(|f| f.sync_all())
+            .map_err(|source| RecordError::Io {
+                path: p.target.clone(),
+                source,
+            })
+    };
+    let per_thread = pending.len().div_ceil(AT_ONCE).max(1);
+    std::thread::scope(|s| {
+        let threads: Vec<_> = pending
+            .chunks(per_thread)
+            .map(|chunk| s.spawn(move || chunk.iter().try_for_each(sync)))
+            .collect();
+        threads.into_iter().try_for_each(|t| {
+            t.join().unwrap_or_else(|_| {
+                Err(RecordError::Io {
+                    path: PathBuf::from("(a staged file)"),
+                    source: std::io::Error::other("a sync thread failed"),
+                })
+            })
+        })
+    })
 }
 
 /// Puts a staged file in place; returns the old file's copy kept aside, if it replaced one.

@@ -332,3 +332,67 @@ fn one_thread_and_several_give_the_same_bytes_and_the_same_order() {
         }
     }
 }
+
+#[test]
+fn like_items_computed_once_give_the_bytes_each_gives_alone() {
+    let scratch = Scratch::new("memo");
+    // The sample site with a second receiver like AR-101 under another tag and description,
+    // and a third like it but for its pressure.
+    let text = std::fs::read_to_string(site()).expect("the sample site");
+    let first = text
+        .split("[[vessel]]")
+        .nth(1)
+        .expect("the first vessel")
+        .to_string();
+    let twin = first
+        .replace("AR-101", "AR-909")
+        .replace("no. 1\"", "no. 9, like no. 1\"");
+    let other = first.replace("AR-101", "AR-910").replace(
+        "operating_pressure = \"10 barg\"",
+        "operating_pressure = \"9 barg\"",
+    );
+    assert!(twin != first && other.contains("9 barg"));
+    let path = scratch.path("site.toml");
+    std::fs::write(
+        &path,
+        format!("{text}\n[[vessel]]{twin}\n[[vessel]]{other}"),
+    )
+    .unwrap();
+    let run_site = |out: &Path, extra: &[&str]| {
+        let mut cmd = Command::new(env!("CARGO_BIN_EXE_pvhazard"));
+        cmd.arg("worksheet")
+            .arg(&path)
+            .args(["--date", DATE, "--out"])
+            .arg(out)
+            .args(extra)
+            .env_remove("SOURCE_DATE_EPOCH");
+        let o = run(cmd);
+        assert_eq!(o.status.code(), Some(0), "{o:?}");
+        files(out)
+    };
+    let batch = run_site(&scratch.path("all"), &["--all"]);
+    assert_eq!(batch.len(), 10, "{:?}", batch.keys());
+    for tag in ["AR-909", "AR-910"] {
+        let alone = run_site(&scratch.path(tag), &["--tag", tag]);
+        assert_eq!(alone.len(), 2);
+        for (name, bytes) in &alone {
+            assert!(
+                batch.get(name) == Some(bytes),
+                "{name} differs in the batch"
+            );
+        }
+    }
+    // The twin's record differs from AR-101's in its tag and description only.
+    let record = |tag: &str| -> serde_json::Value {
+        let (_, bytes) = batch
+            .iter()
+            .find(|(n, _)| n.contains(&tag.to_lowercase()) && n.ends_with(".json"))
+            .expect("the record");
+        serde_json::from_slice(bytes).expect("JSON")
+    };
+    let (a, b) = (record("AR-101"), record("AR-909"));
+    assert_eq!(a["results"], b["results"]);
+    assert_eq!(a["verdict"], b["verdict"]);
+    assert_ne!(a["fingerprint"], b["fingerprint"]);
+    assert_ne!(record("AR-910")["results"], a["results"]);
+}

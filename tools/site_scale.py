@@ -1,11 +1,14 @@
 #!/usr/bin/env python3
 """Site-scale timing: writes an invented site with many items and times pvhazard on it.
 
-    python3 tools/site_scale.py [--items 1000] [--binary target/release/pvhazard] [--keep DIR]
+    python3 tools/site_scale.py [--items 1000] [--distinct] [--binary target/release/pvhazard]
+                                [--keep DIR]
 
 The site repeats seven invented items (two air receivers, a nitrogen drum, an air bank, and
 composite, aluminium and steel cylinders with planned fill rates), each copy under its own
-tag. The script runs `worksheet --all` into an empty folder and `check` on it, and prints
+tag. Copies alike but for their tag share one computation in a run (a fleet of like
+cylinders); with --distinct each copy's volume differs by a few parts in a million, so that
+every item is computed on its own. The script runs `worksheet --all` into an empty folder and `check` on it, and prints
 for each the wall time and the peak memory of the process (from the kernel's accounting of
 the child). It times; it asserts nothing: speed lives in benchmarks and in this report, not
 in tests.
@@ -13,6 +16,7 @@ in tests.
 
 import argparse
 import os
+import re
 import resource
 import shutil
 import subprocess
@@ -130,11 +134,21 @@ residual_pressure = "2 barg"
 ]
 
 
-def write_site(path, n):
+def distinct(item, i):
+    """The item with its volume scaled by (1 + i·1e-6): alike to the eye, not to the memo."""
+
+    def scaled(m):
+        return f'{m.group(1)} = "{float(m.group(2)) * (1 + i * 1e-6):.9g} {m.group(3)}"'
+
+    return re.sub(r'(volume|water_capacity) = "([0-9.]+) ([^"]+)"', scaled, item, count=1)
+
+
+def write_site(path, n, unique):
     with open(path, "w", encoding="utf-8") as f:
         f.write(SITE.format(n=n))
         for i in range(n):
-            f.write("\n" + ITEMS[i % len(ITEMS)].format(i=f"{i + 1:05d}"))
+            item = ITEMS[i % len(ITEMS)].format(i=f"{i + 1:05d}")
+            f.write("\n" + (distinct(item, i) if unique else item))
 
 
 def timed(cmd, env):
@@ -162,6 +176,7 @@ def timed(cmd, env):
 def main():
     p = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     p.add_argument("--items", type=int, default=1000)
+    p.add_argument("--distinct", action="store_true", help="make every item differ")
     p.add_argument("--binary", default="target/release/pvhazard")
     p.add_argument("--keep", help="write the site and the worksheets here and keep them")
     a = p.parse_args()
@@ -170,10 +185,11 @@ def main():
     site = os.path.join(work, "scale-site.toml")
     out = os.path.join(work, "worksheets")
     shutil.rmtree(out, ignore_errors=True)
-    write_site(site, a.items)
+    write_site(site, a.items, a.distinct)
     env = dict(os.environ, SOURCE_DATE_EPOCH="1798761600")
     binary = os.path.abspath(a.binary)
-    print(f"{a.items} items, {os.cpu_count()} cores, {binary}")
+    kind = "each distinct" if a.distinct else "seven kinds repeated"
+    print(f"{a.items} items ({kind}), {os.cpu_count()} cores, {binary}")
     for name, cmd in [
         ("worksheet --all", [binary, "worksheet", site, "--all", "--out", out]),
         ("check", [binary, "check", site]),

@@ -292,6 +292,7 @@ fn batch_of_worksheets(
 ) -> Result<(Vec<Staged>, Vec<String>), Failure> {
     let progress = a.all && std::io::stderr().is_terminal();
     let date = meta.date.format("%Y-%m-%d").to_string();
+    let memo = worksheet::Memo::default();
     let work = |i: usize, item: &&Equipment| -> Result<Outcome, Failure> {
         let template = match given_template {
             Some(t) => t.clone(),
@@ -308,7 +309,7 @@ fn batch_of_worksheets(
             }
         }
         let model = super::gas_model(a.model, item.gas());
-        let sheet = worksheet::build(model.as_ref(), site, item, &template, meta)?;
+        let sheet = worksheet::build_in(&memo, model.as_ref(), site, item, &template, meta)?;
         let pdf =
             render_pdf(&sheet.document, a.paper).map_err(|e| Failure::Internal(e.to_string()))?;
         let json = to_json(&sheet.record).map_err(Failure::Internal)? + "\n";
@@ -394,11 +395,12 @@ pub(super) fn check_command(a: CheckArgs) -> Result<(String, i32), Failure> {
             .with_timezone(&site.time_zone),
     };
     let equipment: Vec<&Equipment> = site.equipment.iter().collect();
+    let memo = worksheet::Memo::default();
     let mut items: Vec<Option<Item>> = (0..equipment.len()).map(|_| None).collect();
     let work = |_: usize, item: &&Equipment| -> Result<Item, Failure> {
         let template = template::resolve(template::default_for(item.kind()))?;
         let model = super::gas_model(a.model, item.gas());
-        let sheet = worksheet::build(model.as_ref(), &site, item, &template, &meta)?;
+        let sheet = worksheet::build_in(&memo, model.as_ref(), &site, item, &template, &meta)?;
         Ok(Item {
             tag: item.tag().to_string(),
             kind: item.kind(),

@@ -4,6 +4,9 @@
 mod cylinder;
 mod vessel;
 
+use std::collections::HashMap;
+use std::sync::{Arc, Mutex};
+
 use serde::Serialize;
 use sha2::{Digest, Sha256};
 use uom::si::f64::{AvailableEnergy, Energy, Pressure, ThermodynamicTemperature, Time};
@@ -215,6 +218,49 @@ pub fn build(
     template: &Template,
     meta: &Meta,
 ) -> Result<Worksheet, FileError> {
+    build_in(&Memo::default(), model, site, item, template, meta)
+}
+
+/// Worksheets computed in one run, by what their calculations depend on: items that differ
+/// only by tag and description (a fleet of like cylinders, a row of like receivers) share
+/// one computation. It keeps at most [`MEMO_ENTRIES`] distinct items, so a run's memory
+/// does not grow with the number of items. A memo may be shared between threads.
+#[derive(Default)]
+pub struct Memo {
+    parts: Mutex<HashMap<String, Arc<Parts>>>,
+}
+
+/// How many distinct items a [`Memo`] keeps.
+pub const MEMO_ENTRIES: usize = 64;
+
+impl Memo {
+    fn get(&self, key: &str) -> Option<Arc<Parts>> {
+        self.lock().get(key).cloned()
+    }
+
+    fn keep(&self, key: String, parts: Arc<Parts>) {
+        let mut map = self.lock();
+        if map.len() >= MEMO_ENTRIES {
+            map.clear();
+        }
+        map.insert(key, parts);
+    }
+
+    fn lock(&self) -> std::sync::MutexGuard<'_, HashMap<String, Arc<Parts>>> {
+        // A thread that panicked while holding the lock left whole entries behind.
+        self.parts.lock().unwrap_or_else(|e| e.into_inner())
+    }
+}
+
+/// As [`build`], reusing (and adding to) the calculations kept in `memo`.
+pub fn build_in(
+    memo: &Memo,
+    model: &dyn GasModel,
+    site: &Site,
+    item: &Equipment,
+    template: &Template,
+    meta: &Meta,
+) -> Result<Worksheet, FileError> {
     if item.kind() != template.equipment {
         let (file, line) = template.origin.clone();
         let kind = |k: EquipmentKind| match k {
@@ -257,21 +303,38 @@ pub fn build(
     })?;
     let fingerprint = hex(&Sha256::digest(inputs_json.to_string().as_bytes()));
 
-    let mut sheet = Parts::default();
-    let basis = match template.pressure {
-        PressureBasis::Operating => "operating_pressure",
-        PressureBasis::Mawp => "mawp",
-        PressureBasis::Test => "test_pressure",
-    };
-    match item {
-        Equipment::Vessel(v) => vessel::vessel_parts(model, site, v, template, &mut sheet)
-            .map_err(|e| match e {
-                Failure::Input(e) => item_error(site, item, basis, e),
-                Failure::File(e) => e,
-            })?,
-        Equipment::Cylinder(c) => cylinder::cylinder_parts(model, site, c, template, &mut sheet)
-            .map_err(|e| item_error(site, item, basis, e))?,
+    // The calculations depend on everything fingerprinted but the item's tag and
+    // description; a refusal is not kept, so that its message names the item refused.
+    let mut key = inputs_json.clone();
+    if let Some(e) = key.get_mut("equipment").and_then(|e| e.as_object_mut()) {
+        e.remove("tag");
+        e.remove("description");
     }
+    let key = key.to_string();
+    let sheet = match memo.get(&key) {
+        Some(parts) => Parts::clone(&parts),
+        None => {
+            let mut sheet = Parts::default();
+            let basis = match template.pressure {
+                PressureBasis::Operating => "operating_pressure",
+                PressureBasis::Mawp => "mawp",
+                PressureBasis::Test => "test_pressure",
+            };
+            match item {
+                Equipment::Vessel(v) => vessel::vessel_parts(model, site, v, template, &mut sheet)
+                    .map_err(|e| match e {
+                        Failure::Input(e) => item_error(site, item, basis, e),
+                        Failure::File(e) => e,
+                    })?,
+                Equipment::Cylinder(c) => {
+                    cylinder::cylinder_parts(model, site, c, template, &mut sheet)
+                        .map_err(|e| item_error(site, item, basis, e))?
+                }
+            }
+            memo.keep(key, Arc::new(sheet.clone()));
+            sheet
+        }
+    };
     let verdict = sheet.verdict;
     let cautions = ordered(
         verdict
@@ -356,7 +419,7 @@ pub fn build(
 }
 
 /// What the calculations contribute, gathered as they run.
-#[derive(Default)]
+#[derive(Default, Clone)]
 struct Parts {
     inputs: Vec<Entry>,
     sections: Vec<Section>,

@@ -155,10 +155,9 @@ pub(super) fn vessel_parts(
                             Hazard::VentTime,
                             Level::Warning,
                             "site file",
-                            vec![Part::from(format!(
-                                "No drain path is on file for {}: the vent-down time and the cold gas and metal it brings are not computed.",
-                                v.tag
-                            ))],
+                            vec![Part::from(
+                                "No drain path is on file for this vessel: the vent-down time and the cold gas and metal it brings are not computed.",
+                            )],
                             vec![Part::from("Add the drain (orifice and Cd) to the site file, or work them out before venting.")],
                         )]),
                         &[],

@@ -9,23 +9,30 @@ use super::style::{Face, Style};
 /// Advance widths in thousandths of an em, from the glyph tables printpdf ships for the
 /// built-in faces (the same metrics a viewer uses for Helvetica).
 struct Metrics {
-    widths: std::collections::HashMap<char, f32>,
+    /// Widths by code point, up to [`DENSE`]; missing glyphs as NaN. Every character
+    /// WinAnsi can show lies below it, and a table look-up keeps text measuring cheap.
+    widths: Vec<f32>,
 }
+
+/// The first code point past the width table: the WinAnsi characters end at U+2122 (™).
+const DENSE: usize = 0x2200;
 
 impl Metrics {
     fn load(font: BuiltinFont) -> Metrics {
-        let mut widths = std::collections::HashMap::new();
+        let mut widths = vec![f32::NAN; DENSE];
         if let Some(parsed) = font.get_parsed_font() {
             let per_em = f32::from(parsed.units_per_em.max(1));
             for (&cp, &gid) in &parsed.codepoint_to_glyph {
-                if let (Some(c), Some(w)) = (char::from_u32(cp), parsed.get_glyph_width(gid)) {
-                    widths.insert(c, f32::from(w) * 1000.0 / per_em);
+                if let (Some(slot), Some(w)) =
+                    (widths.get_mut(cp as usize), parsed.get_glyph_width(gid))
+                {
+                    *slot = f32::from(w) * 1000.0 / per_em;
                 }
             }
         }
         // The shipped tables omit the space glyphs; Helvetica's space is 278 in both weights.
-        widths.insert(' ', 278.0);
-        widths.insert('\u{a0}', 278.0);
+        widths[' ' as usize] = 278.0;
+        widths[0xa0] = 278.0;
         Metrics { widths }
     }
 
@@ -44,7 +51,13 @@ impl Metrics {
 pub(super) fn text_width(s: &str, style: Style) -> f32 {
     let m = Metrics::of(style.face);
     s.chars()
-        .map(|c| m.widths.get(&c).copied().unwrap_or(556.0))
+        .map(|c| {
+            m.widths
+                .get(c as usize)
+                .copied()
+                .filter(|w| !w.is_nan())
+                .unwrap_or(556.0)
+        })
         .sum::<f32>()
         * style.size
         / 1000.0
