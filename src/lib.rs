@@ -19,6 +19,7 @@ pub mod limits;
 pub mod record;
 pub mod report;
 pub mod rules;
+pub mod serve;
 pub mod site;
 pub mod solve;
 pub mod source;

@@ -5,8 +5,7 @@ use serde::Serialize;
 use sha2::{Digest, Sha256};
 use uom::si::f64::{AvailableEnergy, Energy, Pressure, ThermodynamicTemperature, Time};
 use uom::si::{
-    available_energy::joule_per_kilogram, energy::joule, pressure::pascal,
-    thermodynamic_temperature::kelvin, time::second,
+    available_energy::joule_per_kilogram, energy::joule, pressure::pascal, time::second,
 };
 
 use crate::assess::{
@@ -14,15 +13,13 @@ use crate::assess::{
 };
 use crate::caution::{deferral, distinct, ordered, Caution, Level, Note, Part};
 use crate::gas::GasModel;
-use crate::report::{Axis, AxisKind, Document, Entry, Plot, Section, Series, Value, TOOL_VERSION};
+use crate::report::{plots, Document, Entry, Plot, Section, Value, TOOL_VERSION};
 use crate::rules::energy::{
     self, EnergyInput, DEFAULT_OVERPRESSURES_PA, DEFAULT_TNT_ENERGY_J_PER_KG,
 };
 use crate::rules::fill::FillInput;
-use crate::rules::room::{Room, RoomRelease, RoomSample};
-use crate::rules::transient::{
-    self, CylinderMass, Depressuring, Exchange, FillRate, HeatTransfer, Wall,
-};
+use crate::rules::room::Room;
+use crate::rules::transient::{CylinderMass, Depressuring, Exchange, FillRate, HeatTransfer, Wall};
 use crate::rules::vent::{VentInput, DEFAULT_TARGET_MARGIN};
 use crate::site::{Cylinder, Equipment, EquipmentKind, Material, Site, VentTo, Vessel};
 
@@ -692,135 +689,10 @@ fn vent_down(
     if report.release.is_some() {
         out.section("Where the gas goes", report.release_entries());
     }
-    let series = |label: &str, right_axis: bool, points: Vec<(f64, f64)>| Series {
-        label: label.to_string(),
-        right_axis,
-        points,
-    };
-    let mut plotted = vec![series(
-        "Gas, isentropic bound",
-        false,
-        report
-            .history
-            .iter()
-            .map(|s| (s.time.get::<second>(), s.temperature.get::<kelvin>()))
-            .collect(),
-    )];
-    if let Some(warm) = &report.transient {
-        let curve = |f: fn(&transient::Sample) -> f64| {
-            warm.samples
-                .iter()
-                .map(|s| (s.time.get::<second>(), f(s)))
-                .collect()
-        };
-        plotted.push(series(
-            "Gas, with wall heat",
-            false,
-            curve(|s| s.gas_temperature.get::<kelvin>()),
-        ));
-        plotted.push(series(
-            "Wall",
-            false,
-            curve(|s| s.wall_temperature.get::<kelvin>()),
-        ));
-        plotted.push(series(
-            "Pressure, with wall heat",
-            true,
-            curve(|s| s.pressure.get::<pascal>()),
-        ));
-    }
-    if plotted[0].points.len() > 1 {
-        out.plots.push(Plot {
-            title: format!("Vent-down through the {}", drain.description),
-            x: Axis {
-                label: "Time".to_string(),
-                kind: AxisKind::Time,
-            },
-            left: Axis {
-                label: "Gas and wall temperature".to_string(),
-                kind: AxisKind::Temperature,
-            },
-            right: Some(Axis {
-                label: "Pressure".to_string(),
-                kind: AxisKind::Pressure,
-            }),
-            series: plotted,
-            limits: v
-                .mdmt
-                .map(|m| (m.get::<kelvin>(), "MDMT".to_string()))
-                .into_iter()
-                .collect(),
-        });
-    }
-    if let Some(room) = &report.release {
-        out.plots.push(room_plot(room));
-    }
+    out.plots.extend(plots::vent(&report, &drain.description));
+    out.plots.extend(report.release.as_ref().map(plots::room));
     out.result("vent", &report);
     Ok(())
-}
-
-/// The room's atmosphere against time: the oxygen (or for a flammable gas its share of the
-/// room, or carbon dioxide) with the limits it is judged on.
-fn room_plot(room: &RoomRelease) -> Plot {
-    // (what is plotted, whether it is the oxygen, the limits drawn)
-    let (label, oxygen, limits) = match (room.lower_flammable_limit, room.peak_co2_fraction) {
-        (Some(lfl), _) => (
-            "Flammable gas in the room",
-            false,
-            vec![(
-                lfl * crate::rules::room::LFL_SHARE_LIMIT,
-                "10 % of the LFL".to_string(),
-            )],
-        ),
-        (_, Some(_)) => (
-            "Carbon dioxide in the room",
-            false,
-            vec![(
-                crate::rules::room::CO2_LIMITS.0,
-                "3 % short-term limit".to_string(),
-            )],
-        ),
-        _ => (
-            "Oxygen in the room",
-            true,
-            match room.max_oxygen_fraction {
-                Some(_) => vec![(crate::rules::room::OXYGEN_ENRICHED, "23.5 %".to_string())],
-                None => vec![
-                    (crate::rules::room::OXYGEN_DEFICIENT, "19.5 %".to_string()),
-                    (crate::rules::room::OXYGEN_IMPAIRING, "18 %".to_string()),
-                ],
-            },
-        ),
-    };
-    Plot {
-        title: "Where the gas goes: the room's atmosphere".to_string(),
-        x: Axis {
-            label: "Time".to_string(),
-            kind: AxisKind::Time,
-        },
-        left: Axis {
-            label: label.to_string(),
-            kind: AxisKind::Fraction,
-        },
-        right: None,
-        series: vec![Series {
-            label: label.to_string(),
-            right_axis: false,
-            points: room
-                .samples
-                .iter()
-                .map(|s: &RoomSample| {
-                    let y = if oxygen {
-                        s.oxygen_fraction
-                    } else {
-                        s.gas_fraction
-                    };
-                    (s.time.get::<second>(), y)
-                })
-                .collect(),
-        }],
-        limits,
-    }
 }
 
 fn cylinder_parts(
@@ -904,66 +776,7 @@ fn cylinder_parts(
         "Fast fill on the ideal gas, for comparison",
         report.comparison_entries(),
     );
-    let mut plot_series = vec![Series {
-        label: "Gas, adiabatic bound".to_string(),
-        right_axis: false,
-        points: report
-            .path
-            .iter()
-            .map(|s| (s.pressure.get::<pascal>(), s.temperature.get::<kelvin>()))
-            .collect(),
-    }];
-    if let Some(t) = &report.transient {
-        let curves = [
-            (
-                "Gas, with wall heat",
-                t.samples
-                    .iter()
-                    .map(|s| Some(s.gas_temperature))
-                    .collect::<Vec<_>>(),
-            ),
-            (
-                "Wall (liner)",
-                t.samples.iter().map(|s| Some(s.wall_temperature)).collect(),
-            ),
-            (
-                "Wrap",
-                t.samples.iter().map(|s| s.wrap_temperature).collect(),
-            ),
-        ];
-        for (label, temperatures) in curves {
-            let points: Vec<_> = t
-                .samples
-                .iter()
-                .zip(temperatures)
-                .filter_map(|(s, temp)| Some((s.pressure.get::<pascal>(), temp?.get::<kelvin>())))
-                .collect();
-            if !points.is_empty() {
-                plot_series.push(Series {
-                    label: label.to_string(),
-                    right_axis: false,
-                    points,
-                });
-            }
-        }
-    }
-    out.plots.push(Plot {
-        title: "Gas and wall temperature during the fill".to_string(),
-        x: Axis {
-            label: "Pressure".to_string(),
-            kind: AxisKind::Pressure,
-        },
-        left: Axis {
-            label: "Gas and wall temperature".to_string(),
-            kind: AxisKind::Temperature,
-        },
-        right: None,
-        series: plot_series,
-        limits: vec![(
-            c.rated_temperature.get::<kelvin>(),
-            "Rated temperature".to_string(),
-        )],
-    });
+    out.plots.push(plots::fill(&report));
     // Rank cylinders by the energy they hold full.
     let full = EnergyInput {
         volume: c.water_capacity,

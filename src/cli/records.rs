@@ -5,7 +5,7 @@ use std::io::IsTerminal;
 use clap::Args;
 
 use super::{Failure, EXIT_DANGER, EXIT_OK};
-use crate::assess::{Status, Verdict};
+use crate::assess::{Decision, Status, Verdict};
 use crate::caution::{Caution, Level};
 use crate::gas::ModelKind;
 use crate::record;
@@ -66,13 +66,14 @@ pub(super) struct CheckArgs {
 }
 
 /// Longest preparer's name accepted, in characters (it is printed, not a file name).
-const MAX_PREPARER: usize = 120;
+pub const MAX_PREPARER: usize = 120;
 
 /// Latest worksheet date accepted, in seconds since 1970-01-01 UTC: the end of 9999, the
 /// last year a record's four-digit dates can hold.
 const LAST_EPOCH: i64 = 253_402_300_799;
 
-pub(super) fn parse_date(s: &str) -> Result<chrono::DateTime<chrono::FixedOffset>, String> {
+/// A worksheet date as given: RFC 3339, between 1970 and the end of 9999.
+pub fn parse_date(s: &str) -> Result<chrono::DateTime<chrono::FixedOffset>, String> {
     const ACCEPTED: &str =
         "accepted: e.g. 2026-03-14T09:30:00+01:00 or 2026-03-14T08:30:00Z, from 1970 to 9999";
     let d = chrono::DateTime::parse_from_rfc3339(s.trim())
@@ -87,7 +88,7 @@ pub(super) fn parse_date(s: &str) -> Result<chrono::DateTime<chrono::FixedOffset
 
 /// The worksheet date: `--date`, else SOURCE_DATE_EPOCH, else now; in the site's zone
 /// unless `--date` gave its own offset.
-pub(super) fn worksheet_date(
+pub fn worksheet_date(
     given: Option<chrono::DateTime<chrono::FixedOffset>>,
     zone: chrono::FixedOffset,
 ) -> Result<chrono::DateTime<chrono::FixedOffset>, Failure> {
@@ -199,24 +200,13 @@ pub(super) fn worksheet_command(a: WorksheetArgs) -> Result<String, Failure> {
                 continue;
             }
         }
-        let model = super::gas_model(a.model, item.gas());
-        let sheet = worksheet::build(model.as_ref(), &site, item, &template, &meta)?;
-        let pdf =
-            render_pdf(&sheet.document, a.paper).map_err(|e| Failure::Internal(e.to_string()))?;
-        let json = to_json(&sheet.record).map_err(Failure::Internal)? + "\n";
-        let stem = record::stem(
-            &site.name,
-            item.tag(),
-            &template.name,
-            a.work_order.as_deref(),
-            &date.format("%Y-%m-%d").to_string(),
-        );
+        let made = made(&site, item, &template, &meta, a.paper, a.model)?;
         records.push((
             item.tag().to_string(),
-            (sheet.verdict.decision, sheet.highest),
-            stem,
-            pdf,
-            json,
+            (made.decision, made.highest),
+            made.stem,
+            made.pdf,
+            made.json,
         ));
     }
     if progress {
@@ -281,27 +271,74 @@ pub(super) fn worksheet_command(a: WorksheetArgs) -> Result<String, Failure> {
     Ok(text)
 }
 
-pub(super) fn check_command(a: CheckArgs) -> Result<(String, i32), Failure> {
-    #[derive(serde::Serialize)]
-    struct Item {
-        tag: String,
-        kind: EquipmentKind,
-        gas: &'static str,
-        template: String,
-        stored_energy_j: uom::si::f64::Energy,
-        verdict: Verdict,
-        highest_level: Level,
-        cautions: Vec<Caution>,
-    }
-    #[derive(serde::Serialize)]
-    struct Summary {
-        command: &'static str,
-        tool_version: &'static str,
-        site: String,
-        items: Vec<Item>,
-        danger: bool,
-    }
-    let site = site::load(&a.site)?;
+/// One worksheet made and rendered, not yet written: what its summary line says, its file
+/// stem and its two files.
+pub struct Made {
+    /// The decision.
+    pub decision: Decision,
+    /// The highest caution level raised.
+    pub highest: Level,
+    /// The records' file stem ([`record::stem`]).
+    pub stem: String,
+    /// The PDF.
+    pub pdf: Vec<u8>,
+    /// The JSON record, as written.
+    pub json: String,
+}
+
+/// The worksheet for `item` with `template`, rendered as `worksheet` renders it.
+pub fn made(
+    site: &Site,
+    item: &Equipment,
+    template: &template::Template,
+    meta: &Meta,
+    paper: Paper,
+    model: ModelKind,
+) -> Result<Made, Failure> {
+    let gas = super::gas_model(model, item.gas());
+    let sheet = worksheet::build(gas.as_ref(), site, item, template, meta)?;
+    let pdf = render_pdf(&sheet.document, paper).map_err(|e| Failure::Internal(e.to_string()))?;
+    let json = to_json(&sheet.record).map_err(Failure::Internal)? + "\n";
+    let stem = record::stem(
+        &site.name,
+        item.tag(),
+        &template.name,
+        meta.work_order.as_deref(),
+        &meta.date.format("%Y-%m-%d").to_string(),
+    );
+    Ok(Made {
+        decision: sheet.verdict.decision,
+        highest: sheet.highest,
+        stem,
+        pdf,
+        json,
+    })
+}
+
+/// One item of a site as `check` ranks it.
+#[derive(Debug, serde::Serialize)]
+pub struct Ranked {
+    /// The item's tag.
+    pub tag: String,
+    /// Vessel or cylinder.
+    pub kind: EquipmentKind,
+    /// The gas's name.
+    pub gas: &'static str,
+    /// The template it was checked with (its kind's default).
+    pub template: String,
+    /// The isentropic stored energy it was ranked by.
+    pub stored_energy_j: uom::si::f64::Energy,
+    /// The decision and its findings.
+    pub verdict: Verdict,
+    /// The highest caution level raised.
+    pub highest_level: Level,
+    /// The banners.
+    pub cautions: Vec<Caution>,
+}
+
+/// The site's items, each checked with its kind's default template, ranked by decision,
+/// then by the signal word of the worst banner, then by the energy at risk.
+pub fn ranked(site: &Site, model: ModelKind) -> Result<Vec<Ranked>, Failure> {
     // The check's results do not depend on the date; a fixed one keeps runs identical.
     let meta = Meta {
         work_order: None,
@@ -312,10 +349,10 @@ pub(super) fn check_command(a: CheckArgs) -> Result<(String, i32), Failure> {
     };
     let mut items = Vec::new();
     for item in &site.equipment {
-        let template = template::resolve(template::default_for(item.kind()))?;
-        let model = super::gas_model(a.model, item.gas());
-        let sheet = worksheet::build(model.as_ref(), &site, item, &template, &meta)?;
-        items.push(Item {
+        let template = template::built_in(template::default_for(item.kind()))?;
+        let gas = super::gas_model(model, item.gas());
+        let sheet = worksheet::build(gas.as_ref(), site, item, &template, &meta)?;
+        items.push(Ranked {
             tag: item.tag().to_string(),
             kind: item.kind(),
             gas: item.gas().name,
@@ -326,8 +363,6 @@ pub(super) fn check_command(a: CheckArgs) -> Result<(String, i32), Failure> {
             cautions: sheet.record.cautions,
         });
     }
-    // Ranked by decision, then by the signal word of the worst banner, then by the energy
-    // at risk.
     items.sort_by(|x, y| {
         y.verdict
             .decision
@@ -335,6 +370,20 @@ pub(super) fn check_command(a: CheckArgs) -> Result<(String, i32), Failure> {
             .then(y.highest_level.cmp(&x.highest_level))
             .then(y.stored_energy_j.value.total_cmp(&x.stored_energy_j.value))
     });
+    Ok(items)
+}
+
+pub(super) fn check_command(a: CheckArgs) -> Result<(String, i32), Failure> {
+    #[derive(serde::Serialize)]
+    struct Summary {
+        command: &'static str,
+        tool_version: &'static str,
+        site: String,
+        items: Vec<Ranked>,
+        danger: bool,
+    }
+    let site = site::load(&a.site)?;
+    let items = ranked(&site, a.model)?;
     let danger = items.iter().any(|i| i.highest_level == Level::Danger);
     let code = if danger { EXIT_DANGER } else { EXIT_OK };
     if a.json {
