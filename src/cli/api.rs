@@ -165,7 +165,11 @@ pub fn calculate(
                     .map(|o| o.name.as_str())
                     .collect::<Vec<_>>()
                     .join(", "),
-                &format!("not an option of the {command} calculation"),
+                &if NOT_OFFERED.contains(&key.as_str()) {
+                    format!("--{key} is not offered here (it names a file on the machine that runs pvhazard, or prints something other than the report; the answer is always the --json report)")
+                } else {
+                    format!("not an option of the {command} calculation")
+                },
             ));
         };
         argv.extend(arguments(key, value, flag)?);

@@ -11,6 +11,7 @@ use maud::{html, Markup};
 
 use super::pages;
 use super::routes::{blocking, AppState};
+use crate::caution::deferral;
 use crate::cli::api::Refusal;
 use crate::cli::records::{self, Ranked};
 use crate::cli::Failure;
@@ -101,6 +102,8 @@ fn site_body(
         system: site.units,
         ambient: site.ambient,
     };
+    // The deferral once, at the end, not under every item.
+    let last = deferral();
     html! {
         p.subtitle { (site.location) " — " (ranked.len()) " item(s), ranked by hazard (decision, then the highest signal word, then the stored energy)" }
         table.ranked {
@@ -122,10 +125,11 @@ fn site_body(
             section id={ "item-" (record::slug(&r.tag)) } {
                 h2 { (r.tag) " — " (r.verdict.decision.word()) }
                 (crate::report::html::verdict(&r.verdict, &d))
-                (banners(r.cautions.iter(), &d))
-                (worksheet_form(s, i, r, refused.filter(|f| f.tag == r.tag)))
+                (banners(r.cautions.iter().filter(|c| **c != last), &d))
+                (worksheet_form(s, i, site, r, refused.filter(|f| f.tag == r.tag)))
             }
         }
+        (banners([&last].into_iter(), &d))
     }
 }
 
@@ -136,7 +140,13 @@ fn kind_word(kind: EquipmentKind) -> &'static str {
     }
 }
 
-fn worksheet_form(s: &AppState, i: usize, r: &Ranked, refused: Option<&Refused<'_>>) -> Markup {
+fn worksheet_form(
+    s: &AppState,
+    i: usize,
+    site: &Site,
+    r: &Ranked,
+    refused: Option<&Refused<'_>>,
+) -> Markup {
     if s.config.records.is_none() {
         return html! { p.no-print { "To make worksheets here, start the server with a records folder (" code { "--records DIR" } ")." } };
     }
@@ -151,13 +161,18 @@ fn worksheet_form(s: &AppState, i: usize, r: &Ranked, refused: Option<&Refused<'
             .filter(|f| f.refusal.option == name)
             .map(|f| f.refusal.message.clone())
     };
+    // The date the worksheet takes when the field is left empty, shown as a placeholder.
+    let now = chrono::Utc::now()
+        .with_timezone(&site.time_zone)
+        .format("%Y-%m-%dT%H:%M:%S%:z")
+        .to_string();
     let field = |name: &str, label: &str, hint: &str| {
         let fid = format!("{id}-{name}");
         let err = error(name);
         html! {
             div class={ "field" @if err.is_some() { " refused" } } {
                 label for=(fid) { (label) }
-                div.control { input type="text" id=(fid) name=(name) value=(given(name)) autocomplete="off" aria-describedby={ (fid) "-hint" }; }
+                div.control { input type="text" id=(fid) name=(name) value=(given(name)) placeholder=[(name == "date").then_some(now.as_str())] autocomplete="off" aria-describedby={ (fid) "-hint" }; }
                 @if let Some(m) = err { p.error role="alert" { (m) } }
                 p.hint id={ (fid) "-hint" } { (hint) }
             }
