@@ -82,6 +82,19 @@ pub struct Refusal {
     pub message: String,
 }
 
+impl Refusal {
+    /// A refusal of `value` for `option`, what is accepted taken from the message's
+    /// "accepted: ..." part.
+    pub fn new(option: &str, value: &str, message: String) -> Refusal {
+        Refusal {
+            option: option.to_string(),
+            value: crate::as_typed(value),
+            accepted: accepted_part(&message),
+            message,
+        }
+    }
+}
+
 /// Why a calculation gave no report.
 #[derive(Debug)]
 pub enum CalcError {

@@ -213,17 +213,6 @@ fn worksheet_form(
     }
 }
 
-fn refusal(option: &str, value: &str, message: String) -> Refusal {
-    Refusal {
-        option: option.to_string(),
-        value: crate::as_typed(value),
-        accepted: message
-            .rsplit_once("accepted: ")
-            .map_or_else(String::new, |(_, a)| a.to_string()),
-        message,
-    }
-}
-
 pub(super) async fn make_worksheet(
     State(s): State<AppState>,
     Path(n): Path<String>,
@@ -262,7 +251,7 @@ pub(super) async fn make_worksheet(
             .into_iter()
             .find(|t| t.name == get("template"))
             .ok_or_else(|| {
-                refusal(
+                Refusal::new(
                     "template",
                     get("template"),
                     "not a template offered for this item; accepted: one of the list".into(),
@@ -270,20 +259,20 @@ pub(super) async fn make_worksheet(
             })?;
         let work_order = Some(get("work_order")).filter(|w| !w.is_empty());
         if let Some(w) = work_order {
-            record::check_name(w).map_err(|m| refusal("work_order", w, m))?;
+            record::check_name(w).map_err(|m| Refusal::new("work_order", w, m))?;
         }
         let prepared_by = Some(get("prepared_by")).filter(|w| !w.is_empty());
         if let Some(p) = prepared_by {
             record::check_text(p, records::MAX_PREPARER)
-                .map_err(|m| refusal("prepared_by", p, m))?;
+                .map_err(|m| Refusal::new("prepared_by", p, m))?;
         }
         let given = Some(get("date"))
             .filter(|d| !d.is_empty())
-            .map(|d| records::parse_date(d).map_err(|m| refusal("date", d, m)))
+            .map(|d| records::parse_date(d).map_err(|m| Refusal::new("date", d, m)))
             .transpose()?;
         let date = records::worksheet_date(given, site.time_zone).map_err(|f| match f {
-            Failure::Refused(m) => refusal("date", "", m),
-            other => refusal("date", "", format!("{other:?}")),
+            Failure::Refused(m) => Refusal::new("date", "", m),
+            other => Refusal::new("date", "", format!("{other:?}")),
         })?;
         let paper = if get("paper") == "letter" {
             Paper::Letter

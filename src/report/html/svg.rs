@@ -5,7 +5,7 @@
 use maud::{html, Markup};
 
 use crate::report::axis::{AxisScale, Scales};
-use crate::report::colour::{hex, SAFETY_RED, SERIES, SERIES_DASHES};
+use crate::report::colour::{hex, srgb, SAFETY_RED, SERIES, SERIES_DASHES};
 use crate::report::Plot;
 use crate::units::Display;
 
@@ -117,7 +117,7 @@ pub fn plot_svg(plot: &Plot, d: &Display) -> Markup {
                     line x1=(n(plot_left)) x2=(n(plot_right)) y1=(n(*y)) y2=(n(*y)) stroke=(red) stroke-width="1.5" stroke-dasharray="6 4" {}
                 }
                 @for (k, points) in &lines {
-                    polyline fill="none" stroke=(hex(SERIES[*k])) stroke-width="2" stroke-linejoin="round" stroke-dasharray=(dash(*k)) points=(points) {}
+                    polyline fill="none" stroke=(hex(srgb(SERIES[*k]))) stroke-width="2" stroke-linejoin="round" stroke-dasharray=(dash(*k)) points=(points) {}
                 }
                 @for (y, label) in &limits {
                     @let base = if *y - plot_top < 14.0 { *y + 14.0 } else { *y - 4.0 };
@@ -129,7 +129,7 @@ pub fn plot_svg(plot: &Plot, d: &Display) -> Markup {
                     @let k = i % SERIES.len();
                     li {
                         svg width="36" height="10" aria-hidden="true" {
-                            line x1="0" x2="36" y1="5" y2="5" stroke=(hex(SERIES[k])) stroke-width="2" stroke-dasharray=(dash(k)) {}
+                            line x1="0" x2="36" y1="5" y2="5" stroke=(hex(srgb(SERIES[k]))) stroke-width="2" stroke-dasharray=(dash(k)) {}
                         }
                         " " (s.label)
                         @if on_right(s) { " (right axis)" }

@@ -41,12 +41,7 @@ pub(super) fn decision_colours(decision: Decision) -> (Rgb3, Rgb3) {
 }
 
 /// Series colours and dash patterns: distinct in colour and, for monochrome copies, in dash.
-pub(super) const SERIES_COLOURS: [Rgb3; 4] = [
-    rgb(colour::SERIES[0]),
-    rgb(colour::SERIES[1]),
-    rgb(colour::SERIES[2]),
-    rgb(colour::SERIES[3]),
-];
+pub(super) const SERIES_COLOURS: [Rgb3; 4] = colour::SERIES;
 pub(super) const SERIES_DASHES: [&[f32]; 4] = colour::SERIES_DASHES;
 
 pub(super) fn colour((r, g, b): Rgb3) -> Color {
