@@ -179,6 +179,11 @@ fn worksheet_form(
         }
     };
     let templates = templates_for(s, r.kind);
+    // A site in US units is most likely printed on US Letter.
+    let letter = match given("paper").as_str() {
+        "" => site.units == crate::units::UnitSystem::Us,
+        paper => paper == "letter",
+    };
     html! {
         form method="post" action={ "/site/" (i) "/worksheet" } {
             fieldset {
@@ -203,7 +208,7 @@ fn worksheet_form(
                     div.control {
                         select id={ (id) "-paper" } name="paper" {
                             option value="a4" { "A4" }
-                            option value="letter" selected[given("paper") == "letter"] { "US Letter" }
+                            option value="letter" selected[letter] { "US Letter" }
                         }
                     }
                 }
