@@ -20,6 +20,7 @@ pub mod parallel;
 pub mod record;
 pub mod report;
 pub mod rules;
+pub mod serve;
 pub mod site;
 pub mod solve;
 pub mod source;

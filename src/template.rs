@@ -152,6 +152,25 @@ pub fn resolve(name_or_path: &str) -> Result<Template, FileError> {
     }
 }
 
+/// The built-in template `name` (never a file, whatever is in the working folder).
+pub fn built_in(name: &str) -> Result<Template, FileError> {
+    match BUILT_IN.iter().find(|(n, _)| *n == name) {
+        Some((n, text)) => parse(&Source {
+            path: format!("<built-in template {n}>").into(),
+            text: (*text).to_string(),
+        }),
+        None => Err(FileError {
+            file: name.into(),
+            line: 0,
+            key: "template".to_string(),
+            problem: format!(
+                "no built-in template of that name; accepted: one of {}",
+                BUILT_IN.map(|(n, _)| n).join(", ")
+            ),
+        }),
+    }
+}
+
 /// The built-in template used for `kind` when `--template` is not given.
 pub fn default_for(kind: EquipmentKind) -> &'static str {
     match kind {

@@ -16,7 +16,7 @@ use crate::heat;
 use crate::heat::{Construction, Liner, Material};
 use crate::limits;
 use crate::record;
-use crate::report::{render_text, to_json, Worksheet};
+use crate::report::{render_text, to_json, EnergyReport, FillReport, VentReport, Worksheet};
 use crate::rules::energy::{self, EnergyInput};
 use crate::rules::fill::FillInput;
 use crate::rules::room::{Room, Ventilation};
@@ -42,7 +42,7 @@ pub(super) struct Common {
     model: ModelKind,
     /// Units for the text output (the other system is shown alongside).
     #[arg(long, value_enum, ignore_case = true, default_value = "si")]
-    units: UnitSystem,
+    pub(super) units: UnitSystem,
     /// Print one JSON object (SI units, absolute pressures in Pa) instead of text.
     #[arg(long)]
     json: bool,
@@ -51,7 +51,7 @@ pub(super) struct Common {
 #[derive(Debug, Args)]
 pub(super) struct EnergyArgs {
     #[command(flatten)]
-    common: Common,
+    pub(super) common: Common,
     /// Gas volume of the vessel (e.g. 2 m3, 500 L, 20 gal).
     #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = parse_vessel_volume)]
     volume: Volume,
@@ -96,7 +96,7 @@ pub(super) enum WorkKind {
 #[derive(Debug, Args)]
 pub(super) struct FillArgs {
     #[command(flatten)]
-    common: Common,
+    pub(super) common: Common,
     /// Cylinder internal (water) volume.
     #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = parse_vessel_volume)]
     volume: Volume,
@@ -176,7 +176,7 @@ pub(super) struct WallArgs {
 #[derive(Debug, Args)]
 pub(super) struct VentArgs {
     #[command(flatten)]
-    common: Common,
+    pub(super) common: Common,
     /// Gas volume of the vessel.
     #[arg(long, value_name = "Q", allow_hyphen_values = true, value_parser = parse_vessel_volume)]
     volume: Volume,
@@ -370,6 +370,12 @@ where
 }
 
 pub(super) fn energy_command(a: EnergyArgs) -> Result<String, Failure> {
+    let (json, system) = (a.common.json, a.common.units);
+    render(&energy_report(a)?, json, system)
+}
+
+/// The energy command's report, before it is printed.
+pub(super) fn energy_report(a: EnergyArgs) -> Result<EnergyReport, Failure> {
     let model = super::gas_model(a.common.model, a.common.gas);
     let pa = ambient(&a.common)?;
     let mut overpressures: Vec<Pressure> = energy::DEFAULT_OVERPRESSURES_PA
@@ -396,11 +402,22 @@ pub(super) fn energy_command(a: EnergyArgs) -> Result<String, Failure> {
         before_opening: matches!(a.work, WorkKind::InService),
         vessel_mass: a.empty_mass,
     };
-    let report = assess::energy(model.as_ref(), &input, &ask)?;
-    render(&report, a.common.json, a.common.units)
+    Ok(assess::energy(model.as_ref(), &input, &ask)?)
 }
 
 pub(super) fn fill_command(a: FillArgs) -> Result<String, Failure> {
+    let (json, system, csv) = (a.common.json, a.common.units, a.wall.csv.clone());
+    let report = fill_report(a)?;
+    if let (Some(path), Some(t)) = (&csv, &report.transient) {
+        if let Some(csv) = write_csv(path, &t.samples)? {
+            return Ok(csv);
+        }
+    }
+    render(&report, json, system)
+}
+
+/// The fill command's report, before it is printed (or its time series written).
+pub(super) fn fill_report(a: FillArgs) -> Result<FillReport, Failure> {
     let wall_options = a.wall.any()
         || a.inlet_diameter.is_some()
         || a.wrap_mass.is_some()
@@ -489,12 +506,7 @@ pub(super) fn fill_command(a: FillArgs) -> Result<String, Failure> {
             e
         }
     })?;
-    if let (Some(path), Some(t)) = (&a.wall.csv, &report.transient) {
-        if let Some(csv) = write_csv(path, &t.samples)? {
-            return Ok(csv);
-        }
-    }
-    render(&report, a.common.json, a.common.units)
+    Ok(report)
 }
 
 /// The planned-rate fill from the wall options, checked.
@@ -677,6 +689,19 @@ pub(super) fn write_csv(
 }
 
 pub(super) fn vent_command(a: VentArgs) -> Result<String, Failure> {
+    let (json, system, csv) = (a.common.json, a.common.units, a.wall.csv.clone());
+    let report = vent_report(a)?;
+    // The time series exists only where the wall model ran, which the options decide.
+    if let (Some(path), Some(t)) = (&csv, &report.transient) {
+        if let Some(csv) = write_csv(path, &t.samples)? {
+            return Ok(csv);
+        }
+    }
+    render(&report, json, system)
+}
+
+/// The vent command's report, before it is printed (or its time series written).
+pub(super) fn vent_report(a: VentArgs) -> Result<VentReport, Failure> {
     let model = super::gas_model(a.common.model, a.common.gas);
     let pa = ambient(&a.common)?;
     // `--down-to "0 barg"` means down to ambient: the vent's usual end just above it, since
@@ -741,7 +766,7 @@ pub(super) fn vent_command(a: VentArgs) -> Result<String, Failure> {
         } else {
             None
         };
-        Some((WallVent { check, exchange }, wall_args.csv))
+        Some(WallVent { check, exchange })
     } else {
         None
     };
@@ -760,7 +785,7 @@ pub(super) fn vent_command(a: VentArgs) -> Result<String, Failure> {
     let mut report = assess::vent(
         model.as_ref(),
         &input,
-        wall.as_ref().map(|(w, _)| w),
+        wall.as_ref(),
         match (&room, a.outdoors) {
             (Some(r), _) => Discharge::Room(r),
             (None, true) => Discharge::Outdoors,
@@ -790,10 +815,5 @@ pub(super) fn vent_command(a: VentArgs) -> Result<String, Failure> {
             "A wall option was given, so the vent is also run with the wall model (--heat-transfer lumped).",
         ));
     }
-    if let (Some((_, Some(path))), Some(t)) = (&wall, &report.transient) {
-        if let Some(csv) = write_csv(path, &t.samples)? {
-            return Ok(csv);
-        }
-    }
-    render(&report, a.common.json, a.common.units)
+    Ok(report)
 }

@@ -3,9 +3,11 @@
 //! Quantities are parsed by clap value parsers (so a bad value is reported with its option
 //! name), gauge readings become absolute here, and nothing downstream sees a string.
 
+pub mod api;
 mod calc;
 mod gases;
-mod records;
+pub mod records;
+mod serve;
 
 use std::io::Write;
 
@@ -17,6 +19,7 @@ use crate::InputError;
 use calc::{EnergyArgs, FillArgs, VentArgs};
 use gases::GasesArgs;
 use records::{CheckArgs, WorksheetArgs};
+use serve::ServeArgs;
 
 /// Exit code: computed (whatever the cautions).
 pub const EXIT_OK: i32 = 0;
@@ -57,6 +60,9 @@ enum Command {
     Worksheet(WorksheetArgs),
     /// Checks a site file and ranks its equipment by hazard; exits 3 if any item raises DANGER.
     Check(CheckArgs),
+    /// A local web page for the calculations and the site files, with a JSON API; listens on
+    /// this machine only unless --listen says otherwise.
+    Serve(ServeArgs),
     /// Shell completions for pvhazard, printed on standard output (e.g. `pvhazard completions
     /// bash > ~/.local/share/bash-completion/completions/pvhazard`).
     Completions(CompletionsArgs),
@@ -204,6 +210,7 @@ fn execute(command: Command) -> Result<(String, i32), Failure> {
         Command::Gases(a) => gases::gases_command(a).map(computed),
         Command::Worksheet(a) => records::worksheet_command(a).map(computed),
         Command::Check(a) => records::check_command(a),
+        Command::Serve(a) => serve::serve_command(a).map(computed),
         Command::Completions(a) => {
             let mut script = Vec::new();
             let mut cli = <Cli as clap::CommandFactory>::command();

@@ -5,7 +5,7 @@ use std::io::IsTerminal;
 use clap::Args;
 
 use super::{Failure, EXIT_DANGER, EXIT_OK};
-use crate::assess::{Status, Verdict};
+use crate::assess::{Decision, Status, Verdict};
 use crate::caution::{Caution, Level};
 use crate::gas::ModelKind;
 use crate::record;
@@ -66,7 +66,7 @@ pub(super) struct CheckArgs {
 }
 
 /// Longest preparer's name accepted, in characters (it is printed, not a file name).
-const MAX_PREPARER: usize = 120;
+pub const MAX_PREPARER: usize = 120;
 
 /// Latest worksheet date accepted, in seconds since 1970-01-01 UTC: the end of 9999, the
 /// last year a record's four-digit dates can hold.
@@ -74,14 +74,14 @@ const LAST_EPOCH: i64 = 253_402_300_799;
 
 /// A worksheet date as given: with its own offset, or a local time in the site's zone.
 #[derive(Debug, Clone, Copy)]
-pub(super) enum DateArg {
+pub enum DateArg {
     /// RFC 3339, with an offset.
     Fixed(chrono::DateTime<chrono::FixedOffset>),
     /// A date, or a date and time, to be read in the site's time zone.
     Local(chrono::NaiveDateTime),
 }
 
-pub(super) fn parse_date(s: &str) -> Result<DateArg, String> {
+pub fn parse_date(s: &str) -> Result<DateArg, String> {
     const ACCEPTED: &str = "accepted: 2026-03-14T09:30:00+01:00 or 2026-03-14T08:30:00Z, or in the site's time zone 2026-03-14T09:30 or 2026-03-14; from 1970 to 9999";
     let t = s.trim();
     let in_range = |secs: i64| (0..=LAST_EPOCH).contains(&secs);
@@ -114,7 +114,7 @@ pub(super) fn parse_date(s: &str) -> Result<DateArg, String> {
 
 /// The worksheet date: `--date`, else SOURCE_DATE_EPOCH, else now; in the site's zone
 /// unless `--date` gave its own offset.
-pub(super) fn worksheet_date(
+pub fn worksheet_date(
     given: Option<DateArg>,
     zone: chrono::FixedOffset,
 ) -> Result<chrono::DateTime<chrono::FixedOffset>, Failure> {
@@ -291,7 +291,6 @@ fn batch_of_worksheets(
     batch: &record::Batch,
 ) -> Result<(Vec<Staged>, Vec<String>), Failure> {
     let progress = a.all && std::io::stderr().is_terminal();
-    let date = meta.date.format("%Y-%m-%d").to_string();
     let memo = worksheet::Memo::default();
     let work = |i: usize, item: &&Equipment| -> Result<Outcome, Failure> {
         let template = match given_template {
@@ -308,26 +307,16 @@ fn batch_of_worksheets(
                 )));
             }
         }
-        let model = super::gas_model(a.model, item.gas());
-        let sheet = worksheet::build_in(&memo, model.as_ref(), site, item, &template, meta)?;
-        let pdf =
-            render_pdf(&sheet.document, a.paper).map_err(|e| Failure::Internal(e.to_string()))?;
-        let json = to_json(&sheet.record).map_err(Failure::Internal)? + "\n";
-        let stem = record::stem(
-            &site.name,
-            item.tag(),
-            &template.name,
-            a.work_order.as_deref(),
-            &date,
-        );
+        let made = made(&memo, site, item, &template, meta, a.paper, a.model)?;
+        let stem = made.stem;
         batch
-            .add(&format!("{stem}.json"), 2 * i, json.as_bytes())
-            .and_then(|_| batch.add(&format!("{stem}.pdf"), 2 * i + 1, &pdf))
+            .add(&format!("{stem}.json"), 2 * i, made.json.as_bytes())
+            .and_then(|_| batch.add(&format!("{stem}.pdf"), 2 * i + 1, &made.pdf))
             .map_err(record_failure)?;
         Ok(Outcome::Staged(Staged {
             tag: item.tag().to_string(),
-            decision: sheet.verdict.decision,
-            highest: sheet.highest,
+            decision: made.decision,
+            highest: made.highest,
             stem,
         }))
     };
@@ -365,27 +354,76 @@ fn record_failure(e: record::RecordError) -> Failure {
     }
 }
 
-pub(super) fn check_command(a: CheckArgs) -> Result<(String, i32), Failure> {
-    #[derive(serde::Serialize)]
-    struct Item {
-        tag: String,
-        kind: EquipmentKind,
-        gas: &'static str,
-        template: String,
-        stored_energy_j: uom::si::f64::Energy,
-        verdict: Verdict,
-        highest_level: Level,
-        cautions: Vec<Caution>,
-    }
-    #[derive(serde::Serialize)]
-    struct Summary {
-        command: &'static str,
-        tool_version: &'static str,
-        site: String,
-        items: Vec<Item>,
-        danger: bool,
-    }
-    let site = site::load(&a.site)?;
+/// One worksheet made and rendered, not yet written: what its summary line says, its file
+/// stem and its two files.
+pub struct Made {
+    /// The decision.
+    pub decision: Decision,
+    /// The highest caution level raised.
+    pub highest: Level,
+    /// The records' file stem ([`record::stem`]).
+    pub stem: String,
+    /// The PDF.
+    pub pdf: Vec<u8>,
+    /// The JSON record, as written.
+    pub json: String,
+}
+
+/// The worksheet for `item` with `template`, rendered as `worksheet` renders it; items
+/// alike but for their tag share the calculations kept in `memo`.
+pub fn made(
+    memo: &worksheet::Memo,
+    site: &Site,
+    item: &Equipment,
+    template: &template::Template,
+    meta: &Meta,
+    paper: Paper,
+    model: ModelKind,
+) -> Result<Made, Failure> {
+    let gas = super::gas_model(model, item.gas());
+    let sheet = worksheet::build_in(memo, gas.as_ref(), site, item, template, meta)?;
+    let pdf = render_pdf(&sheet.document, paper).map_err(|e| Failure::Internal(e.to_string()))?;
+    let json = to_json(&sheet.record).map_err(Failure::Internal)? + "\n";
+    let stem = record::stem(
+        &site.name,
+        item.tag(),
+        &template.name,
+        meta.work_order.as_deref(),
+        &meta.date.format("%Y-%m-%d").to_string(),
+    );
+    Ok(Made {
+        decision: sheet.verdict.decision,
+        highest: sheet.highest,
+        stem,
+        pdf,
+        json,
+    })
+}
+
+/// One item of a site as `check` ranks it.
+#[derive(Debug, serde::Serialize)]
+pub struct Ranked {
+    /// The item's tag.
+    pub tag: String,
+    /// Vessel or cylinder.
+    pub kind: EquipmentKind,
+    /// The gas's name.
+    pub gas: &'static str,
+    /// The template it was checked with (its kind's default).
+    pub template: String,
+    /// The isentropic stored energy it was ranked by.
+    pub stored_energy_j: uom::si::f64::Energy,
+    /// The decision and its findings.
+    pub verdict: Verdict,
+    /// The highest caution level raised.
+    pub highest_level: Level,
+    /// The banners.
+    pub cautions: Vec<Caution>,
+}
+
+/// The site's items, each checked with its kind's default template, ranked by decision,
+/// then by the signal word of the worst banner, then by the energy at risk.
+pub fn ranked(site: &Site, model: ModelKind) -> Result<Vec<Ranked>, Failure> {
     // The check's results do not depend on the date; a fixed one keeps runs identical.
     let meta = Meta {
         work_order: None,
@@ -396,12 +434,11 @@ pub(super) fn check_command(a: CheckArgs) -> Result<(String, i32), Failure> {
     };
     let equipment: Vec<&Equipment> = site.equipment.iter().collect();
     let memo = worksheet::Memo::default();
-    let mut items: Vec<Option<Item>> = (0..equipment.len()).map(|_| None).collect();
-    let work = |_: usize, item: &&Equipment| -> Result<Item, Failure> {
-        let template = template::resolve(template::default_for(item.kind()))?;
-        let model = super::gas_model(a.model, item.gas());
-        let sheet = worksheet::build_in(&memo, model.as_ref(), &site, item, &template, &meta)?;
-        Ok(Item {
+    let work = |_: usize, item: &&Equipment| -> Result<Ranked, Failure> {
+        let template = template::built_in(template::default_for(item.kind()))?;
+        let gas = super::gas_model(model, item.gas());
+        let sheet = worksheet::build_in(&memo, gas.as_ref(), site, item, &template, &meta)?;
+        Ok(Ranked {
             tag: item.tag().to_string(),
             kind: item.kind(),
             gas: item.gas().name,
@@ -412,13 +449,12 @@ pub(super) fn check_command(a: CheckArgs) -> Result<(String, i32), Failure> {
             cautions: sheet.record.cautions,
         })
     };
+    let mut slots: Vec<Option<Ranked>> = (0..equipment.len()).map(|_| None).collect();
     crate::parallel::run(&equipment, crate::parallel::threads(), work, |i, item| {
-        items[i] = Some(item);
+        slots[i] = Some(item);
         Ok(())
     })?;
-    let mut items: Vec<Item> = items.into_iter().flatten().collect();
-    // Ranked by decision, then by the signal word of the worst banner, then by the energy
-    // at risk.
+    let mut items: Vec<Ranked> = slots.into_iter().flatten().collect();
     items.sort_by(|x, y| {
         y.verdict
             .decision
@@ -426,6 +462,20 @@ pub(super) fn check_command(a: CheckArgs) -> Result<(String, i32), Failure> {
             .then(y.highest_level.cmp(&x.highest_level))
             .then(y.stored_energy_j.value.total_cmp(&x.stored_energy_j.value))
     });
+    Ok(items)
+}
+
+pub(super) fn check_command(a: CheckArgs) -> Result<(String, i32), Failure> {
+    #[derive(serde::Serialize)]
+    struct Summary {
+        command: &'static str,
+        tool_version: &'static str,
+        site: String,
+        items: Vec<Ranked>,
+        danger: bool,
+    }
+    let site = site::load(&a.site)?;
+    let items = ranked(&site, a.model)?;
     let danger = items.iter().any(|i| i.highest_level == Level::Danger);
     let code = if danger { EXIT_DANGER } else { EXIT_OK };
     if a.json {

@@ -2,10 +2,14 @@
 //! inputs. The JSON form is the contract other tools read; the [`Worksheet`] form is what the
 //! text (and, later, PDF) renderers lay out. Nothing here computes physics.
 
+mod axis;
+mod colour;
 mod document;
 mod fragments;
+pub mod html;
 mod json;
 mod pdf;
+pub mod plots;
 mod release;
 mod text;
 

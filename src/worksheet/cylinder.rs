@@ -83,66 +83,7 @@ pub(super) fn cylinder_parts(
         "Fast fill on the ideal gas, for comparison",
         report.comparison_entries(),
     );
-    let mut plot_series = vec![Series {
-        label: "Gas, adiabatic bound".to_string(),
-        right_axis: false,
-        points: report
-            .path
-            .iter()
-            .map(|s| (s.pressure.get::<pascal>(), s.temperature.get::<kelvin>()))
-            .collect(),
-    }];
-    if let Some(t) = &report.transient {
-        let curves = [
-            (
-                "Gas, with wall heat",
-                t.samples
-                    .iter()
-                    .map(|s| Some(s.gas_temperature))
-                    .collect::<Vec<_>>(),
-            ),
-            (
-                "Wall (liner)",
-                t.samples.iter().map(|s| Some(s.wall_temperature)).collect(),
-            ),
-            (
-                "Wrap",
-                t.samples.iter().map(|s| s.wrap_temperature).collect(),
-            ),
-        ];
-        for (label, temperatures) in curves {
-            let points: Vec<_> = t
-                .samples
-                .iter()
-                .zip(temperatures)
-                .filter_map(|(s, temp)| Some((s.pressure.get::<pascal>(), temp?.get::<kelvin>())))
-                .collect();
-            if !points.is_empty() {
-                plot_series.push(Series {
-                    label: label.to_string(),
-                    right_axis: false,
-                    points,
-                });
-            }
-        }
-    }
-    out.plots.push(Plot {
-        title: "Gas and wall temperature during the fill".to_string(),
-        x: Axis {
-            label: "Pressure".to_string(),
-            kind: AxisKind::Pressure,
-        },
-        left: Axis {
-            label: "Gas and wall temperature".to_string(),
-            kind: AxisKind::Temperature,
-        },
-        right: None,
-        series: plot_series,
-        limits: vec![(
-            c.rated_temperature.get::<kelvin>(),
-            "Rated temperature".to_string(),
-        )],
-    });
+    out.plots.push(plots::fill(&report));
     // Rank cylinders by the energy they hold full.
     let full = EnergyInput {
         volume: c.water_capacity,

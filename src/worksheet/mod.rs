@@ -11,8 +11,7 @@ use serde::Serialize;
 use sha2::{Digest, Sha256};
 use uom::si::f64::{AvailableEnergy, Energy, Pressure, ThermodynamicTemperature, Time};
 use uom::si::{
-    available_energy::joule_per_kilogram, energy::joule, pressure::pascal,
-    thermodynamic_temperature::kelvin, time::second,
+    available_energy::joule_per_kilogram, energy::joule, pressure::pascal, time::second,
 };
 
 use crate::assess::{
@@ -20,15 +19,13 @@ use crate::assess::{
 };
 use crate::caution::{deferral, distinct, ordered, Caution, Level, Note, Part};
 use crate::gas::GasModel;
-use crate::report::{Axis, AxisKind, Document, Entry, Plot, Section, Series, Value, TOOL_VERSION};
+use crate::report::{plots, Document, Entry, Plot, Section, Value, TOOL_VERSION};
 use crate::rules::energy::{
     self, EnergyInput, DEFAULT_OVERPRESSURES_PA, DEFAULT_TNT_ENERGY_J_PER_KG,
 };
 use crate::rules::fill::FillInput;
-use crate::rules::room::{Room, RoomRelease, RoomSample};
-use crate::rules::transient::{
-    self, CylinderMass, Depressuring, Exchange, FillRate, HeatTransfer, Wall,
-};
+use crate::rules::room::Room;
+use crate::rules::transient::{CylinderMass, Depressuring, Exchange, FillRate, HeatTransfer, Wall};
 use crate::rules::vent::{VentInput, DEFAULT_TARGET_MARGIN};
 use crate::site::{Cylinder, Equipment, EquipmentKind, Material, Site, VentTo, Vessel};
 

@@ -5,6 +5,7 @@ use printpdf::{BuiltinFont, Color, Rgb};
 
 use crate::assess::Decision;
 use crate::caution::Level;
+use crate::report::colour;
 
 pub(super) const MM: f32 = 72.0 / 25.4;
 pub(super) const MARGIN: f32 = 15.0 * MM;
@@ -20,43 +21,28 @@ pub(super) const MESSAGE_BG: Rgb3 = (0.965, 0.965, 0.965);
 pub(super) const HEAD_BG: Rgb3 = (0.90, 0.90, 0.90);
 pub(super) const WHITE: Rgb3 = (1.0, 1.0, 1.0);
 
-/// ANSI Z535 / ISO 3864 safety colours.
-pub(super) const SAFETY_RED: Rgb3 = (200.0 / 255.0, 16.0 / 255.0, 46.0 / 255.0);
-const SAFETY_ORANGE: Rgb3 = (1.0, 121.0 / 255.0, 0.0);
-const SAFETY_YELLOW: Rgb3 = (1.0, 205.0 / 255.0, 0.0);
-const SAFETY_GREEN: Rgb3 = (0.0, 135.0 / 255.0, 81.0 / 255.0);
-const SAFETY_BLUE: Rgb3 = (0.0, 75.0 / 255.0, 135.0 / 255.0);
+/// The safety red of limit lines on plots.
+pub(super) const SAFETY_RED: Rgb3 = rgb(colour::SAFETY_RED);
+
+const fn rgb((r, g, b): colour::Srgb) -> Rgb3 {
+    (r as f32 / 255.0, g as f32 / 255.0, b as f32 / 255.0)
+}
 
 /// Panel colour and text colour for a signal word.
 pub(super) fn signal_colours(level: Level) -> (Rgb3, Rgb3) {
-    match level {
-        Level::Danger => (SAFETY_RED, WHITE),
-        Level::Warning => (SAFETY_ORANGE, INK),
-        Level::Caution => (SAFETY_YELLOW, INK),
-        Level::Notice => (SAFETY_BLUE, WHITE),
-    }
+    let (panel, ink) = colour::signal(level);
+    (rgb(panel), rgb(ink))
 }
 
-/// Band colour and text colour for a decision. The colour follows the decision alone, never
-/// the signal words behind it, so that a decision always looks the same; the banners under
-/// it carry each hazard's level.
+/// Band colour and text colour for a decision (the same on every renderer).
 pub(super) fn decision_colours(decision: Decision) -> (Rgb3, Rgb3) {
-    match decision {
-        Decision::NoGo => (SAFETY_RED, WHITE),
-        Decision::GoWithActions => (SAFETY_YELLOW, INK),
-        Decision::Go => (SAFETY_GREEN, WHITE),
-    }
+    let (band, ink) = colour::decision(decision);
+    (rgb(band), rgb(ink))
 }
 
 /// Series colours and dash patterns: distinct in colour and, for monochrome copies, in dash.
-pub(super) const SERIES_COLOURS: [Rgb3; 4] = [
-    (0.0, 0.27, 0.55),
-    (0.80, 0.33, 0.0),
-    (0.0, 0.48, 0.30),
-    (0.35, 0.35, 0.35),
-];
-pub(super) const SERIES_DASHES: [&[f32]; 4] =
-    [&[], &[5.0, 2.5], &[1.5, 1.5], &[6.0, 2.0, 1.5, 2.0]];
+pub(super) const SERIES_COLOURS: [Rgb3; 4] = colour::SERIES;
+pub(super) const SERIES_DASHES: [&[f32]; 4] = colour::SERIES_DASHES;
 
 pub(super) fn colour((r, g, b): Rgb3) -> Color {
     Color::Rgb(Rgb {
