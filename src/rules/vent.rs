@@ -240,6 +240,14 @@ pub fn blow_down(
                     .get::<kilogram_per_square_meter_second>()
             })
     };
+    // Below the choke point the flux falls as √(p − pa) towards ambient, so 1/flux rises
+    // steeply near the end. Over u = √(ρ − ρa), with ρa the path's density at ambient, the
+    // integrand 2u/flux is smooth and the quadrature needs far fewer nozzle evaluations.
+    let rho_ambient = path
+        .at_pressure(ambient)
+        .ok()
+        .map(|s| s.density.get::<kilogram_per_cubic_meter>())
+        .filter(|r| r.is_finite() && *r > 0.0 && *r < rho_end);
     let density = MassDensity::new::<kilogram_per_cubic_meter>;
     let segments = densities.len() - 1;
     let (mut spent, mut error) = (0, 0.0);
@@ -247,7 +255,16 @@ pub fn blow_down(
     for (k, pair) in densities.windows(2).enumerate() {
         let reserve = (segments - k - 1) * crate::solve::KRONROD_POINTS;
         let budget = VENT_EVALUATIONS.saturating_sub(spent + reserve);
-        let q = crate::solve::integrate(inverse_flux, pair[1], pair[0], VENT_RTOL, budget);
+        let q = match rho_ambient.filter(|_| pair[0] <= rho_choke) {
+            Some(ra) => crate::solve::integrate(
+                |u: f64| 2.0 * u * inverse_flux(ra + u * u),
+                (pair[1] - ra).sqrt(),
+                (pair[0] - ra).sqrt(),
+                VENT_RTOL,
+                budget,
+            ),
+            None => crate::solve::integrate(inverse_flux, pair[1], pair[0], VENT_RTOL, budget),
+        };
         spent += q.evaluations;
         error += q.error * input.volume.get::<cubic_meter>();
         let last = elapsed[elapsed.len() - 1];
