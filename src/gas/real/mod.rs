@@ -157,17 +157,7 @@ impl RealGas {
         self.hem_throat.set(peak.map(|(x, _)| x - hi));
         let (ln_p, best) = peak.unwrap_or((lo, 0.0));
         let at_back = flux(lo);
-        if at_back >= best || ln_p - pb.ln() < 1e-6 {
-            NozzleFlow {
-                mass_flux: mass_flux(at_back),
-                choked: false,
-            }
-        } else {
-            NozzleFlow {
-                mass_flux: mass_flux(best),
-                choked: true,
-            }
-        }
+        throat_or_back(at_back, best, ln_p - pb.ln() < 1e-6)
     }
 
     /// [`RealGas::equilibrium_nozzle`] from a two-phase stagnation state, whose isentrope
@@ -203,17 +193,7 @@ impl RealGas {
         }
         self.hem_throat_t.set(peak.map(|(t, _)| t - hi));
         let (t, best) = peak.unwrap_or((lo, 0.0));
-        Some(if at_back >= best || t - lo < HEM_TOL * lo {
-            NozzleFlow {
-                mass_flux: mass_flux(at_back),
-                choked: false,
-            }
-        } else {
-            NozzleFlow {
-                mass_flux: mass_flux(best),
-                choked: true,
-            }
-        })
+        Some(throat_or_back(at_back, best, t - lo < HEM_TOL * lo))
     }
 
     /// The state at density and internal energy, the temperature search started at `guess`.
@@ -309,6 +289,22 @@ fn throat_peak(
 /// with the velocity c = √(2·(h0 − h)) from the energy balance.
 fn throat_flux(e0: &Equilibrium, e: &Equilibrium) -> f64 {
     e.rho * (2.0 * (e0.h - e.h)).max(0.0).sqrt()
+}
+
+/// The flow through the nozzle: choked at the throat's peak flux `best`, unless the flux
+/// at the back pressure is as large or the peak lies at the back pressure (`at_back_end`).
+fn throat_or_back(at_back: f64, best: f64, at_back_end: bool) -> NozzleFlow {
+    if at_back >= best || at_back_end {
+        NozzleFlow {
+            mass_flux: mass_flux(at_back),
+            choked: false,
+        }
+    } else {
+        NozzleFlow {
+            mass_flux: mass_flux(best),
+            choked: true,
+        }
+    }
 }
 
 fn mass_flux(g: f64) -> MassFlux {
