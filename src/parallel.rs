@@ -87,6 +87,28 @@ where
     }
 }
 
+/// As [`run`], with the results in item order; `arrived(i)` is called on the calling thread
+/// as item `i`'s result arrives (for a progress count).
+pub fn collect<T, R, E>(
+    items: &[T],
+    threads: usize,
+    work: impl Fn(usize, &T) -> Result<R, E> + Sync,
+    mut arrived: impl FnMut(usize),
+) -> Result<Vec<R>, E>
+where
+    T: Sync,
+    R: Send,
+    E: Send,
+{
+    let mut slots: Vec<Option<R>> = (0..items.len()).map(|_| None).collect();
+    run(items, threads, work, |i, r| {
+        arrived(i);
+        slots[i] = Some(r);
+        Ok(())
+    })?;
+    Ok(slots.into_iter().flatten().collect())
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -141,6 +163,27 @@ mod tests {
                 |i, _| if i == 7 { Err(100 + i) } else { Ok(()) },
             );
             assert_eq!(r, Err(107), "{threads} threads");
+        }
+    }
+
+    #[test]
+    fn collected_results_are_in_item_order_whatever_finishes_first() {
+        let items: Vec<u64> = (0..40).collect();
+        for threads in [1, 3] {
+            let mut arrived = 0;
+            let out = collect(
+                &items,
+                threads,
+                |i, x| {
+                    // Early items finish last.
+                    std::thread::sleep(std::time::Duration::from_micros(400 - 10 * i as u64));
+                    Ok::<_, ()>(x * 2)
+                },
+                |_| arrived += 1,
+            )
+            .unwrap();
+            assert_eq!(out, items.iter().map(|x| x * 2).collect::<Vec<_>>());
+            assert_eq!(arrived, items.len());
         }
     }
 

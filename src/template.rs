@@ -135,40 +135,47 @@ pub fn resolve(name_or_path: &str) -> Result<Template, FileError> {
     if path.exists() || name_or_path.ends_with(".toml") || name_or_path.contains('/') {
         return parse(&Source::read(path)?);
     }
-    match BUILT_IN.iter().find(|(n, _)| *n == name_or_path) {
-        Some((n, text)) => parse(&Source {
-            path: format!("<built-in template {n}>").into(),
-            text: (*text).to_string(),
-        }),
-        None => Err(FileError {
-            file: path.to_path_buf(),
-            line: 0,
-            key: "--template".to_string(),
-            problem: format!(
-                "no template file there and no built-in template of that name; accepted: a template file's path, or one of {}",
-                BUILT_IN.map(|(n, _)| n).join(", ")
-            ),
-        }),
-    }
+    built_in_source(name_or_path)
+        .map(|src| parse(&src))
+        .unwrap_or_else(|| {
+            Err(FileError {
+                file: path.to_path_buf(),
+                line: 0,
+                key: "--template".to_string(),
+                problem: format!(
+                    "no template file there and no built-in template of that name; accepted: a template file's path, or one of {}",
+                    BUILT_IN.map(|(n, _)| n).join(", ")
+                ),
+            })
+        })
 }
 
 /// The built-in template `name` (never a file, whatever is in the working folder).
 pub fn built_in(name: &str) -> Result<Template, FileError> {
-    match BUILT_IN.iter().find(|(n, _)| *n == name) {
-        Some((n, text)) => parse(&Source {
+    built_in_source(name)
+        .map(|src| parse(&src))
+        .unwrap_or_else(|| {
+            Err(FileError {
+                file: name.into(),
+                line: 0,
+                key: "template".to_string(),
+                problem: format!(
+                    "no built-in template of that name; accepted: one of {}",
+                    BUILT_IN.map(|(n, _)| n).join(", ")
+                ),
+            })
+        })
+}
+
+/// The text of the built-in template `name`, as a source to parse.
+fn built_in_source(name: &str) -> Option<Source> {
+    BUILT_IN
+        .iter()
+        .find(|(n, _)| *n == name)
+        .map(|(n, text)| Source {
             path: format!("<built-in template {n}>").into(),
             text: (*text).to_string(),
-        }),
-        None => Err(FileError {
-            file: name.into(),
-            line: 0,
-            key: "template".to_string(),
-            problem: format!(
-                "no built-in template of that name; accepted: one of {}",
-                BUILT_IN.map(|(n, _)| n).join(", ")
-            ),
-        }),
-    }
+        })
 }
 
 /// The built-in template used for `kind` when `--template` is not given.

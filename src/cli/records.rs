@@ -292,22 +292,26 @@ fn batch_of_worksheets(
 ) -> Result<(Vec<Staged>, Vec<String>), Failure> {
     let progress = a.all && std::io::stderr().is_terminal();
     let memo = worksheet::Memo::default();
+    let defaults = match given_template {
+        Some(_) => Vec::new(),
+        None => default_templates(items, template::resolve)?,
+    };
     let work = |i: usize, item: &&Equipment| -> Result<Outcome, Failure> {
         let template = match given_template {
-            Some(t) => t.clone(),
-            None => template::resolve(template::default_for(item.kind()))?,
+            Some(t) => t,
+            None => default_of(&defaults, item)?,
         };
         // With --all, a template that does not fit an item skips it, with the reason; the
         // batch fails only when it fits no item.
         if a.all {
-            if let Some(why) = worksheet::misfit(item, &template) {
+            if let Some(why) = worksheet::misfit(item, template) {
                 return Ok(Outcome::Skipped(format!(
                     "{}: skipped ({why})\n",
                     item.tag()
                 )));
             }
         }
-        let made = made(&memo, site, item, &template, meta, a.paper, a.model)?;
+        let made = made(&memo, site, item, template, meta, a.paper, a.model)?;
         let stem = made.stem;
         batch
             .add(&format!("{stem}.json"), 2 * i, made.json.as_bytes())
@@ -320,15 +324,12 @@ fn batch_of_worksheets(
             stem,
         }))
     };
-    let mut outcomes: Vec<Option<Outcome>> = (0..items.len()).map(|_| None).collect();
     let mut finished = 0;
-    crate::parallel::run(items, crate::parallel::threads(), work, |i, outcome| {
+    let outcomes = crate::parallel::collect(items, crate::parallel::threads(), work, |i| {
         finished += 1;
         if progress {
             eprint!("\r[{finished}/{}] {:<24}", items.len(), items[i].tag());
         }
-        outcomes[i] = Some(outcome);
-        Ok(())
     })?;
     if progress {
         // Clear the progress line: the summary follows on standard output.
@@ -336,13 +337,39 @@ fn batch_of_worksheets(
     }
     let mut done = Vec::new();
     let mut skipped = Vec::new();
-    for outcome in outcomes.into_iter().flatten() {
+    for outcome in outcomes {
         match outcome {
             Outcome::Staged(s) => done.push(s),
             Outcome::Skipped(line) => skipped.push(line),
         }
     }
     Ok((done, skipped))
+}
+
+/// The default template of each kind of item among `items`, resolved once for the run.
+fn default_templates(
+    items: &[&Equipment],
+    resolve: impl Fn(&str) -> Result<template::Template, crate::source::FileError>,
+) -> Result<Vec<(EquipmentKind, template::Template)>, crate::source::FileError> {
+    let mut out: Vec<(EquipmentKind, template::Template)> = Vec::new();
+    for item in items {
+        if !out.iter().any(|(k, _)| *k == item.kind()) {
+            out.push((item.kind(), resolve(template::default_for(item.kind()))?));
+        }
+    }
+    Ok(out)
+}
+
+/// `item`'s default template among those [`default_templates`] resolved for its run.
+fn default_of<'t>(
+    defaults: &'t [(EquipmentKind, template::Template)],
+    item: &Equipment,
+) -> Result<&'t template::Template, Failure> {
+    defaults
+        .iter()
+        .find(|(k, _)| *k == item.kind())
+        .map(|(_, t)| t)
+        .ok_or_else(|| Failure::Internal(format!("no default template for {}", item.tag())))
 }
 
 fn record_failure(e: record::RecordError) -> Failure {
@@ -434,10 +461,11 @@ pub fn ranked(site: &Site, model: ModelKind) -> Result<Vec<Ranked>, Failure> {
     };
     let equipment: Vec<&Equipment> = site.equipment.iter().collect();
     let memo = worksheet::Memo::default();
+    let defaults = default_templates(&equipment, template::built_in)?;
     let work = |_: usize, item: &&Equipment| -> Result<Ranked, Failure> {
-        let template = template::built_in(template::default_for(item.kind()))?;
+        let template = default_of(&defaults, item)?;
         let gas = super::gas_model(model, item.gas());
-        let sheet = worksheet::build_in(&memo, gas.as_ref(), site, item, &template, &meta)?;
+        let sheet = worksheet::build_in(&memo, gas.as_ref(), site, item, template, &meta)?;
         Ok(Ranked {
             tag: item.tag().to_string(),
             kind: item.kind(),
@@ -449,12 +477,7 @@ pub fn ranked(site: &Site, model: ModelKind) -> Result<Vec<Ranked>, Failure> {
             cautions: sheet.record.cautions,
         })
     };
-    let mut slots: Vec<Option<Ranked>> = (0..equipment.len()).map(|_| None).collect();
-    crate::parallel::run(&equipment, crate::parallel::threads(), work, |i, item| {
-        slots[i] = Some(item);
-        Ok(())
-    })?;
-    let mut items: Vec<Ranked> = slots.into_iter().flatten().collect();
+    let mut items = crate::parallel::collect(&equipment, crate::parallel::threads(), work, |_| {})?;
     items.sort_by(|x, y| {
         y.verdict
             .decision
