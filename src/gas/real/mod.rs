@@ -34,9 +34,12 @@ pub struct RealGas {
     gas: &'static Gas,
     eq: &'static Equation,
     /// The last sonic throat's density as a fraction of its stagnation density: where the
-    /// next throat search starts (a vent asks for neighbouring states in turn). Only the
-    /// speed depends on it; every throat is solved to the same tolerance.
+    /// next throat search starts (a vent asks for neighbouring states in turn). The speed
+    /// depends on it, and the flux's last digits (well below the integration's tolerance).
     throat_ratio: std::cell::Cell<Option<f64>>,
+    /// The slope of the sonic condition over that ratio at the last throat, for a first
+    /// Newton step from the next start.
+    throat_slope: std::cell::Cell<Option<f64>>,
     /// The last two-phase throat's ln(p/p₀), where the next one's search starts.
     hem_throat: std::cell::Cell<Option<f64>>,
     /// The last two-phase throat's T − T₀, from a two-phase stagnation state.
@@ -55,6 +58,7 @@ impl RealGas {
             gas,
             eq,
             throat_ratio: std::cell::Cell::new(None),
+            throat_slope: std::cell::Cell::new(None),
             hem_throat: std::cell::Cell::new(None),
             hem_throat_t: std::cell::Cell::new(None),
             last: std::cell::Cell::new(None),
@@ -532,15 +536,31 @@ impl GasModel for RealGas {
                 .throat_ratio
                 .get()
                 .unwrap_or_else(|| (2.0 / (kappa + 1.0)).powf(1.0 / (kappa - 1.0)));
+        // The first step is Newton's with the last throat's slope where there is one; a
+        // step that small from a start that close leaves the throat's density within about
+        // 1e-5 of its own size, and the flux, flat at its maximum, within about 1e-10.
         let secant = || -> Option<Equilibrium> {
-            let (mut a, mut b) = (start, start * 1.001);
-            let (mut fa, _) = sonic(a)?;
-            let (mut fb, mut eb) = sonic(b)?;
+            let a = start;
+            let (fa, _) = sonic(a)?;
+            let b = match self.throat_slope.get() {
+                Some(k) if (fa / k * p0.rho / a).abs() < 0.05 => a - fa / k * p0.rho,
+                _ => a * 1.001,
+            };
+            let (mut a, mut fa) = (a, fa);
+            let (mut b, (mut fb, mut eb)) = (b, sonic(b)?);
+            let mut newton = self.throat_slope.get().is_some();
             for _ in 0..30 {
-                // The flux is flat at its maximum: 1e-7 in ρ is about 1e-14 in flux.
-                if fb == 0.0 || ((b - a) / b).abs() < 1e-7 {
+                let settled = if newton { 1e-5 } else { 1e-7 };
+                let step = ((b - a) / b).abs();
+                if fb == 0.0 || step < settled {
+                    // A difference over a step near the solve's own noise says nothing new.
+                    let k = (fb - fa) / (b - a) * p0.rho;
+                    if step > 1e-8 && k.is_finite() && k != 0.0 {
+                        self.throat_slope.set(Some(k));
+                    }
                     return Some(eb);
                 }
+                newton = false;
                 let c = b - fb * (b - a) / (fb - fa);
                 if !(c > 0.0 && c < p0.rho) {
                     return None;
