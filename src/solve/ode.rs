@@ -297,7 +297,10 @@ mod tests {
         // One call at the start and one for each step tried to its end (the accepted ones
         // and the one that crossed); the rest located the crossing.
         let locating = calls.get() - run.t.len();
-        assert!(locating <= 8, "{locating} exact steps to locate the crossing");
+        assert!(
+            locating <= 8,
+            "{locating} exact steps to locate the crossing"
+        );
     }
 
     #[test]

@@ -214,6 +214,14 @@ impl Equation {
     fn new(fluid: Fluid) -> Equation {
         let r = &fluid.residual;
         let i = &fluid.ideal;
+        let non_analytic = r
+            .non_analytic
+            .rows(["n", "a", "b", "beta", "A", "B", "C", "D"]);
+        assert!(
+            non_analytic.len() <= MAX_NON_ANALYTIC,
+            "{} has more than {MAX_NON_ANALYTIC} non-analytic terms",
+            fluid.gas
+        );
         Equation {
             power: r
                 .power
@@ -224,9 +232,7 @@ impl Equation {
             gaussian: r
                 .gaussian
                 .rows(["n", "d", "t", "eta", "epsilon", "beta", "gamma"]),
-            non_analytic: r
-                .non_analytic
-                .rows(["n", "a", "b", "beta", "A", "B", "C", "D"]),
+            non_analytic,
             ideal_power: i.power.rows(["n", "t"]),
             planck: i.planck_einstein.rows(["n", "t"]),
             planck_generalized: i.planck_generalized.rows(["n", "t", "c", "d"]),
@@ -319,14 +325,28 @@ impl Equation {
         if !self.non_analytic.is_empty() {
             let x = Dual::var(non_analytic_delta(delta), 0);
             let y = Dual::var(tau, 1);
+            let dm1 = x - 1.0;
+            let sq = dm1 * dm1;
+            let tm1 = y - 1.0;
+            // The terms of an equation share their powers of (δ − 1)²: each is taken once,
+            // through one logarithm (powers are the costly part of these terms).
+            let ln_sq = sq.v.ln();
+            let mut powers = [(f64::NAN, sq); 2 * MAX_NON_ANALYTIC];
+            let mut sq_pow = |k: f64| -> Dual {
+                let slot = powers
+                    .iter()
+                    .position(|(e, _)| *e == k || e.is_nan())
+                    .expect("two powers a term");
+                if powers[slot].0.is_nan() {
+                    powers[slot] = (k, sq.pow_of(k, (k * ln_sq).exp()));
+                }
+                powers[slot].1
+            };
             for &[n, a, b, beta, big_a, big_b, big_c, big_d] in &self.non_analytic {
-                let dm1 = x - 1.0;
-                let sq = dm1 * dm1;
-                let theta = (1.0 - y) + sq.powf(0.5 / beta) * big_a;
-                let cap_delta = theta * theta + sq.powf(a) * big_b;
-                let tm1 = y - 1.0;
+                let theta = (1.0 - y) + sq_pow(0.5 / beta) * big_a;
+                let cap_delta = theta * theta + sq_pow(a) * big_b;
                 let psi = (sq * (-big_c) + tm1 * tm1 * (-big_d)).exp();
-                let term = cap_delta.powf(b) * x * psi * n;
+                let term = cap_delta.pow_of(b, (b * cap_delta.v.ln()).exp()) * x * psi * n;
                 o.a += term.v;
                 o.d += term.d;
                 o.dd += term.dd;
@@ -341,6 +361,9 @@ impl Equation {
 
 /// The largest exponent l of the power terms' exp(−δ^l) the file may use.
 const MAX_L: usize = 8;
+
+/// The most non-analytic terms an equation may have.
+const MAX_NON_ANALYTIC: usize = 3;
 
 /// A power term n·δ^d·τ^t·exp(−δ^l) with the constants its derivatives need.
 #[derive(Debug)]
@@ -426,9 +449,10 @@ impl Dual {
         self.chain(e, e, e)
     }
 
-    fn powf(self, k: f64) -> Dual {
-        let p = self.v.powf(k - 2.0);
-        self.chain(p * self.v * self.v, k * p * self.v, k * (k - 1.0) * p)
+    /// `self` to the power `k`, given that power's value `f` (a positive base).
+    fn pow_of(self, k: f64, f: f64) -> Dual {
+        let f1 = k * f / self.v;
+        self.chain(f, f1, (k - 1.0) * f1 / self.v)
     }
 }
 
