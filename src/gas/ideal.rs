@@ -10,7 +10,7 @@ use uom::si::{
     specific_heat_capacity::joule_per_kilogram_kelvin, thermodynamic_temperature::kelvin,
 };
 
-use super::{Gas, GasError, GasModel, ModelKind, NozzleFlow, State};
+use super::{Gas, GasError, GasModel, ModelKind, NozzleFlow, State, Throat};
 use crate::caution::{Caution, Level};
 
 /// Entropy reference state: 298.15 K and 101.325 kPa, where s = 0.
@@ -185,6 +185,7 @@ impl GasModel for IdealGas {
         NozzleFlow {
             mass_flux: MassFlux::new::<kilogram_per_square_meter_second>(flux),
             choked,
+            throat: Throat::Gas,
         }
     }
 

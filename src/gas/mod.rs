@@ -294,6 +294,21 @@ pub struct NozzleFlow {
     pub mass_flux: MassFlux,
     /// Whether the throat is sonic (the flow no longer depends on the back pressure).
     pub choked: bool,
+    /// Where the expansion is at the throat (or at the back pressure, unchoked). Where this
+    /// changes along a vent, the flux has a kink.
+    pub throat: Throat,
+}
+
+/// The phase of a nozzle's flow at its throat.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Throat {
+    /// One phase: the expansion reaches its sonic point (or the back pressure) as gas.
+    Gas,
+    /// At the dew point: the expansion meets the two-phase region before its sonic point,
+    /// and the flux peaks at that corner.
+    DewPoint,
+    /// Inside the two-phase region, in homogeneous equilibrium.
+    TwoPhase,
 }
 
 /// A state a gas model cannot give.

@@ -25,7 +25,7 @@ use uom::si::{
     specific_heat_capacity::joule_per_kilogram_kelvin, thermodynamic_temperature::kelvin,
 };
 
-use super::{Gas, GasError, GasModel, ModelKind, NozzleFlow, State};
+use super::{Gas, GasError, GasModel, ModelKind, NozzleFlow, State, Throat};
 use crate::caution::{Caution, Level};
 
 /// A gas described by its reference equation of state.
@@ -145,7 +145,7 @@ impl RealGas {
         }
         // Each throat pressure's saturation state starts from the last one found.
         let near = std::cell::Cell::new(None);
-        let flux = |ln_p: f64| {
+        let state = |ln_p: f64| {
             let p = ln_p.exp();
             let last: Option<Saturation> = near.get();
             let sat = self.eq.saturation_p_near(p, last.as_ref());
@@ -154,14 +154,25 @@ impl RealGas {
             }
             self.eq
                 .at_p_saturated(p, sat, e0.s, |e| e.s, |p| p.cp / p.t)
-                .map_or(0.0, |e| throat_flux(e0, &e))
+                .ok()
         };
+        let flux = |ln_p: f64| state(ln_p).map_or(0.0, |e| throat_flux(e0, &e));
         let (lo, hi) = (pb.ln(), e0.p.ln());
         let peak = throat_peak(&flux, (lo, hi), self.hem_throat.get(), HEM_TOL);
         self.hem_throat.set(peak.map(|(x, _)| x - hi));
         let (ln_p, best) = peak.unwrap_or((lo, 0.0));
         let at_back = flux(lo);
-        throat_or_back(at_back, best, ln_p - pb.ln() < 1e-6)
+        let flow = throat_or_back(at_back, best, ln_p - pb.ln() < 1e-6);
+        // The flow's state where it was found, for its phase.
+        let at = if flow.choked { ln_p } else { lo };
+        let quality = state(at).and_then(|e| e.quality);
+        NozzleFlow {
+            throat: match quality {
+                Some(x) if x < 1.0 - DEW_POINT_QUALITY => Throat::TwoPhase,
+                _ => Throat::DewPoint,
+            },
+            ..flow
+        }
     }
 
     /// [`RealGas::equilibrium_nozzle`] from a two-phase stagnation state, whose isentrope
@@ -197,7 +208,10 @@ impl RealGas {
         }
         self.hem_throat_t.set(peak.map(|(t, _)| t - hi));
         let (t, best) = peak.unwrap_or((lo, 0.0));
-        Some(throat_or_back(at_back, best, t - lo < HEM_TOL * lo))
+        Some(NozzleFlow {
+            throat: Throat::TwoPhase,
+            ..throat_or_back(at_back, best, t - lo < HEM_TOL * lo)
+        })
     }
 
     /// The state at density and internal energy, the temperature search started at `guess`.
@@ -233,6 +247,10 @@ impl RealGas {
 const HEM_GRID: usize = 12;
 /// The bracket tried around the last throat is this many times narrower than a grid step.
 const HEM_LOCAL: f64 = 8.0;
+/// How far below 1 the quality of a homogeneous-equilibrium throat must be for it to lie
+/// inside the two-phase region rather than at its dew point: the throat search's tolerance
+/// ([`HEM_TOL`] in ln p) moves a throat pinned at the dew point about this far in.
+const DEW_POINT_QUALITY: f64 = 1e-5;
 /// The throat's tolerance in ln p (relative, along temperature): the flux is flat at its
 /// maximum, so its error is of the order of the square of this.
 const HEM_TOL: f64 = 1e-6;
@@ -302,11 +320,13 @@ fn throat_or_back(at_back: f64, best: f64, at_back_end: bool) -> NozzleFlow {
         NozzleFlow {
             mass_flux: mass_flux(at_back),
             choked: false,
+            throat: Throat::TwoPhase,
         }
     } else {
         NozzleFlow {
             mass_flux: mass_flux(best),
             choked: true,
+            throat: Throat::TwoPhase,
         }
     }
 }
@@ -506,6 +526,7 @@ impl GasModel for RealGas {
         let zero = NozzleFlow {
             mass_flux: mass_flux(0.0),
             choked: false,
+            throat: Throat::Gas,
         };
         let e0 = self.equilibrium(stagnation);
         let pb = back.get::<pascal>();
@@ -595,6 +616,7 @@ impl GasModel for RealGas {
             Some(t) if t.p > pb => NozzleFlow {
                 mass_flux: mass_flux(flux(&t)),
                 choked: true,
+                throat: Throat::Gas,
             },
             // Subcritical: the throat is at the back pressure. Newton on ρ along the
             // isentrope (dp/dρ at constant s is w²), from the ideal-gas isentrope's density;
@@ -621,6 +643,10 @@ impl GasModel for RealGas {
                     Some(e) => NozzleFlow {
                         mass_flux: mass_flux(flux(&e)),
                         choked: false,
+                        throat: match e.quality {
+                            Some(_) => Throat::TwoPhase,
+                            None => Throat::Gas,
+                        },
                     },
                     None => zero,
                 }

@@ -41,6 +41,7 @@ mod vent;
 pub use fill::{
     fill, fill_from, fill_once, FillCase, FillTransient, MaxRate, FILL_TO_CAP, RATE_PEAK_TOLERANCE,
 };
+pub use setup::MAX_STEPS;
 pub use vent::{vent, vent_from, VentTransient};
 
 use basis::model_basis;

@@ -329,11 +329,17 @@ pub(super) fn integration_failure(e: ode::OdeError) -> InputError {
     model_failure(&why)
 }
 
+/// The most integration steps a run may take before it is not resolved. A real wall settles
+/// far slower than the run's steps; only a wall node far lighter than the gas it holds
+/// (grams, or a kilogram or two around tens of cubic metres: a mass typed in the wrong unit)
+/// and too heavy to leave massless needs more, and then takes seconds a run.
+pub const MAX_STEPS: usize = 100_000;
+
 pub(super) fn options(duration: f64, rtol: f64) -> Options {
     Options {
         rtol,
         atol: rtol,
         max_step: duration / 10.0,
-        max_steps: 200_000,
+        max_steps: MAX_STEPS,
     }
 }
