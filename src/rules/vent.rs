@@ -187,6 +187,7 @@ pub fn blow_down(
         process: input.process,
         start,
         entropy: model.entropy(&start),
+        regimes: Default::default(),
     };
     let ambient = input.ambient;
     let mass = |rho: MassDensity| rho * input.volume;
@@ -269,6 +270,7 @@ pub fn blow_down(
         let q = split_at_kinks(
             &|lo, hi, budget| quadrature(lo, hi, budget),
             &|lo, hi| path.regime_change(lo, hi, ambient),
+            (pair[1], pair[0]),
             (pair[1], pair[0]),
             budget,
             REGIME_SPLITS,
@@ -372,13 +374,15 @@ const REGIME_SPLITS: usize = 3;
 
 /// ∫ over (lo, hi) by `quadrature` within `budget` evaluations: one interval first, which
 /// settles a smooth stretch; where it does not, split where `change` finds the flow's regime
-/// changing, up to `splits` times, and integrate each side. The flux has a kink there,
-/// which the quadrature's bisection would chase for a hundred evaluations. The evaluations
-/// counted include those spent locating the change.
+/// changing between the densities of `probe` (the interval's ends, less the sliver a split
+/// leaves beside each kink), up to `splits` times, and integrate each side. The flux has a
+/// kink there, which the quadrature's bisection would chase for a hundred evaluations. The
+/// evaluations counted include those spent locating the change.
 fn split_at_kinks(
     quadrature: &dyn Fn(f64, f64, usize) -> crate::solve::Quadrature,
-    change: &dyn Fn(f64, f64) -> (Option<f64>, usize),
+    change: &dyn Fn(f64, f64) -> (Option<(f64, f64)>, usize),
     (lo, hi): (f64, f64),
+    probe: (f64, f64),
     budget: usize,
     splits: usize,
 ) -> crate::solve::Quadrature {
@@ -390,19 +394,29 @@ fn split_at_kinks(
     // Too little left to locate a change and integrate both sides: bisect as usual.
     let (at, located) = if splits > 0 && budget >= first.evaluations + LOCATING + 2 * KRONROD_POINTS
     {
-        change(lo, hi)
+        change(probe.0, probe.1)
     } else {
         (None, 0)
     };
     let spent = first.evaluations + located;
     let left = budget.saturating_sub(spent);
     let q = match at {
-        Some(mid) => {
-            let upper = split_at_kinks(quadrature, change, (mid, hi), left / 2, splits - 1);
+        // The kink lies between `below` and `mid`: the lower side is probed up to `below`,
+        // so it does not find the same kink again at its end.
+        Some((below, mid)) => {
+            let upper = split_at_kinks(
+                quadrature,
+                change,
+                (mid, hi),
+                (mid, probe.1),
+                left / 2,
+                splits - 1,
+            );
             let lower = split_at_kinks(
                 quadrature,
                 change,
                 (lo, mid),
+                (probe.0, below),
                 left.saturating_sub(upper.evaluations),
                 splits - 1,
             );
@@ -420,12 +434,18 @@ fn split_at_kinks(
     }
 }
 
+/// A vent's flow regime: whether the gas in the vessel is two-phase, and where the throat's
+/// flow is.
+type Regime = (bool, Throat);
+
 /// The states the gas in the vessel passes through, by density.
 struct Path<'a> {
     model: &'a dyn GasModel,
     process: Process,
     start: State,
     entropy: uom::si::f64::SpecificHeatCapacity,
+    /// Each density's regime as first found (see [`Path::regime`]).
+    regimes: std::cell::RefCell<Vec<(f64, Option<Regime>)>>,
 }
 
 impl Path<'_> {
@@ -447,37 +467,47 @@ impl Path<'_> {
     /// The flow's regime at density `rho`: whether the gas in the vessel is two-phase, and
     /// whether the nozzle's expansion reaches two phases by its throat. `None` where the
     /// model has no state.
-    fn regime(&self, rho: f64, ambient: Pressure) -> Option<(bool, Throat)> {
-        let st = self
+    ///
+    /// Each density's regime is kept as first found. Right at a boundary the answer can
+    /// depend on where the nozzle's searches started; kept, a split's ends stay in the
+    /// regimes the bisection found them in, and a side is not split again at its own end.
+    fn regime(&self, rho: f64, ambient: Pressure) -> Option<Regime> {
+        if let Some((_, r)) = self.regimes.borrow().iter().find(|(d, _)| *d == rho) {
+            return *r;
+        }
+        let r = self
             .state(MassDensity::new::<kilogram_per_cubic_meter>(rho))
-            .ok()?;
-        Some((st.quality.is_some(), self.model.nozzle(&st, ambient).throat))
+            .ok()
+            .map(|st| (st.quality.is_some(), self.model.nozzle(&st, ambient).throat));
+        self.regimes.borrow_mut().push((rho, r));
+        r
     }
 
     /// Where between densities `lo` and `hi` the flow changes regime (see
-    /// [`Path::regime`]), located by bisection on ln ρ to 1e-5 of the span, with the
-    /// nozzle evaluations it took; `None` where both ends are in one regime (or the model
-    /// has no state at one). A kink that close to an interval's end moves its integral by
-    /// about the square of that, 1e-10: below the quadrature's tolerance.
-    fn regime_change(&self, lo: f64, hi: f64, ambient: Pressure) -> (Option<f64>, usize) {
+    /// [`Path::regime`]): the last density found in `lo`'s regime and the first beyond it,
+    /// by bisection on ln ρ to 1e-5 of the span, with the nozzle evaluations it took; `None`
+    /// where both ends are in one regime (or the model has no state at one). A kink that
+    /// close to an interval's end moves its integral by about the square of that, 1e-10:
+    /// below the quadrature's tolerance.
+    fn regime_change(&self, lo: f64, hi: f64, ambient: Pressure) -> (Option<(f64, f64)>, usize) {
         let (Some(low), Some(high)) = (self.regime(lo, ambient), self.regime(hi, ambient)) else {
             return (None, 2);
         };
         if low == high {
             return (None, 2);
         }
-        let (mut a, mut b) = (lo.ln(), hi.ln());
+        let (mut a, mut b, mut bracket) = (lo.ln(), hi.ln(), (lo, hi));
         let mut evaluations = 2;
         while b - a > 1e-5 * (hi / lo).ln() {
             let mid = 0.5 * (a + b);
             evaluations += 1;
             if self.regime(mid.exp(), ambient) == Some(low) {
-                a = mid;
+                (a, bracket.0) = (mid, mid.exp());
             } else {
-                b = mid;
+                (b, bracket.1) = (mid, mid.exp());
             }
         }
-        (Some(b.exp()), evaluations)
+        (Some(bracket), evaluations)
     }
 
     /// The density below which the orifice is no longer choked, found by bisection on
@@ -580,9 +610,16 @@ mod tests {
                     b = m;
                 }
             }
-            (Some(b), n + 2)
+            (Some((a, b)), n + 2)
         };
-        let split = split_at_kinks(&quadrature, &change, (0.0, 1.0), 800, REGIME_SPLITS);
+        let split = split_at_kinks(
+            &quadrature,
+            &change,
+            (0.0, 1.0),
+            (0.0, 1.0),
+            800,
+            REGIME_SPLITS,
+        );
         let chased = crate::solve::integrate(f, 0.0, 1.0, VENT_RTOL, 800);
         assert_relative_eq!(split.value, 1.29, max_relative = 1e-9);
         assert!(split.converged(VENT_RTOL));
@@ -593,7 +630,14 @@ mod tests {
             chased.evaluations
         );
         // Where no regime changes, the plain quadrature serves.
-        let smooth = split_at_kinks(&quadrature, &change, (0.5, 1.0), 800, REGIME_SPLITS);
+        let smooth = split_at_kinks(
+            &quadrature,
+            &change,
+            (0.5, 1.0),
+            (0.5, 1.0),
+            800,
+            REGIME_SPLITS,
+        );
         assert_eq!(smooth.evaluations, crate::solve::KRONROD_POINTS);
     }
 
@@ -615,6 +659,7 @@ mod tests {
             process: Process::Isentropic,
             start,
             entropy: model.entropy(&start),
+            regimes: Default::default(),
         };
         let ambient = Pressure::new::<pascal>(101_325.0);
         let regimes: Vec<_> = [80.0, 64.0, 50.0, 30.0]
@@ -631,7 +676,7 @@ mod tests {
             ]
         );
         let (at, _) = path.regime_change(50.0, 80.0, ambient);
-        assert!(at.is_some_and(|rho| rho > 50.0 && rho < 80.0));
+        assert!(at.is_some_and(|(a, b)| a > 50.0 && a < b && b < 80.0));
     }
 
     #[test]
