@@ -4,7 +4,9 @@
 //! An example is a ```sh block holding one `pvhazard ...` command (or starting with
 //! `cargo run --release -- ...`), followed by a ```text block with what it prints. A line `...` in the text stands for any lines (none or many)
 //! that the document leaves out; every other line must appear, in order and exactly, in
-//! the output (trailing spaces aside). Commands run in a scratch folder holding a copy of
+//! the output (trailing spaces aside). A ```text block that opens with `$ pvhazard ...` is a
+//! transcript: the lines after it are what the command prints on its output and then its
+//! error stream (a refusal's message). Commands run in a scratch folder holding a copy of
 //! the sample sites and templates, with the date pinned by SOURCE_DATE_EPOCH.
 
 use std::path::{Path, PathBuf};
@@ -15,6 +17,8 @@ struct Example {
     line: usize,
     args: Vec<String>,
     expected: Vec<String>,
+    /// A transcript: the error stream is part of what it shows.
+    transcript: bool,
 }
 
 /// The examples of one Markdown file.
@@ -30,7 +34,17 @@ fn examples(path: &Path) -> Vec<Example> {
             (None, None) => {}
         }
     }
-    blocks
+    let transcripts = blocks.iter().filter_map(|(line, lang, body)| {
+        let command = body.first()?.strip_prefix("$ pvhazard ")?;
+        (lang == "text").then(|| Example {
+            file: path.display().to_string(),
+            line: *line,
+            args: split(command),
+            expected: body[1..].to_vec(),
+            transcript: true,
+        })
+    });
+    let mut out: Vec<Example> = blocks
         .windows(2)
         .filter_map(|w| {
             let ((line, lang, body), next, output) = (&w[0], &w[1].1, &w[1].2);
@@ -52,9 +66,12 @@ fn examples(path: &Path) -> Vec<Example> {
                 line: *line,
                 args: split(command),
                 expected: output.clone(),
+                transcript: false,
             })
         })
-        .collect()
+        .collect();
+    out.extend(transcripts);
+    out
 }
 
 /// Splits a command line as a POSIX shell does for plain and double-quoted words.
@@ -160,8 +177,11 @@ fn every_documented_example_prints_what_the_document_says() {
                 .output()
                 .unwrap();
             ran += 1;
-            let stdout =
+            let mut stdout =
                 String::from_utf8_lossy(&out.stdout).replace(&cwd.display().to_string(), ".");
+            if ex.transcript {
+                stdout.push_str(&String::from_utf8_lossy(&out.stderr));
+            }
             let lines: Vec<&str> = stdout.lines().collect();
             if let Err(line) = matches(&ex.expected, &lines) {
                 failures.push(format!(
@@ -251,6 +271,12 @@ const CLAIMS: &[Claim] = &[
         command: "check sample_sites/kestrel-fill-room.toml --model ideal",
         read: Read::Stdout,
         numbers: &["12.57 MJ"],
+    },
+    Claim {
+        file: "docs/check.md",
+        command: "check sample_sites/kestrel-fill-room.toml",
+        read: Read::Stdout,
+        numbers: &["148 psi/min"],
     },
     Claim {
         file: "docs/vent.md",

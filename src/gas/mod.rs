@@ -315,7 +315,7 @@ pub enum Throat {
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
 pub enum GasError {
     /// Above the saturation pressure: liquid in the vessel, outside these gas methods.
-    #[error("{gas} at {} bar(a) and {:.1} C is a liquefied gas (its saturation pressure there is about {} bar(a)); these gas-expansion methods do not cover a liquid, which stores and releases energy very differently (flashing, boiling-liquid expansion)", fmt_bar(*pressure_pa), temperature_k - 273.15, fmt_bar(*saturation_pa))]
+    #[error("{gas} at {} bar(a) and {:.1} C is a liquefied gas (its saturation pressure there is about {} bar(a)); these gas-expansion methods do not cover a liquid, which stores and releases energy very differently (flashing, boiling-liquid expansion); accepted: the gas, below {} bar(a) at this temperature", fmt_bar(*pressure_pa), temperature_k - 273.15, fmt_bar(*saturation_pa), fmt_bar(*saturation_pa))]
     Liquefied {
         /// The gas.
         gas: &'static str,
@@ -339,7 +339,7 @@ pub enum GasError {
     /// An expansion that would end in solid (below the triple point, above the sublimation
     /// pressure where the model has one), which the real-gas model, covering fluid states
     /// only, cannot follow.
-    #[error("{what} of {gas} would form solid{}: it would cross the line below its triple point where the gas freezes or sublimes; the real-gas model covers gas and liquid states only. Use --model ideal for an estimate, with its cautions", if *gas == "carbon-dioxide" { " (dry ice)" } else { "" })]
+    #[error("{what} of {gas} would form solid{}: it would cross the line below its triple point where the gas freezes or sublimes; the real-gas model covers gas and liquid states only; accepted: a state whose expansion stays clear of solid, or --model ideal for an estimate, with its cautions", if *gas == "carbon-dioxide" { " (dry ice)" } else { "" })]
     Freezes {
         /// The gas.
         gas: &'static str,
