@@ -47,8 +47,8 @@ pub struct RealGas {
     /// Whether the last homogeneous-equilibrium throat was pinned at the dew point, where
     /// the next is tried first.
     hem_pinned: std::cell::Cell<bool>,
-    /// The last isentrope's dew point, by its entropy.
-    dew: std::cell::Cell<Option<(f64, Option<Equilibrium>)>>,
+    /// The last isentrope's dew point (its saturation state), by its entropy.
+    dew: std::cell::Cell<Option<(f64, Option<Saturation>)>>,
     /// The last state's equilibrium, by its (ρ, T): a time step asks for h, cp and the
     /// nozzle flux of one state in turn.
     last: std::cell::Cell<Option<Equilibrium>>,
@@ -149,10 +149,6 @@ impl RealGas {
             if let Some(flow) = self.two_phase_nozzle(e0, pb) {
                 return flow;
             }
-        } else if self.hem_pinned.get() {
-            if let Some(flow) = self.pinned_nozzle(e0, pb) {
-                return flow;
-            }
         }
         // Each throat pressure's saturation state starts from the last one found.
         let near = std::cell::Cell::new(None);
@@ -186,17 +182,23 @@ impl RealGas {
         NozzleFlow { throat, ..flow }
     }
 
-    /// [`RealGas::equilibrium_nozzle`] where the throat is pinned at the dew point, found
-    /// without a search: from a one-phase stagnation state whose isentrope reaches two
-    /// phases before its sonic point, the flux rises all the way to the dew point; where it
-    /// falls just inside the two-phase region, that corner is the throat. `None` where it
-    /// does not fall there (the throat lies inside), or the dew point is not between the
-    /// stagnation and the back pressure.
+    /// The nozzle's flow where its throat is pinned at the dew point, found without a
+    /// search: from a one-phase stagnation state, the gas still short of sonic speed at the
+    /// isentrope's dew point (2(h₀ − h) < w² there) reaches two phases before any sonic
+    /// point, and the flux rises all the way to the dew point; where it falls just inside
+    /// the two-phase region, that corner is the throat. `None` where either fails (the
+    /// throat lies elsewhere), or the dew point is not between the stagnation and the back
+    /// pressure.
     fn pinned_nozzle(&self, e0: &Equilibrium, pb: f64) -> Option<NozzleFlow> {
-        let dew = self.dew_point(e0.s)?;
-        if !(dew.p < e0.p && dew.p * (1.0 - PINNED_STEP) > pb) {
+        let sat = self.dew_point(e0.s)?;
+        let vapour = &sat.vapour;
+        if !(vapour.p < e0.p
+            && vapour.p * (1.0 - PINNED_STEP) > pb
+            && 2.0 * (e0.h - vapour.h) < vapour.w2)
+        {
             return None;
         }
+        let dew = Equilibrium::mixture(&sat, 1.0);
         let best = throat_flux(e0, &dew);
         let p_in = dew.p * (1.0 - PINNED_STEP);
         let sat = self.eq.saturation_p(p_in)?;
@@ -215,7 +217,7 @@ impl RealGas {
     /// Brent's method on ln p along the saturation curve. `None` where the isentrope
     /// passes the two-phase region by. The last one found is kept: a vent along one
     /// isentrope asks for it at each throat.
-    fn dew_point(&self, s: f64) -> Option<Equilibrium> {
+    fn dew_point(&self, s: f64) -> Option<Saturation> {
         if let Some((key, dew)) = self.dew.get() {
             if key == s {
                 return dew;
@@ -237,8 +239,7 @@ impl RealGas {
             1e-13 * hi.abs(),
         )
         .ok()
-        .and_then(sat)
-        .map(|x| Equilibrium::mixture(&x, 1.0));
+        .and_then(sat);
         self.dew.set(Some((s, dew)));
         dew
     }
@@ -607,6 +608,13 @@ impl GasModel for RealGas {
         let Some(p0) = e0.single else {
             return self.equilibrium_nozzle(&e0, pb);
         };
+        // A throat pinned at the dew point last time is tried there first: the searches
+        // below would only find that the isentrope turns two-phase before its sonic point.
+        if self.hem_pinned.get() {
+            if let Some(flow) = self.pinned_nozzle(&e0, pb) {
+                return flow;
+            }
+        }
         let kappa = (p0.rho * p0.w2 / p0.p).clamp(1.0 + 1e-6, 20.0);
         let flux = |e: &Equilibrium| throat_flux(&e0, e);
         // The sonic throat: F(ρ) = 2(h0 − h) − w² = 0 by the secant method.
@@ -850,8 +858,10 @@ mod tests {
         // The dew point is the saturated vapour of the isentrope's entropy.
         let s = air.entropy(&st).value;
         let dew = air.dew_point(s).unwrap();
-        let sat = air.eq.saturation_p(dew.p).unwrap();
-        assert!((sat.vapour.s / s - 1.0).abs() < 1e-9);
+        assert!((dew.vapour.s / s - 1.0).abs() < 1e-9);
+        // And short of sonic speed there, which is why the throat is pinned.
+        let h0 = air.enthalpy(&st).value;
+        assert!(2.0 * (h0 - dew.vapour.h) < dew.vapour.w2);
     }
 
     #[test]
