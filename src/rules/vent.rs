@@ -268,7 +268,7 @@ pub fn blow_down(
         let reserve = (segments - k - 1) * crate::solve::KRONROD_POINTS;
         let budget = VENT_EVALUATIONS.saturating_sub(spent + reserve);
         let q = split_at_kinks(
-            &|lo, hi, budget| quadrature(lo, hi, budget),
+            &quadrature,
             &|lo, hi| path.regime_change(lo, hi, ambient),
             (pair[1], pair[0]),
             (pair[1], pair[0]),
@@ -496,18 +496,12 @@ impl Path<'_> {
         if low == high {
             return (None, 2);
         }
-        let (mut a, mut b, mut bracket) = (lo.ln(), hi.ln(), (lo, hi));
-        let mut evaluations = 2;
-        while b - a > 1e-5 * (hi / lo).ln() {
-            let mid = 0.5 * (a + b);
-            evaluations += 1;
-            if self.regime(mid.exp(), ambient) == Some(low) {
-                (a, bracket.0) = (mid, mid.exp());
-            } else {
-                (b, bracket.1) = (mid, mid.exp());
-            }
-        }
-        (Some(bracket), evaluations)
+        // Seventeen halvings: 2⁻¹⁷ of the span is within 1e-5 of it.
+        let halvings = LOCATING - 2;
+        let bracket = bisect_ln((lo, hi), halvings, |rho| {
+            self.regime(rho, ambient) == Some(low)
+        });
+        (Some(bracket), LOCATING)
     }
 
     /// The density below which the orifice is no longer choked, found by bisection on
@@ -517,26 +511,36 @@ impl Path<'_> {
             self.state(MassDensity::new::<kilogram_per_cubic_meter>(rho))
                 .is_ok_and(|st| self.model.nozzle(&st, ambient).choked)
         };
-        let (mut lo, mut hi) = (
-            final_density.get::<kilogram_per_cubic_meter>().ln(),
-            self.start.density.get::<kilogram_per_cubic_meter>().ln(),
+        let (lo, hi) = (
+            final_density.get::<kilogram_per_cubic_meter>(),
+            self.start.density.get::<kilogram_per_cubic_meter>(),
         );
-        if choked(lo.exp()) {
+        if choked(lo) {
             return final_density;
         }
-        if !choked(hi.exp()) {
+        if !choked(hi) {
             return self.start.density;
         }
-        for _ in 0..48 {
-            let mid = 0.5 * (lo + hi);
-            if choked(mid.exp()) {
-                hi = mid;
-            } else {
-                lo = mid;
-            }
-        }
-        MassDensity::new::<kilogram_per_cubic_meter>(hi.exp())
+        let (_, first_choked) = bisect_ln((lo, hi), 48, |rho| !choked(rho));
+        MassDensity::new::<kilogram_per_cubic_meter>(first_choked)
     }
+}
+
+/// Bisection on ln ρ between densities `lo` and `hi`, where `below` holds at `lo` and not at
+/// `hi`, halving the span `halvings` times: the last density found where it holds and the
+/// first where it does not (an end that was never moved is returned as given). Each density
+/// tried is the exponential of its midpoint in ln ρ.
+fn bisect_ln((lo, hi): (f64, f64), halvings: usize, below: impl Fn(f64) -> bool) -> (f64, f64) {
+    let (mut a, mut b, mut bracket) = (lo.ln(), hi.ln(), (lo, hi));
+    for _ in 0..halvings {
+        let mid = 0.5 * (a + b);
+        if below(mid.exp()) {
+            (a, bracket.0) = (mid, mid.exp());
+        } else {
+            (b, bracket.1) = (mid, mid.exp());
+        }
+    }
+    bracket
 }
 
 /// How the vent was found, for the basis. The hazards (cold metal, liquid in the vent path,

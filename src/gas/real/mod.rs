@@ -163,16 +163,30 @@ impl RealGas {
                 .at_p_saturated(p, sat, e0.s, |e| e.s, |p| p.cp / p.t)
                 .ok()
         };
-        let flux = |ln_p: f64| state(ln_p).map_or(0.0, |e| throat_flux(e0, &e));
+        // The best state seen, by its ln p and quality: the throat's phase, without solving
+        // for its state again.
+        let best_seen = std::cell::Cell::new((f64::NEG_INFINITY, f64::NAN, None));
+        let flux = |ln_p: f64| {
+            let e = state(ln_p);
+            let g = e.map_or(0.0, |e| throat_flux(e0, &e));
+            if g >= best_seen.get().0 {
+                best_seen.set((g, ln_p, e.and_then(|e| e.quality)));
+            }
+            g
+        };
         let (lo, hi) = (pb.ln(), e0.p.ln());
         let peak = throat_peak(&flux, (lo, hi), self.hem_throat.get(), HEM_TOL);
         self.hem_throat.set(peak.map(|(x, _)| x - hi));
         let (ln_p, best) = peak.unwrap_or((lo, 0.0));
-        let at_back = flux(lo);
+        let back = state(lo);
+        let at_back = back.map_or(0.0, |e| throat_flux(e0, &e));
         let flow = throat_or_back(at_back, best, ln_p - pb.ln() < 1e-6);
-        // The flow's state where it was found, for its phase.
-        let at = if flow.choked { ln_p } else { lo };
-        let quality = state(at).and_then(|e| e.quality);
+        // The phase of the flow's state where it was found.
+        let quality = match best_seen.get() {
+            _ if !flow.choked => back.and_then(|e| e.quality),
+            (_, x, q) if x == ln_p => q,
+            _ => state(ln_p).and_then(|e| e.quality),
+        };
         let throat = match quality {
             Some(x) if x < 1.0 - DEW_POINT_QUALITY => Throat::TwoPhase,
             _ => Throat::DewPoint,
@@ -192,15 +206,11 @@ impl RealGas {
     fn pinned_nozzle(&self, e0: &Equilibrium, pb: f64) -> Option<NozzleFlow> {
         let sat = self.dew_point(e0.s)?;
         let vapour = &sat.vapour;
-        if !(vapour.p < e0.p
-            && vapour.p * (1.0 - PINNED_STEP) > pb
-            && 2.0 * (e0.h - vapour.h) < vapour.w2)
-        {
+        let p_in = vapour.p * (1.0 - PINNED_STEP);
+        if !(vapour.p < e0.p && p_in > pb && 2.0 * (e0.h - vapour.h) < vapour.w2) {
             return None;
         }
-        let dew = Equilibrium::mixture(&sat, 1.0);
-        let best = throat_flux(e0, &dew);
-        let p_in = dew.p * (1.0 - PINNED_STEP);
+        let best = throat_flux(e0, &Equilibrium::mixture(&sat, 1.0));
         let sat = self.eq.saturation_p(p_in)?;
         let inside = self
             .eq
