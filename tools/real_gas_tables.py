@@ -119,12 +119,13 @@ class RealFluid:
     def helmholtz(self, rhomolar, T):
         """The reduced Helmholtz energy's ideal and residual parts and their derivatives at
         (rho, T): (delta, tau, alpha0, alpha0_tau, alpha0_tautau, alphar, alphar_delta,
-        alphar_deltadelta, alphar_tau, alphar_tautau, alphar_deltatau)."""
+        alphar_deltadelta, alphar_tau, alphar_tautau, alphar_deltatau, and the second virial
+        coefficient B at T, m³/mol)."""
         r = self.raw
         r.update(CP.DmolarT_INPUTS, rhomolar, T)
         return (rhomolar / self.rhomolar_red, self.T_red / T, r.alpha0(), r.dalpha0_dTau(),
                 r.d2alpha0_dTau2(), r.alphar(), r.dalphar_dDelta(), r.d2alphar_dDelta2(),
-                r.dalphar_dTau(), r.d2alphar_dTau2(), r.d2alphar_dDelta_dTau())
+                r.dalphar_dTau(), r.d2alphar_dTau2(), r.d2alphar_dDelta_dTau(), r.Bvirial())
 
     def alpha0_offset(self):
         """(a1, a2) of CoolProp's reference-state terms, which add a1 + a2*tau to alpha0 on top
@@ -968,7 +969,7 @@ def table_vent(by_name):
 
 HELMHOLTZ_HEADER = ["gas", "T_K", "rhomolar_mol_m3", "delta", "tau", "alpha0", "dalpha0_dtau",
                     "d2alpha0_dtau2", "alphar", "dalphar_ddelta", "d2alphar_ddelta2", "dalphar_dtau",
-                    "d2alphar_dtau2", "d2alphar_ddelta_dtau"]
+                    "d2alphar_dtau2", "d2alphar_ddelta_dtau", "B_virial_m3_mol"]
 # Near the critical point, given as (delta, tau) about the reducing point: all at tau < 1, so
 # above the reducing temperature (single phase), none exactly at delta = 1, where the
 # derivatives of carbon dioxide's non-analytic terms, as published, are limits of 0/0 forms.
@@ -1222,6 +1223,8 @@ def readme(got, counts, checks, fluids_, gaps):
         "supercritical (1.05·Tc at 0.5, 1.5 times pc and at the top pressure, 1.5·Tc at pc, 2·Tc at",
         "the top pressure); service states (233.15 K at 200 bar; 300 K at 1 kPa to the top",
         "pressure); hot states (500 K at 500 bar, `T_max_K` at 100 bar and at the top pressure).",
+        "`B_virial_m3_mol`: the second virial coefficient at T_K (CoolProp's `Bvirial`), the limit",
+        "of dalphar_ddelta/rho_r as delta goes to 0.",
         "The top pressure is 1000 bar or `p_max_Pa` if lower (oxygen: 800 bar); a pressure that",
         "would be a solid (above CoolProp's melting line) is cut to 90 % of the melting pressure.",
         "Each equation uses its own gas constant: Z = p/(rho·R·T) = 1 + delta·dalphar_ddelta with",

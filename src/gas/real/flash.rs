@@ -165,11 +165,42 @@ impl Equation {
             return None;
         }
         let top = anc.rho_vapour.at(t) * self.fluid.molar_mass;
+        let start = self.virial_start(p, t, top).unwrap_or(guess).min(top);
         // A root found strictly below the top is the gas root; one pressed against the top
         // means the ancillary was not clear after all.
-        self.density_between(p, t, 1e-12 * guess, top, guess.min(top))
+        self.density_between(p, t, 1e-12 * guess, top, start)
             .ok()
             .filter(|rho| *rho < top * (1.0 - 1e-9))
+    }
+
+    /// A start for the gas root at (p, T) below the critical temperature, with the ancillary
+    /// saturated vapour density `vapour`: Z taken as 1 + bρ + cρ², with b the second virial
+    /// coefficient and c such that Z meets the ancillary vapour's at `vapour`. Far closer than
+    /// the ideal gas where Z is well below 1 (carbon dioxide at 50 bar and 300 K: within
+    /// 0.1 %, against 31 %), so Newton needs fewer steps. `None` where the model has no root
+    /// below `vapour`.
+    fn virial_start(&self, p: f64, t: f64, vapour: f64) -> Option<f64> {
+        let rt = self.r_specific() * t;
+        let tau = self.fluid.t_reducing / t;
+        let b = self.second_virial_reduced(tau) / (self.fluid.rho_reducing * self.fluid.molar_mass);
+        let z_vapour = self.fluid.ancillary.p_sat.at(t) / (vapour * rt);
+        let c = (z_vapour - 1.0 - b * vapour) / (vapour * vapour);
+        // ρ·Z(ρ) rises from 0 to ρ_v·Z_v > p/RT; Newton from the ideal gas on the cubic.
+        let target = p / rt;
+        let mut rho = target;
+        for _ in 0..20 {
+            let f = rho * (1.0 + rho * (b + rho * c)) - target;
+            let df = 1.0 + rho * (2.0 * b + 3.0 * rho * c);
+            if df.is_nan() || df <= 0.0 {
+                return None;
+            }
+            let step = f / df;
+            rho -= step;
+            if step.abs() <= 1e-6 * rho {
+                return (rho > 0.0 && rho < vapour).then_some(rho);
+            }
+        }
+        None
     }
 
     /// How far outside the ancillary curves' saturated densities, as a fraction, a density
@@ -515,4 +546,66 @@ fn newton_from(
         }
     }
     None
+}
+
+#[cfg(test)]
+mod tests {
+    use super::super::equation;
+
+    #[test]
+    fn the_virial_start_lands_close_to_a_dense_gas_root() {
+        // Carbon dioxide at 50 bar and 300 K: Z ≈ 0.69, so the ideal gas starts 31 % low.
+        let e = equation("carbon-dioxide").unwrap();
+        let (p, t) = (50e5, 300.0);
+        let root = e.at_pt(p, t).unwrap().rho;
+        let vapour = e.fluid.ancillary.rho_vapour.at(t) * e.fluid.molar_mass;
+        let start = e.virial_start(p, t, vapour).unwrap();
+        let ideal = p / (e.r_specific() * t);
+        assert!(
+            (start / root - 1.0).abs() < 2e-3,
+            "start {start}, root {root}"
+        );
+        assert!(ideal / root < 0.7);
+        // Every gas, at half its vapour pressure, is started within 1 %.
+        for e in super::super::equations() {
+            let t = 0.5 * (e.fluid.t_triple + e.fluid.t_critical);
+            let p = 0.5 * e.fluid.ancillary.p_sat.at(t);
+            let vapour = e.fluid.ancillary.rho_vapour.at(t) * e.fluid.molar_mass;
+            let root = e.at_pt(p, t).unwrap().rho;
+            let start = e.virial_start(p, t, vapour).unwrap();
+            assert!(
+                (start / root - 1.0).abs() < 1e-2,
+                "{}: start {start}, root {root}",
+                e.fluid.gas
+            );
+        }
+    }
+
+    #[test]
+    fn the_virial_start_changes_the_steps_not_the_root() {
+        // Across each gas's clearly-gas region below its critical temperature, the root found
+        // from the virial start is the one found from the ideal gas.
+        for e in super::super::equations() {
+            let (lo, hi) = (e.fluid.t_triple, e.t_sat_max);
+            for i in 0..=40 {
+                let t = lo + (hi - lo) * f64::from(i) / 40.0;
+                let p_sat = e.fluid.ancillary.p_sat.at(t);
+                for j in 1..=20 {
+                    let p = p_sat * 0.89 * (f64::from(j) / 20.0).powi(3);
+                    let Some(rho) = e.clearly_gas(p, t, p / (e.r_specific() * t)) else {
+                        continue;
+                    };
+                    let ideal = p / (e.r_specific() * t);
+                    let top = e.fluid.ancillary.rho_vapour.at(t) * e.fluid.molar_mass;
+                    let from_ideal = e.density_between(p, t, 1e-12 * ideal, top, ideal);
+                    let from_ideal = from_ideal.unwrap();
+                    assert!(
+                        (rho / from_ideal - 1.0).abs() < 1e-11,
+                        "{} at {p} Pa, {t} K: {rho} vs {from_ideal}",
+                        e.fluid.gas
+                    );
+                }
+            }
+        }
+    }
 }

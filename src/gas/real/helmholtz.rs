@@ -31,6 +31,17 @@ pub struct Derivatives {
     pub dt: f64,
 }
 
+/// A reduced Helmholtz energy and its δ-derivatives at one temperature.
+#[derive(Debug, Clone, Copy, Default, PartialEq)]
+pub struct Isothermal {
+    /// The value.
+    pub a: f64,
+    /// ∂/∂δ.
+    pub d: f64,
+    /// ∂²/∂δ².
+    pub dd: f64,
+}
+
 /// One gas's equation of state, as the file gives it (molar basis, SI).
 #[derive(Debug, Deserialize)]
 #[serde(deny_unknown_fields)]
@@ -284,6 +295,55 @@ impl Equation {
 
     /// The residual part αʳ(δ, τ) and its derivatives.
     pub fn residual(&self, delta: f64, tau: f64) -> Derivatives {
+        self.residual_in::<true>(delta, tau)
+    }
+
+    /// αʳ and its δ-derivatives alone, along one isotherm: all the density and the
+    /// phase-equilibrium solvers need, at about two thirds of the cost of [`Equation::residual`]
+    /// (carbon dioxide's non-analytic terms, about half).
+    pub fn residual_isothermal(&self, delta: f64, tau: f64) -> Isothermal {
+        let r = self.residual_in::<false>(delta, tau);
+        Isothermal {
+            a: r.a,
+            d: r.d,
+            dd: r.dd,
+        }
+    }
+
+    /// The limit of ∂αʳ/∂δ as δ → 0 at `tau`: the second virial coefficient B(T) times the
+    /// reducing density, from the terms linear in δ alone.
+    pub fn second_virial_reduced(&self, tau: f64) -> f64 {
+        let lt = tau.ln();
+        let power: f64 = self
+            .power
+            .iter()
+            .filter(|p| p.d == 1.0)
+            .map(|p| p.n * (p.t * lt).exp())
+            .sum();
+        let gaussian: f64 = self
+            .gaussian
+            .iter()
+            .filter(|g| g[1] == 1.0)
+            .map(|&[n, _, t, eta, eps, beta, gamma]| {
+                n * (t * lt - eta * eps * eps - beta * (tau - gamma).powi(2)).exp()
+            })
+            .sum();
+        // At δ = 0, (δ − 1)² = 1: θ = 1 − τ + A, Δ = θ² + B, and the term's slope is n·Δ^b·ψ.
+        let non_analytic: f64 = self
+            .non_analytic
+            .iter()
+            .map(|&[n, _, b, _, big_a, big_b, big_c, big_d]| {
+                let theta = 1.0 - tau + big_a;
+                n * (theta * theta + big_b).powf(b) * (-big_c - big_d * (tau - 1.0).powi(2)).exp()
+            })
+            .sum();
+        power + gaussian + non_analytic
+    }
+
+    /// αʳ with its δ-derivatives, and its τ-derivatives where `TAU` (left zero otherwise: the
+    /// compiler drops their arithmetic).
+    #[inline(always)]
+    fn residual_in<const TAU: bool>(&self, delta: f64, tau: f64) -> Derivatives {
         let (ld, lt) = (delta.ln(), tau.ln());
         let (id, it) = (1.0 / delta, 1.0 / tau);
         let mut o = Derivatives::default();
@@ -301,61 +361,88 @@ impl Equation {
             o.a += v;
             sd += v * big_d;
             sdd += v * (big_d * (big_d - 1.0) - p.l2 * dl);
-            st += v * p.t;
-            stt += v * p.t_t1;
-            sdt += v * big_d * p.t;
+            if TAU {
+                st += v * p.t;
+                stt += v * p.t_t1;
+                sdt += v * big_d * p.t;
+            }
         }
         o.d = sd * id;
         o.dd = sdd * id * id;
-        o.t = st * it;
-        o.tt = stt * it * it;
-        o.dt = sdt * id * it;
+        if TAU {
+            o.t = st * it;
+            o.tt = stt * it * it;
+            o.dt = sdt * id * it;
+        }
         for &[n, d, t, eta, eps, beta, gamma] in &self.gaussian {
             let (x, y) = (delta - eps, tau - gamma);
             let v = n * (d * ld + t * lt - eta * x * x - beta * y * y).exp();
             let fd = d * id - 2.0 * eta * x;
-            let ft = t * it - 2.0 * beta * y;
             o.a += v;
             o.d += v * fd;
             o.dd += v * (fd * fd - d * id * id - 2.0 * eta);
-            o.t += v * ft;
-            o.tt += v * (ft * ft - t * it * it - 2.0 * beta);
-            o.dt += v * fd * ft;
+            if TAU {
+                let ft = t * it - 2.0 * beta * y;
+                o.t += v * ft;
+                o.tt += v * (ft * ft - t * it * it - 2.0 * beta);
+                o.dt += v * fd * ft;
+            }
         }
         if !self.non_analytic.is_empty() {
-            let x = Dual::var(non_analytic_delta(delta), 0);
-            let y = Dual::var(tau, 1);
-            let dm1 = x - 1.0;
-            let sq = dm1 * dm1;
-            let tm1 = y - 1.0;
-            // The terms of an equation share their powers of (δ − 1)²: each is taken once,
-            // through one logarithm (powers are the costly part of these terms).
-            let ln_sq = sq.v.ln();
-            let mut powers = [(f64::NAN, sq); 2 * MAX_NON_ANALYTIC];
-            let mut sq_pow = |k: f64| -> Dual {
-                let slot = powers
-                    .iter()
-                    .position(|(e, _)| *e == k || e.is_nan())
-                    .expect("two powers a term");
-                if powers[slot].0.is_nan() {
-                    powers[slot] = (k, sq.pow_of(k, (k * ln_sq).exp()));
+            self.add_non_analytic::<TAU>(delta, tau, &mut o);
+        }
+        o
+    }
+
+    /// Adds the non-analytic terms to `o`, through dual numbers.
+    #[inline(always)]
+    fn add_non_analytic<const TAU: bool>(&self, delta: f64, tau: f64, o: &mut Derivatives) {
+        let x = Dual::<TAU>::var(non_analytic_delta(delta), 0);
+        let y = Dual::<TAU>::var(tau, 1);
+        let dm1 = x - 1.0;
+        let sq = dm1 * dm1;
+        let tm1 = y - 1.0;
+        // The terms of an equation share their powers of (δ − 1)²: each is taken once,
+        // through one logarithm (powers are the costly part of these terms).
+        let ln_sq = sq.v.ln();
+        let mut powers = [(f64::NAN, sq); 2 * MAX_NON_ANALYTIC];
+        let mut sq_pow = |k: f64| -> Dual<TAU> {
+            let slot = powers
+                .iter()
+                .position(|(e, _)| *e == k || e.is_nan())
+                .expect("two powers a term");
+            if powers[slot].0.is_nan() {
+                powers[slot] = (k, sq.pow_of(k, (k * ln_sq).exp()));
+            }
+            powers[slot].1
+        };
+        // A term whose Δ (or ψ) has the same constants as the term before reuses it:
+        // carbon dioxide's first two terms share both.
+        let mut last: Option<(&[f64; 8], Dual<TAU>, f64, Dual<TAU>)> = None;
+        for row @ &[n, a, b, beta, big_a, big_b, big_c, big_d] in &self.non_analytic {
+            let (cap_delta, ln_cap_delta) = match last {
+                Some((l, c, lc, _)) if l[1] == a && l[3..6] == row[3..6] => (c, lc),
+                _ => {
+                    let theta = (1.0 - y) + sq_pow(0.5 / beta) * big_a;
+                    let c = theta * theta + sq_pow(a) * big_b;
+                    (c, c.v.ln())
                 }
-                powers[slot].1
             };
-            for &[n, a, b, beta, big_a, big_b, big_c, big_d] in &self.non_analytic {
-                let theta = (1.0 - y) + sq_pow(0.5 / beta) * big_a;
-                let cap_delta = theta * theta + sq_pow(a) * big_b;
-                let psi = (sq * (-big_c) + tm1 * tm1 * (-big_d)).exp();
-                let term = cap_delta.pow_of(b, (b * cap_delta.v.ln()).exp()) * x * psi * n;
-                o.a += term.v;
-                o.d += term.d;
-                o.dd += term.dd;
+            let psi = match last {
+                Some((l, .., psi)) if l[6..8] == row[6..8] => psi,
+                _ => (sq * (-big_c) + tm1 * tm1 * (-big_d)).exp(),
+            };
+            let term = cap_delta.pow_of(b, (b * ln_cap_delta).exp()) * x * psi * n;
+            o.a += term.v;
+            o.d += term.d;
+            o.dd += term.dd;
+            if TAU {
                 o.t += term.t;
                 o.tt += term.tt;
                 o.dt += term.dt;
             }
+            last = Some((row, cap_delta, ln_cap_delta, psi));
         }
-        o
     }
 }
 
@@ -408,9 +495,10 @@ fn non_analytic_delta(delta: f64) -> f64 {
 }
 
 /// A second-order dual number in two variables (δ, τ): a value with its first and second
-/// partial derivatives, carried exactly through arithmetic.
+/// partial derivatives, carried exactly through arithmetic. Without `TAU` it carries δ alone
+/// (its τ-parts stay zero and cost nothing).
 #[derive(Debug, Clone, Copy)]
-struct Dual {
+struct Dual<const TAU: bool> {
     v: f64,
     d: f64,
     t: f64,
@@ -419,13 +507,23 @@ struct Dual {
     tt: f64,
 }
 
-impl Dual {
+/// `f` where the τ-parts are carried, zero where they are not.
+#[inline(always)]
+fn tau_part<const TAU: bool>(f: impl FnOnce() -> f64) -> f64 {
+    if TAU {
+        f()
+    } else {
+        0.0
+    }
+}
+
+impl<const TAU: bool> Dual<TAU> {
     /// δ (`which` = 0) or τ (`which` = 1) at `v`.
-    fn var(v: f64, which: usize) -> Dual {
+    fn var(v: f64, which: usize) -> Self {
         Dual {
             v,
             d: f64::from(u8::from(which == 0)),
-            t: f64::from(u8::from(which == 1)),
+            t: tau_part::<TAU>(|| f64::from(u8::from(which == 1))),
             dd: 0.0,
             dt: 0.0,
             tt: 0.0,
@@ -433,74 +531,74 @@ impl Dual {
     }
 
     /// f(self) given f, f′ and f″ at the value.
-    fn chain(self, f: f64, f1: f64, f2: f64) -> Dual {
+    fn chain(self, f: f64, f1: f64, f2: f64) -> Self {
         Dual {
             v: f,
             d: f1 * self.d,
-            t: f1 * self.t,
+            t: tau_part::<TAU>(|| f1 * self.t),
             dd: f2 * self.d * self.d + f1 * self.dd,
-            dt: f2 * self.d * self.t + f1 * self.dt,
-            tt: f2 * self.t * self.t + f1 * self.tt,
+            dt: tau_part::<TAU>(|| f2 * self.d * self.t + f1 * self.dt),
+            tt: tau_part::<TAU>(|| f2 * self.t * self.t + f1 * self.tt),
         }
     }
 
-    fn exp(self) -> Dual {
+    fn exp(self) -> Self {
         let e = self.v.exp();
         self.chain(e, e, e)
     }
 
     /// `self` to the power `k`, given that power's value `f` (a positive base).
-    fn pow_of(self, k: f64, f: f64) -> Dual {
+    fn pow_of(self, k: f64, f: f64) -> Self {
         let f1 = k * f / self.v;
         self.chain(f, f1, (k - 1.0) * f1 / self.v)
     }
 }
 
-impl std::ops::Add for Dual {
-    type Output = Dual;
-    fn add(self, o: Dual) -> Dual {
+impl<const TAU: bool> std::ops::Add for Dual<TAU> {
+    type Output = Self;
+    fn add(self, o: Self) -> Self {
         Dual {
             v: self.v + o.v,
             d: self.d + o.d,
-            t: self.t + o.t,
+            t: tau_part::<TAU>(|| self.t + o.t),
             dd: self.dd + o.dd,
-            dt: self.dt + o.dt,
-            tt: self.tt + o.tt,
+            dt: tau_part::<TAU>(|| self.dt + o.dt),
+            tt: tau_part::<TAU>(|| self.tt + o.tt),
         }
     }
 }
 
-impl std::ops::Mul for Dual {
-    type Output = Dual;
-    fn mul(self, o: Dual) -> Dual {
+impl<const TAU: bool> std::ops::Mul for Dual<TAU> {
+    type Output = Self;
+    fn mul(self, o: Self) -> Self {
         Dual {
             v: self.v * o.v,
             d: self.d * o.v + self.v * o.d,
-            t: self.t * o.v + self.v * o.t,
+            t: tau_part::<TAU>(|| self.t * o.v + self.v * o.t),
             dd: self.dd * o.v + 2.0 * self.d * o.d + self.v * o.dd,
-            dt: self.dt * o.v + self.d * o.t + self.t * o.d + self.v * o.dt,
-            tt: self.tt * o.v + 2.0 * self.t * o.t + self.v * o.tt,
+            dt: tau_part::<TAU>(|| self.dt * o.v + self.d * o.t + self.t * o.d + self.v * o.dt),
+            tt: tau_part::<TAU>(|| self.tt * o.v + 2.0 * self.t * o.t + self.v * o.tt),
         }
     }
 }
 
-impl std::ops::Mul<f64> for Dual {
-    type Output = Dual;
-    fn mul(self, k: f64) -> Dual {
+impl<const TAU: bool> std::ops::Mul<f64> for Dual<TAU> {
+    type Output = Self;
+    fn mul(self, k: f64) -> Self {
         Dual {
             v: self.v * k,
             d: self.d * k,
-            t: self.t * k,
+            t: tau_part::<TAU>(|| self.t * k),
             dd: self.dd * k,
-            dt: self.dt * k,
-            tt: self.tt * k,
+            dt: tau_part::<TAU>(|| self.dt * k),
+            tt: tau_part::<TAU>(|| self.tt * k),
         }
     }
 }
 
-impl std::ops::Sub<f64> for Dual {
-    type Output = Dual;
-    fn sub(self, k: f64) -> Dual {
+impl<const TAU: bool> std::ops::Sub<f64> for Dual<TAU> {
+    type Output = Self;
+    fn sub(self, k: f64) -> Self {
         Dual {
             v: self.v - k,
             ..self
@@ -508,9 +606,9 @@ impl std::ops::Sub<f64> for Dual {
     }
 }
 
-impl std::ops::Sub<Dual> for f64 {
-    type Output = Dual;
-    fn sub(self, x: Dual) -> Dual {
+impl<const TAU: bool> std::ops::Sub<Dual<TAU>> for f64 {
+    type Output = Dual<TAU>;
+    fn sub(self, x: Dual<TAU>) -> Dual<TAU> {
         Dual {
             v: self - x.v,
             ..x * -1.0

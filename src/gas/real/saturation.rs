@@ -102,7 +102,7 @@ impl Equation {
             )
         });
         let jk = |delta: f64| {
-            let r = self.residual(delta, tau);
+            let r = self.residual_isothermal(delta, tau);
             let j = delta * (1.0 + delta * r.d);
             let k = delta * r.d + r.a + delta.ln();
             let jd = 1.0 + 2.0 * delta * r.d + delta * delta * r.dd;
