@@ -214,9 +214,22 @@ impl Finding {
     pub fn headline(&self, display: &Display) -> String {
         let mut head = self.hazard.title().to_string();
         if let Some(value) = &self.value {
-            head.push_str(&format!(": {}", display.short(value)));
+            let shown = display.short(value);
+            head.push_str(&format!(": {shown}"));
             if let Some(limit) = &self.limit {
-                head.push_str(&format!(", limit {}", display.short(limit)));
+                let limit_shown = display.short(limit);
+                // Rounded alike ("130 °F, limit 130 °F"), the two would read as equal: say
+                // which side of the limit the value lies.
+                let side = match (value.si(), limit.si()) {
+                    (Some((v, _)), Some((l, _))) if shown == limit_shown && v > l => {
+                        "just above the limit of "
+                    }
+                    (Some((v, _)), Some((l, _))) if shown == limit_shown && v < l => {
+                        "just below the limit of "
+                    }
+                    _ => "limit ",
+                };
+                head.push_str(&format!(", {side}{limit_shown}"));
             }
         }
         format!("{head} [{}]", self.basis)
@@ -384,6 +397,27 @@ mod tests {
         for h in Hazard::ALL {
             assert_eq!(serde_json::to_value(h).unwrap(), h.id());
         }
+    }
+
+    #[test]
+    fn a_value_rounded_like_its_limit_says_which_side_it_lies() {
+        use uom::si::f64::ThermodynamicTemperature;
+        use uom::si::thermodynamic_temperature::kelvin;
+        let temperature = |k: f64| Value::Temperature(ThermodynamicTemperature::new::<kelvin>(k));
+        let finding = |value: f64| Finding {
+            value: Some(temperature(value)),
+            limit: Some(temperature(327.594)),
+            ..f(Hazard::FillTemperature, Status::Stop)
+        };
+        let d = si_display();
+        // 54.444 °C rated; 0.0016 K over shows as the same 54 °C.
+        assert!(finding(327.5956)
+            .headline(&d)
+            .contains(": 54 °C, just above the limit of 54 °C"));
+        assert!(finding(327.59)
+            .headline(&d)
+            .contains(": 54 °C, just below the limit of 54 °C"));
+        assert!(finding(330.0).headline(&d).contains(": 57 °C, limit 54 °C"));
     }
 
     #[test]

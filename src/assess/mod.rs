@@ -92,8 +92,8 @@ fn edge_and_central(
 }
 
 /// Where a temperature and its limit differ by less than a kelvin, the findings' whole
-/// degrees would read alike ("85 °C, above the rated 85 °C"): the margin in words, empty
-/// otherwise.
+/// degrees would read alike ("85 °C, above the rated 85 °C"): the margin in words (under
+/// 0.05 K, "less than 0.1 K"), empty otherwise.
 fn margin(
     value: uom::si::f64::ThermodynamicTemperature,
     limit: uom::si::f64::ThermodynamicTemperature,
@@ -103,8 +103,11 @@ fn margin(
     if d == 0.0 || d >= 1.0 {
         return Vec::new();
     }
-    vec![crate::caution::Part::from(format!(
-        ", by {d:.1} K ({:.1} °F)",
-        d * 1.8
-    ))]
+    // Under 0.05 K the one decimal would read "by 0.0 K": say how small it is instead.
+    let text = if d < 0.05 {
+        ", by less than 0.1 K (0.2 °F)".to_owned()
+    } else {
+        format!(", by {d:.1} K ({:.1} °F)", d * 1.8)
+    };
+    vec![crate::caution::Part::from(text)]
 }

@@ -355,3 +355,20 @@ fn a_close_call_states_its_margin_so_whole_degrees_do_not_contradict() {
     assert!(super::margin(k(360.0), k(358.15)).is_empty());
     assert!(super::margin(k(358.15), k(358.15)).is_empty());
 }
+
+#[test]
+fn a_margin_under_a_kelvin_is_spelt_out_and_never_reads_as_zero() {
+    use crate::caution::Part;
+    let text = |value: f64, limit: f64| -> Vec<Part> { margin(k(value), k(limit)) };
+    assert_eq!(
+        text(358.45, 358.15),
+        vec![Part::from(", by 0.3 K (0.5 °F)".to_owned())]
+    );
+    // The Kestrel demo's AR-50 exceeds its rating by 0.0016 K at the planned rate.
+    assert_eq!(
+        text(358.1516, 358.15),
+        vec![Part::from(", by less than 0.1 K (0.2 °F)")]
+    );
+    assert!(text(360.0, 358.15).is_empty());
+    assert!(text(358.15, 358.15).is_empty());
+}
