@@ -1,5 +1,8 @@
 //! Physical invariants of the rules, over wide ranges of inputs (proptest).
 
+#[path = "common/cases.rs"]
+mod cases;
+
 use proptest::prelude::*;
 use pvhazard::gas::{Gas, GasModel, IdealGas, GASES};
 use pvhazard::heat::{Construction, Liner};
@@ -62,6 +65,7 @@ fn process() -> impl Strategy<Value = Process> {
 }
 
 proptest! {
+    #![proptest_config(cases::cases(256))]
     #[test]
     fn isentropic_is_the_smallest_energy(
         gas in permanent_gas(),
@@ -250,6 +254,7 @@ fn findings() -> impl Strategy<Value = Vec<pvhazard::assess::Finding>> {
 }
 
 proptest! {
+    #![proptest_config(cases::cases(256))]
     /// The verdict is no-go exactly when some finding stops the work, go exactly when every
     /// finding is ok; one finding per hazard, and one banner per finding not ok.
     #[test]
@@ -270,7 +275,7 @@ proptest! {
 }
 
 proptest! {
-    #![proptest_config(ProptestConfig::with_cases(24))]
+    #![proptest_config(cases::cases(24))]
 
     /// Over the accepted ranges (volume 1 mL to 100 m³, ramp 0.01 to 10 000 bar/min, wall
     /// 1 g to 10 t), a fill with wall heat on the real gas never crawls on: it finishes
@@ -332,7 +337,7 @@ proptest! {
 const STEP_BUDGET: usize = transient::MAX_STEPS;
 
 proptest! {
-    #![proptest_config(ProptestConfig::with_cases(12))]
+    #![proptest_config(cases::cases(12))]
 
     /// Over the accepted ranges (volume 1 L to 100 m³, 2 to 300 bar(a), orifice 0.5 to
     /// 50 mm, wall 1 g to 10 t), a vent with wall heat on the real gas, with its two

@@ -2,6 +2,9 @@
 //! stability and the Maxwell relations of each reference equation, its phase equilibrium,
 //! the ideal-gas limit of the rules, and the two-phase end of a high-pressure expansion.
 
+#[path = "common/cases.rs"]
+mod cases;
+
 use proptest::prelude::*;
 use pvhazard::gas::real::{equation, equations, Equation, Props};
 use pvhazard::gas::{Gas, GasModel, IdealGas, RealGas, GASES};
@@ -76,7 +79,7 @@ const STEP: f64 = 1e-4;
 const FD_TOL: f64 = 1e-7;
 
 proptest! {
-    #![proptest_config(ProptestConfig::with_cases(64))]
+    #![proptest_config(cases::cases(64))]
 
     #[test]
     fn gas_states_are_stable(name in any_equation(), ft in 0.0f64..1.0, fp in 0.0f64..1.0) {
@@ -300,7 +303,7 @@ fn departures(gas: &'static Gas, result: impl Fn(&dyn GasModel, f64) -> f64) -> 
 }
 
 proptest! {
-    #![proptest_config(ProptestConfig::with_cases(32))]
+    #![proptest_config(cases::cases(32))]
 
     #[test]
     fn stored_energies_tend_to_the_ideal_gas(gas in any_gas(), ratio in 1.05f64..1.2) {
@@ -357,7 +360,7 @@ proptest! {
 
 proptest! {
     // Each case integrates six vents; few cases keep the file quick.
-    #![proptest_config(ProptestConfig::with_cases(12))]
+    #![proptest_config(cases::cases(12))]
 
     #[test]
     fn vent_time_tends_to_the_ideal_gas(
@@ -395,7 +398,7 @@ fn expanded(model: &dyn GasModel, p: f64, t: f64) -> pvhazard::gas::State {
 }
 
 proptest! {
-    #![proptest_config(ProptestConfig::with_cases(64))]
+    #![proptest_config(cases::cases(64))]
 
     #[test]
     fn cylinder_gas_expanded_to_one_atmosphere_is_partly_liquid(

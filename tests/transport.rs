@@ -8,6 +8,9 @@ mod common;
 use std::collections::HashMap;
 
 use common::{num, rows};
+#[path = "common/cases.rs"]
+mod cases;
+
 use proptest::prelude::*;
 use pvhazard::gas::{Gas, GASES};
 use uom::si::f64::{MassDensity, ThermodynamicTemperature};
@@ -341,6 +344,7 @@ fn catalogue_critical_densities_are_the_equations() {
 }
 
 proptest! {
+    #![proptest_config(cases::cases(256))]
     #[test]
     fn finite_and_positive_everywhere(
         gas in 0..GASES.len(),

@@ -1,7 +1,7 @@
 //! The real-gas model: each gas's reference multiparameter Helmholtz-energy equation of
-//! state, evaluated by the project itself ([`helmholtz`]), with the two-phase region handled
-//! by the Maxwell criterion ([`saturation`]) and states from any pair of variables
-//! ([`flash`]).
+//! state, evaluated by the project itself ([`Equation`]: its `helmholtz` module), with the
+//! two-phase region handled by the Maxwell criterion (`saturation`) and states from any pair
+//! of variables (`flash`).
 
 mod flash;
 mod helmholtz;
