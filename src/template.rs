@@ -128,26 +128,27 @@ struct RawTemplate {
     signoff: Vec<String>,
 }
 
-/// The template named `name_or_path`: a file if one exists there (or the argument looks like
-/// a path), else a built-in template by name.
+/// The template named `name_or_path`: a built-in template where the argument is one's bare
+/// name (whatever the working folder holds: an output folder is often named like its
+/// template), else the file there. A file named like a built-in is reached as `./NAME`.
 pub fn resolve(name_or_path: &str) -> Result<Template, FileError> {
     let path = Path::new(name_or_path);
-    if path.exists() || name_or_path.ends_with(".toml") || name_or_path.contains('/') {
+    let bare_name = !name_or_path.contains(['/', std::path::MAIN_SEPARATOR]);
+    if let Some(src) = built_in_source(name_or_path).filter(|_| bare_name) {
+        return parse(&src);
+    }
+    if path.exists() || name_or_path.ends_with(".toml") || !bare_name {
         return parse(&Source::read(path)?);
     }
-    built_in_source(name_or_path)
-        .map(|src| parse(&src))
-        .unwrap_or_else(|| {
-            Err(FileError {
-                file: path.to_path_buf(),
-                line: 0,
-                key: "--template".to_string(),
-                problem: format!(
-                    "no template file there and no built-in template of that name; accepted: a template file's path, or one of {}",
-                    BUILT_IN.map(|(n, _)| n).join(", ")
-                ),
-            })
-        })
+    Err(FileError {
+        file: path.to_path_buf(),
+        line: 0,
+        key: "--template".to_string(),
+        problem: format!(
+            "no template file there and no built-in template of that name; accepted: a template file's path, or one of {}",
+            BUILT_IN.map(|(n, _)| n).join(", ")
+        ),
+    })
 }
 
 /// The built-in template `name` (never a file, whatever is in the working folder).

@@ -818,6 +818,42 @@ fn an_edited_copy_of_a_template_prints_its_new_title_and_checklist_item() {
     assert_ne!(edited["fingerprint"], original["fingerprint"]);
 }
 
+#[test]
+fn a_built_in_templates_name_is_the_built_in_whatever_the_working_folder_holds() {
+    // An output folder is often named like its template; a file of a built-in's name is
+    // reached as ./NAME.
+    let scratch = Scratch::new("template-name-in-cwd");
+    std::fs::create_dir_all(scratch.path("fill-check")).unwrap();
+    let text = edit(
+        &read_text(&repo("templates/pre-maintenance.toml")),
+        "title = \"Pre-maintenance hazard worksheet\"",
+        "title = \"Local pre-maintenance sheet\"",
+    );
+    scratch.write("pre-maintenance", &text);
+    let run = |site: &str, tag: &str, template: &str, out: &str| {
+        worksheet(
+            &sample(site),
+            &scratch.path(out),
+            &["--tag", tag, "--template", template],
+        )
+        .current_dir(&scratch.0)
+        .assert()
+        .code(0);
+    };
+    run(KESTREL, "AR-50", "fill-check", "a");
+    assert!(names(&scratch.path("a"))
+        .iter()
+        .any(|n| n.contains("_fill-check_")));
+    run(LARKSPUR, "AR-102", "pre-maintenance", "b");
+    let built_in = names(&scratch.path("b"));
+    let pdf = built_in.iter().find(|n| n.ends_with(".pdf")).unwrap();
+    assert!(pdf_text(&scratch.path("b").join(pdf)).contains("Pre-maintenance hazard worksheet"));
+    run(LARKSPUR, "AR-102", "./pre-maintenance", "c");
+    let local = names(&scratch.path("c"));
+    let pdf = local.iter().find(|n| n.ends_with(".pdf")).unwrap();
+    assert!(pdf_text(&scratch.path("c").join(pdf)).contains("Local pre-maintenance sheet"));
+}
+
 // ---- 7. Bad site and template files -------------------------------------------------------
 
 /// Runs `worksheet --all` on a copy of the Larkspur site edited by `from` -> `to`, saved as
