@@ -5,7 +5,7 @@ use std::io::IsTerminal;
 use clap::Args;
 
 use super::{Failure, EXIT_DANGER, EXIT_OK};
-use crate::assess::{Decision, Status, Verdict};
+use crate::assess::{Status, Verdict};
 use crate::caution::{Caution, Level};
 use crate::gas::ModelKind;
 use crate::record;
@@ -319,7 +319,7 @@ fn batch_of_worksheets(
             .map_err(record_failure)?;
         Ok(Outcome::Staged(Staged {
             tag: item.tag().to_string(),
-            decision: made.decision,
+            decision: made.verdict.decision,
             highest: made.highest,
             stem,
         }))
@@ -384,8 +384,8 @@ fn record_failure(e: record::RecordError) -> Failure {
 /// One worksheet made and rendered, not yet written: what its summary line says, its file
 /// stem and its two files.
 pub struct Made {
-    /// The decision.
-    pub decision: Decision,
+    /// The decision and the findings behind it.
+    pub verdict: Verdict,
     /// The highest caution level raised.
     pub highest: Level,
     /// The records' file stem ([`record::stem`]).
@@ -419,7 +419,7 @@ pub fn made(
         &meta.date.format("%Y-%m-%d").to_string(),
     );
     Ok(Made {
-        decision: sheet.verdict.decision,
+        verdict: sheet.verdict,
         highest: sheet.highest,
         stem,
         pdf,

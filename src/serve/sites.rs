@@ -359,17 +359,23 @@ pub(super) async fn make_worksheet(
     if let Ok(mut set) = s.written.lock() {
         set.extend(names.iter().cloned());
     }
+    let d = Display {
+        system: site.units,
+        ambient: site.ambient,
+    };
     pages::respond(
         StatusCode::OK,
         page(
             &format!("Worksheet for {tag}"),
             html! {
-                p { "Decision: " strong id="decision" { (made.decision.word()) } "; highest caution: " (made.highest.word()) "." }
+                (crate::report::html::verdict(&made.verdict, &d))
+                p { "Highest caution on the worksheet: " (made.highest.word()) "." }
                 p { "Written to the records folder, never over an existing record:" }
                 ul {
                     li { a href={ "/records/" (names[0]) } download { (names[0]) } " (the worksheet to print and sign)" }
                     li { a href={ "/records/" (names[1]) } download { (names[1]) } " (its JSON record)" }
                 }
+                (banners([&deferral()].into_iter(), &d))
                 p { a href={ "/site/" (i) } { "Back to " (site.name) } }
             },
         ),
