@@ -168,8 +168,10 @@ fn a_crew_member_fills_the_forms_and_makes_a_worksheet_in_a_browser() {
         "R. Okafor",
     );
     b.click(&b.xpath(&format!("{form}//button")));
-    // The page made leads with the worksheet's own decision and its findings.
-    assert!(!b.text(&b.wait_for("#decision")).is_empty());
+    // The page made (the one with the records' download links) leads with the worksheet's
+    // own decision and its findings.
+    b.wait_for("a[download]");
+    assert!(!b.text(&b.find("#decision")).is_empty());
     assert!(!b.text(&b.find("ul.findings li")).is_empty());
     shot("worksheet", 1000);
     b.click(&b.xpath("//a[contains(@href, '.pdf')]"));

@@ -253,6 +253,16 @@ fn the_forms_and_pages_answer_and_a_refusal_is_shown_beside_its_field() {
             !text.contains("<script"),
             "{path}: the pages need no script"
         );
+        // An id names one element: the site page's items have no id of their own.
+        let mut ids: Vec<&str> = text
+            .split(" id=\"")
+            .skip(1)
+            .filter_map(|rest| rest.split('"').next())
+            .collect();
+        let all = ids.len();
+        ids.sort_unstable();
+        ids.dedup();
+        assert_eq!(ids.len(), all, "{path}: an id used twice");
     }
     let form =
         "gas=air&volume=50&volume.unit=L&from=1&from.unit=bar&from.basis=g&to=200&to.unit=bar";

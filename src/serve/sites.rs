@@ -124,7 +124,7 @@ fn site_body(
         @for r in ranked {
             section id={ "item-" (record::slug(&r.tag)) } {
                 h2 { (r.tag) " — " (r.verdict.decision.word()) }
-                (crate::report::html::verdict(&r.verdict, &d))
+                (crate::report::html::item_verdict(&r.verdict, &d))
                 (banners(r.cautions.iter().filter(|c| **c != last), &d))
                 (worksheet_form(s, i, site, r, refused.filter(|f| f.tag == r.tag)))
             }

@@ -90,6 +90,16 @@ pub fn result(sheet: &Worksheet, plots: &[Plot], system: UnitSystem) -> Markup {
 
 /// The decision band and the findings table.
 pub fn verdict(v: &Verdict, d: &Display) -> Markup {
+    verdict_with_id(v, d, Some("decision"))
+}
+
+/// [`verdict`] for one item among several on a page: its decision word carries no id, as
+/// an id names one element of the page.
+pub fn item_verdict(v: &Verdict, d: &Display) -> Markup {
+    verdict_with_id(v, d, None)
+}
+
+fn verdict_with_id(v: &Verdict, d: &Display, id: Option<&str>) -> Markup {
     let (class, meaning) = match v.decision {
         Decision::NoGo => ("no-go", "do not go ahead as planned (see STOP below)"),
         Decision::GoWithActions => (
@@ -101,7 +111,7 @@ pub fn verdict(v: &Verdict, d: &Display) -> Markup {
     html! {
         section.verdict aria-label="Decision" {
             p class={ "decision " (class) } {
-                span.word id="decision" { (v.decision.word()) }
+                span.word id=[id] { (v.decision.word()) }
                 " "
                 span.meaning { (meaning) }
             }
