@@ -202,12 +202,10 @@ impl Display {
     /// An energy in MJ (kJ or J when small) or ft·lbf.
     pub fn energy(&self, e: Energy) -> String {
         let j = e.get::<joule>();
-        let si = match j.abs() {
-            x if x >= 1e5 => format!("{} MJ", fmt_sig(j / 1e6, 4)),
-            x if x >= 1e3 => format!("{} kJ", fmt_sig(j / 1e3, 4)),
-            _ => format!("{} J", fmt_sig(j, 4)),
-        };
-        self.pair(si, format!("{} ft·lbf", fmt_sig(j / J_PER_FT_LBF, 4)))
+        self.pair(
+            si_energy(j),
+            format!("{} ft·lbf", fmt_sig(j / J_PER_FT_LBF, 4)),
+        )
     }
 
     /// An energy per mass in MJ/kg.
@@ -327,7 +325,7 @@ impl Display {
                 if us {
                     format!("{} ft·lbf", fmt_sig(j / J_PER_FT_LBF, 4))
                 } else {
-                    format!("{} MJ", fmt_sig(j / 1e6, 4))
+                    si_energy(j)
                 }
             }
             Value::Mass(m) => {
@@ -401,6 +399,15 @@ impl Display {
     }
 }
 
+/// An energy in J with the prefix its size reads best in: MJ from 0.1 MJ, kJ from 1 kJ.
+fn si_energy(j: f64) -> String {
+    match j.abs() {
+        x if x >= 1e5 => format!("{} MJ", fmt_sig(j / 1e6, 4)),
+        x if x >= 1e3 => format!("{} kJ", fmt_sig(j / 1e3, 4)),
+        _ => format!("{} J", fmt_sig(j, 4)),
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -412,6 +419,20 @@ mod tests {
         assert_eq!(fmt_sig(0.0123456, 3), "0.0123");
         assert_eq!(fmt_sig(1234.6, 3), "1235");
         assert_eq!(fmt_sig(0.0, 3), "0");
+    }
+
+    #[test]
+    fn an_energy_in_a_sentence_takes_the_prefix_its_size_reads_best_in() {
+        let d = Display {
+            system: UnitSystem::Si,
+            ambient: Pressure::new::<pascal>(101_325.0),
+        };
+        let short = |j: f64| d.short(&Value::Energy(Energy::new::<joule>(j)));
+        assert_eq!(short(4.615e6), "4.615 MJ");
+        assert_eq!(short(1e5), "0.1000 MJ");
+        // An energy limit of 1 kJ read "0.001000 MJ".
+        assert_eq!(short(1e3), "1.000 kJ");
+        assert_eq!(short(0.0), "0 J");
     }
 
     #[test]
