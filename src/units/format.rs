@@ -202,10 +202,7 @@ impl Display {
     /// An energy in MJ (kJ or J when small) or ft·lbf.
     pub fn energy(&self, e: Energy) -> String {
         let j = e.get::<joule>();
-        self.pair(
-            si_energy(j),
-            format!("{} ft·lbf", fmt_sig(j / J_PER_FT_LBF, 4)),
-        )
+        self.pair(si_energy(j), ft_lbf(j))
     }
 
     /// An energy per mass in MJ/kg.
@@ -323,7 +320,7 @@ impl Display {
             Value::Energy(e) => {
                 let j = e.get::<joule>();
                 if us {
-                    format!("{} ft·lbf", fmt_sig(j / J_PER_FT_LBF, 4))
+                    ft_lbf(j)
                 } else {
                     si_energy(j)
                 }
@@ -399,6 +396,25 @@ impl Display {
     }
 }
 
+/// An energy in ft·lbf. Stored energies run to millions of ft·lbf, so the whole number is
+/// grouped by thousands from 10,000 (`6,581,814 ft·lbf`) to be read at a glance.
+fn ft_lbf(j: f64) -> String {
+    let text = fmt_sig(j / J_PER_FT_LBF, 4);
+    let digits = text.trim_start_matches('-');
+    if digits.len() < 5 || !digits.bytes().all(|b| b.is_ascii_digit()) {
+        return format!("{text} ft·lbf");
+    }
+    let mut grouped = String::new();
+    for (i, c) in digits.chars().enumerate() {
+        if i > 0 && (digits.len() - i).is_multiple_of(3) {
+            grouped.push(',');
+        }
+        grouped.push(c);
+    }
+    let sign = if text.starts_with('-') { "-" } else { "" };
+    format!("{sign}{grouped} ft·lbf")
+}
+
 /// An energy in J with the prefix its size reads best in: MJ from 0.1 MJ, kJ from 1 kJ.
 fn si_energy(j: f64) -> String {
     match j.abs() {
@@ -433,6 +449,17 @@ mod tests {
         // An energy limit of 1 kJ read "0.001000 MJ".
         assert_eq!(short(1e3), "1.000 kJ");
         assert_eq!(short(0.0), "0 J");
+        let us = Display {
+            system: UnitSystem::Us,
+            ..d
+        };
+        let ft_lbf = |x: f64| us.short(&Value::Energy(Energy::new::<joule>(x * J_PER_FT_LBF)));
+        assert_eq!(ft_lbf(6_581_814.0), "6,581,814 ft·lbf");
+        assert_eq!(ft_lbf(223_782.0), "223,782 ft·lbf");
+        assert_eq!(ft_lbf(12_345.0), "12,345 ft·lbf");
+        assert_eq!(ft_lbf(9_999.0), "9999 ft·lbf");
+        assert_eq!(ft_lbf(737.6), "737.6 ft·lbf");
+        assert_eq!(ft_lbf(-6_581_814.0), "-6,581,814 ft·lbf");
     }
 
     #[test]
