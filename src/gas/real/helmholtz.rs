@@ -42,6 +42,109 @@ pub struct Isothermal {
     pub dd: f64,
 }
 
+/// An equation of state along one isotherm ([`Equation::isotherm`]).
+#[derive(Debug, Clone)]
+pub struct Isotherm<'a> {
+    eq: &'a Equation,
+    /// The temperature, K.
+    pub t: f64,
+    tau: f64,
+    /// n·τ^t of each power term.
+    power: Vec<f64>,
+    /// n·τ^t·exp(−β(τ − γ)²) of each Gaussian term.
+    gaussian: Vec<f64>,
+}
+
+impl Isotherm<'_> {
+    /// The limit of ∂αʳ/∂δ as δ → 0: the second virial coefficient B(T) times the reducing
+    /// density, from the terms linear in δ alone.
+    pub fn second_virial_reduced(&self) -> f64 {
+        let (eq, tau) = (self.eq, self.tau);
+        let power: f64 = eq
+            .power
+            .iter()
+            .zip(&self.power)
+            .filter(|(p, _)| p.di == 1)
+            .map(|(_, c)| c)
+            .sum();
+        let gaussian: f64 = eq
+            .gaussian
+            .iter()
+            .zip(&self.gaussian)
+            .filter(|(g, _)| g[1] == 1.0)
+            .map(|(&[_, _, _, eta, eps, ..], g)| g * (-eta * eps * eps).exp())
+            .sum();
+        // At δ = 0, (δ − 1)² = 1: θ = 1 − τ + A, Δ = θ² + B, and the term's slope is n·Δ^b·ψ.
+        let non_analytic: f64 = eq
+            .non_analytic
+            .iter()
+            .map(|&[n, _, b, _, big_a, big_b, big_c, big_d]| {
+                let theta = 1.0 - tau + big_a;
+                n * (theta * theta + big_b).powf(b) * (-big_c - big_d * (tau - 1.0).powi(2)).exp()
+            })
+            .sum();
+        power + gaussian + non_analytic
+    }
+
+    /// Pressure and (∂p/∂ρ)_T at density `rho`: all a density solver needs.
+    pub fn pressure(&self, rho: f64) -> (f64, f64) {
+        let eq = self.eq;
+        let delta = rho / (eq.fluid.molar_mass * eq.fluid.rho_reducing);
+        let r = self.residual(delta);
+        let rt = eq.r_specific() * self.t;
+        (
+            rho * rt * (1.0 + delta * r.d),
+            rt * (1.0 + delta * (2.0 * r.d + delta * r.dd)),
+        )
+    }
+
+    /// αʳ and its δ-derivatives at `delta` (the τ-derivatives are not needed along an
+    /// isotherm, and carbon dioxide's dual numbers carry δ alone).
+    pub fn residual(&self, delta: f64) -> Isothermal {
+        let eq = self.eq;
+        let id = 1.0 / delta;
+        let mut delta_k = [1.0; MAX_D + 1];
+        for k in 1..=MAX_D {
+            delta_k[k] = delta_k[k - 1] * delta;
+        }
+        let mut exp_l = [1.0; MAX_L + 1];
+        for l in 1..=MAX_L {
+            if eq.uses_l[l] {
+                exp_l[l] = (-delta_k[l]).exp();
+            }
+        }
+        let mut o = Derivatives::default();
+        let (mut sd, mut sdd) = (0.0, 0.0);
+        for (p, c) in eq.power.iter().zip(&self.power) {
+            let dl = if p.l == 0 { 0.0 } else { delta_k[p.l] };
+            let v = c * delta_k[p.di] * exp_l[p.l];
+            let big_d = p.d - p.lf * dl;
+            o.a += v;
+            sd += v * big_d;
+            sdd += v * (big_d * (big_d - 1.0) - p.l2 * dl);
+        }
+        o.d = sd * id;
+        o.dd = sdd * id * id;
+        let ld = delta.ln();
+        for (&[_, d, _, eta, eps, ..], g) in eq.gaussian.iter().zip(&self.gaussian) {
+            let x = delta - eps;
+            let v = g * (d * ld - eta * x * x).exp();
+            let fd = d * id - 2.0 * eta * x;
+            o.a += v;
+            o.d += v * fd;
+            o.dd += v * (fd * fd - d * id * id - 2.0 * eta);
+        }
+        if !eq.non_analytic.is_empty() {
+            eq.add_non_analytic::<false>(delta, self.tau, &mut o);
+        }
+        Isothermal {
+            a: o.a,
+            d: o.d,
+            dd: o.dd,
+        }
+    }
+}
+
 /// One gas's equation of state, as the file gives it (molar basis, SI).
 #[derive(Debug, Deserialize)]
 #[serde(deny_unknown_fields)]
@@ -156,11 +259,19 @@ impl Ancillary {
     pub fn at(&self, t: f64) -> f64 {
         let t = t.clamp(self.t_min, self.t_max.min(self.t_r));
         let theta = 1.0 - t / self.t_r;
+        // θ^e through one logarithm (cheaper than a `powf` a term); θ = 0 at the top.
+        let ln_theta = theta.ln();
         let sum: f64 = self
             .n
             .iter()
             .zip(&self.t)
-            .map(|(n, e)| n * theta.powf(*e))
+            .map(|(n, e)| {
+                n * if theta > 0.0 {
+                    (e * ln_theta).exp()
+                } else {
+                    theta.powf(*e)
+                }
+            })
             .sum();
         match self.kind {
             AncillaryKind::Exponential => {
@@ -178,6 +289,8 @@ pub struct Equation {
     /// The constants and ancillaries from the file.
     pub fluid: Fluid,
     power: Vec<PowerTerm>,
+    /// Which l the power terms use: the exp(−δ^l) an isotherm evaluates.
+    uses_l: [bool; MAX_L + 1],
     gaussian: Vec<[f64; 7]>,
     non_analytic: Vec<[f64; 8]>,
     ideal_power: Vec<[f64; 2]>,
@@ -233,13 +346,19 @@ impl Equation {
             "{} has more than {MAX_NON_ANALYTIC} non-analytic terms",
             fluid.gas
         );
+        let power: Vec<PowerTerm> = r
+            .power
+            .rows(["n", "d", "t", "l"])
+            .into_iter()
+            .map(PowerTerm::new)
+            .collect();
+        let mut uses_l = [false; MAX_L + 1];
+        for p in &power {
+            uses_l[p.l] = true;
+        }
         Equation {
-            power: r
-                .power
-                .rows(["n", "d", "t", "l"])
-                .into_iter()
-                .map(PowerTerm::new)
-                .collect(),
+            power,
+            uses_l,
             gaussian: r
                 .gaussian
                 .rows(["n", "d", "t", "eta", "epsilon", "beta", "gamma"]),
@@ -293,57 +412,30 @@ impl Equation {
         out
     }
 
-    /// The residual part αʳ(δ, τ) and its derivatives.
-    pub fn residual(&self, delta: f64, tau: f64) -> Derivatives {
-        self.residual_in::<true>(delta, tau)
-    }
-
-    /// αʳ and its δ-derivatives alone, along one isotherm: all the density and the
-    /// phase-equilibrium solvers need, at about two thirds of the cost of [`Equation::residual`]
-    /// (carbon dioxide's non-analytic terms, about half).
-    pub fn residual_isothermal(&self, delta: f64, tau: f64) -> Isothermal {
-        let r = self.residual_in::<false>(delta, tau);
-        Isothermal {
-            a: r.a,
-            d: r.d,
-            dd: r.dd,
+    /// The equation along the isotherm at `t` (K), for many densities in turn (the phase
+    /// equilibrium and density solvers): each term's τ-factor is taken once here, so a
+    /// density then costs an `exp` for each distinct l of the power terms, not one for each
+    /// term.
+    pub fn isotherm(&self, t: f64) -> Isotherm<'_> {
+        let tau = self.fluid.t_reducing / t;
+        let lt = tau.ln();
+        Isotherm {
+            eq: self,
+            t,
+            tau,
+            power: self.power.iter().map(|p| p.n * (p.t * lt).exp()).collect(),
+            gaussian: self
+                .gaussian
+                .iter()
+                .map(|&[n, _, t, _, _, beta, gamma]| {
+                    n * (t * lt - beta * (tau - gamma) * (tau - gamma)).exp()
+                })
+                .collect(),
         }
     }
 
-    /// The limit of ∂αʳ/∂δ as δ → 0 at `tau`: the second virial coefficient B(T) times the
-    /// reducing density, from the terms linear in δ alone.
-    pub fn second_virial_reduced(&self, tau: f64) -> f64 {
-        let lt = tau.ln();
-        let power: f64 = self
-            .power
-            .iter()
-            .filter(|p| p.d == 1.0)
-            .map(|p| p.n * (p.t * lt).exp())
-            .sum();
-        let gaussian: f64 = self
-            .gaussian
-            .iter()
-            .filter(|g| g[1] == 1.0)
-            .map(|&[n, _, t, eta, eps, beta, gamma]| {
-                n * (t * lt - eta * eps * eps - beta * (tau - gamma).powi(2)).exp()
-            })
-            .sum();
-        // At δ = 0, (δ − 1)² = 1: θ = 1 − τ + A, Δ = θ² + B, and the term's slope is n·Δ^b·ψ.
-        let non_analytic: f64 = self
-            .non_analytic
-            .iter()
-            .map(|&[n, _, b, _, big_a, big_b, big_c, big_d]| {
-                let theta = 1.0 - tau + big_a;
-                n * (theta * theta + big_b).powf(b) * (-big_c - big_d * (tau - 1.0).powi(2)).exp()
-            })
-            .sum();
-        power + gaussian + non_analytic
-    }
-
-    /// αʳ with its δ-derivatives, and its τ-derivatives where `TAU` (left zero otherwise: the
-    /// compiler drops their arithmetic).
-    #[inline(always)]
-    fn residual_in<const TAU: bool>(&self, delta: f64, tau: f64) -> Derivatives {
+    /// The residual part αʳ(δ, τ) and its derivatives.
+    pub fn residual(&self, delta: f64, tau: f64) -> Derivatives {
         let (ld, lt) = (delta.ln(), tau.ln());
         let (id, it) = (1.0 / delta, 1.0 / tau);
         let mut o = Derivatives::default();
@@ -361,19 +453,15 @@ impl Equation {
             o.a += v;
             sd += v * big_d;
             sdd += v * (big_d * (big_d - 1.0) - p.l2 * dl);
-            if TAU {
-                st += v * p.t;
-                stt += v * p.t_t1;
-                sdt += v * big_d * p.t;
-            }
+            st += v * p.t;
+            stt += v * p.t_t1;
+            sdt += v * big_d * p.t;
         }
         o.d = sd * id;
         o.dd = sdd * id * id;
-        if TAU {
-            o.t = st * it;
-            o.tt = stt * it * it;
-            o.dt = sdt * id * it;
-        }
+        o.t = st * it;
+        o.tt = stt * it * it;
+        o.dt = sdt * id * it;
         for &[n, d, t, eta, eps, beta, gamma] in &self.gaussian {
             let (x, y) = (delta - eps, tau - gamma);
             let v = n * (d * ld + t * lt - eta * x * x - beta * y * y).exp();
@@ -381,15 +469,13 @@ impl Equation {
             o.a += v;
             o.d += v * fd;
             o.dd += v * (fd * fd - d * id * id - 2.0 * eta);
-            if TAU {
-                let ft = t * it - 2.0 * beta * y;
-                o.t += v * ft;
-                o.tt += v * (ft * ft - t * it * it - 2.0 * beta);
-                o.dt += v * fd * ft;
-            }
+            let ft = t * it - 2.0 * beta * y;
+            o.t += v * ft;
+            o.tt += v * (ft * ft - t * it * it - 2.0 * beta);
+            o.dt += v * fd * ft;
         }
         if !self.non_analytic.is_empty() {
-            self.add_non_analytic::<TAU>(delta, tau, &mut o);
+            self.add_non_analytic::<true>(delta, tau, &mut o);
         }
         o
     }
@@ -402,8 +488,9 @@ impl Equation {
         let dm1 = x - 1.0;
         let sq = dm1 * dm1;
         let tm1 = y - 1.0;
-        // The terms of an equation share their powers of (δ − 1)²: each is taken once,
-        // through one logarithm (powers are the costly part of these terms).
+        // The terms of an equation share their powers of (δ − 1)²: each is taken once, a
+        // whole or half-whole power by multiplication ((δ − 1)^(2k) = sq^⌊k⌋·|δ − 1|), any
+        // other through one logarithm (powers are the costly part of these terms).
         let ln_sq = sq.v.ln();
         let mut powers = [(f64::NAN, sq); 2 * MAX_NON_ANALYTIC];
         let mut sq_pow = |k: f64| -> Dual<TAU> {
@@ -412,27 +499,35 @@ impl Equation {
                 .position(|(e, _)| *e == k || e.is_nan())
                 .expect("two powers a term");
             if powers[slot].0.is_nan() {
-                powers[slot] = (k, sq.pow_of(k, (k * ln_sq).exp()));
+                let value = if (2.0 * k).fract() == 0.0 && k >= 0.0 {
+                    let whole = sq.v.powi(k.floor() as i32);
+                    if k.fract() == 0.0 {
+                        whole
+                    } else {
+                        whole * dm1.v.abs()
+                    }
+                } else {
+                    (k * ln_sq).exp()
+                };
+                powers[slot] = (k, sq.pow_of(k, value));
             }
             powers[slot].1
         };
-        // A term whose Δ (or ψ) has the same constants as the term before reuses it:
-        // carbon dioxide's first two terms share both.
-        let mut last: Option<(&[f64; 8], Dual<TAU>, f64, Dual<TAU>)> = None;
+        // A term whose Δ has the same constants as the term before reuses it (and its
+        // logarithm): carbon dioxide's first two terms share it.
+        let mut last: Option<(&[f64; 8], Dual<TAU>, f64)> = None;
         for row @ &[n, a, b, beta, big_a, big_b, big_c, big_d] in &self.non_analytic {
             let (cap_delta, ln_cap_delta) = match last {
-                Some((l, c, lc, _)) if l[1] == a && l[3..6] == row[3..6] => (c, lc),
+                Some((l, c, lc)) if l[1] == a && l[3..6] == row[3..6] => (c, lc),
                 _ => {
                     let theta = (1.0 - y) + sq_pow(0.5 / beta) * big_a;
                     let c = theta * theta + sq_pow(a) * big_b;
                     (c, c.v.ln())
                 }
             };
-            let psi = match last {
-                Some((l, .., psi)) if l[6..8] == row[6..8] => psi,
-                _ => (sq * (-big_c) + tm1 * tm1 * (-big_d)).exp(),
-            };
-            let term = cap_delta.pow_of(b, (b * ln_cap_delta).exp()) * x * psi * n;
+            // Δ^b·ψ as one exponential: exp(b·ln Δ − C·(δ − 1)² − D·(τ − 1)²).
+            let exponent = cap_delta.ln_of(ln_cap_delta) * b + sq * (-big_c) + tm1 * tm1 * (-big_d);
+            let term = exponent.exp() * x * n;
             o.a += term.v;
             o.d += term.d;
             o.dd += term.dd;
@@ -441,13 +536,16 @@ impl Equation {
                 o.tt += term.tt;
                 o.dt += term.dt;
             }
-            last = Some((row, cap_delta, ln_cap_delta, psi));
+            last = Some((row, cap_delta, ln_cap_delta));
         }
     }
 }
 
 /// The largest exponent l of the power terms' exp(−δ^l) the file may use.
 const MAX_L: usize = 8;
+
+/// The largest exponent d of the power terms' δ^d the file may use.
+const MAX_D: usize = 12;
 
 /// The most non-analytic terms an equation may have.
 const MAX_NON_ANALYTIC: usize = 3;
@@ -457,6 +555,8 @@ const MAX_NON_ANALYTIC: usize = 3;
 struct PowerTerm {
     n: f64,
     d: f64,
+    /// d as an index into powers of δ.
+    di: usize,
     t: f64,
     /// t·(t − 1).
     t_t1: f64,
@@ -472,9 +572,14 @@ impl PowerTerm {
             l >= 0.0 && l <= MAX_L as f64 && l.fract() == 0.0,
             "exponent l = {l} of a power term is not a whole number up to {MAX_L}"
         );
+        assert!(
+            d >= 0.0 && d <= MAX_D as f64 && d.fract() == 0.0,
+            "exponent d = {d} of a power term is not a whole number up to {MAX_D}"
+        );
         PowerTerm {
             n,
             d,
+            di: d as usize,
             t,
             t_t1: t * (t - 1.0),
             l: l as usize,
@@ -545,6 +650,12 @@ impl<const TAU: bool> Dual<TAU> {
     fn exp(self) -> Self {
         let e = self.v.exp();
         self.chain(e, e, e)
+    }
+
+    /// ln(`self`), given that logarithm's value `f` (a positive argument).
+    fn ln_of(self, f: f64) -> Self {
+        let f1 = 1.0 / self.v;
+        self.chain(f, f1, -f1 * f1)
     }
 
     /// `self` to the power `k`, given that power's value `f` (a positive base).

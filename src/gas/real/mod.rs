@@ -11,7 +11,7 @@ mod saturation;
 mod sublimation;
 
 pub use flash::{Equilibrium, FlashError};
-pub use helmholtz::{equation, equations, Derivatives, Equation};
+pub use helmholtz::{equation, equations, Derivatives, Equation, Isotherm, Isothermal};
 pub use props::Props;
 pub use saturation::Saturation;
 pub use sublimation::Sublimation;

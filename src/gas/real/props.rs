@@ -60,13 +60,7 @@ impl Equation {
 
     /// Pressure and (∂p/∂ρ)_T at (ρ, T): all a density solver needs.
     pub fn pressure(&self, rho: f64, t: f64) -> (f64, f64) {
-        let (delta, tau) = self.reduced(rho, t);
-        let r = self.residual_isothermal(delta, tau);
-        let rt = self.r_specific() * t;
-        (
-            rho * rt * (1.0 + delta * r.d),
-            rt * (1.0 + delta * (2.0 * r.d + delta * r.dd)),
-        )
+        self.isotherm(t).pressure(rho)
     }
 
     /// Every property at (ρ, T).

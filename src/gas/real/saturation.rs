@@ -94,15 +94,15 @@ impl Equation {
         if !(t >= f.t_triple && t < f.t_critical) {
             return None;
         }
-        let tau = f.t_reducing / t;
         let (mut dl, mut dv) = start.unwrap_or_else(|| {
             (
                 f.ancillary.rho_liquid.at(t) / f.rho_reducing,
                 f.ancillary.rho_vapour.at(t) / f.rho_reducing,
             )
         });
+        let isotherm = self.isotherm(t);
         let jk = |delta: f64| {
-            let r = self.residual_isothermal(delta, tau);
+            let r = isotherm.residual(delta);
             let j = delta * (1.0 + delta * r.d);
             let k = delta * r.d + r.a + delta.ln();
             let jd = 1.0 + 2.0 * delta * r.d + delta * delta * r.dd;
