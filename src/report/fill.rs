@@ -321,7 +321,7 @@ impl FillReport {
                 Value::Mass(c.mass_added_kg),
             ),
             compared(
-                "Settled pressure",
+                "Settled pressure (adiabatic)",
                 self.settled_pressure_pa.get::<pascal>(),
                 c.settled_pressure_pa.get::<pascal>(),
                 Value::Pressure(c.settled_pressure_pa),
@@ -329,7 +329,7 @@ impl FillReport {
         ];
         if let (Some(r), Some(i)) = (self.fill_to_pressure_pa, c.fill_to_pressure_pa) {
             out.push(compared(
-                "Fill to",
+                "Fill to (adiabatic)",
                 r.get::<pascal>(),
                 i.get::<pascal>(),
                 Value::Pressure(i),
@@ -359,16 +359,16 @@ impl FillReport {
                 "density × volume",
             ),
             result(
-                "Settled pressure at ambient",
+                "Settled pressure at ambient (adiabatic)",
                 Value::Pressure(self.settled_pressure_pa),
-                "constant mass, cooled to ambient",
+                "the adiabatic fill's gas, cooled to ambient at constant mass",
             ),
         ];
         results.extend(self.fill_to_pressure_pa.map(|p| {
             result(
-                "Fill to (settles at target)",
+                "Fill to, settles at target (adiabatic)",
                 Value::Pressure(p),
-                "stop pressure whose mass settles at the target",
+                "stop pressure of an adiabatic fill whose mass settles at the target",
             )
         }));
         results
