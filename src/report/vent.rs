@@ -320,17 +320,23 @@ impl VentReport {
     /// The vent-down's results, with methods.
     pub fn result_entries(&self) -> Vec<Entry> {
         let method = "V·dρ/dt = −Cd·A·G(ρ), isentropic nozzle, integrated";
+        // The process path's results carry its name: beside the wall model's, an isentropic
+        // time and temperature are the bound, not what the gas does.
+        let process = format!("{:?}", self.inputs.process).to_lowercase();
         let mut results = Vec::new();
-        results.extend(
-            self.time_s
-                .map(|t| result("Time to target", Value::Time(t), method)),
-        );
+        results.extend(self.time_s.map(|t| {
+            result(
+                format!("Time to target ({process})"),
+                Value::Time(t),
+                method,
+            )
+        }));
         results.extend(
             self.choked_time_s
                 .map(|t| result("of which choked", Value::Time(t), method)),
         );
         results.push(result(
-            "Final gas temperature",
+            format!("Final gas temperature ({process})"),
             Value::Temperature(self.final_temperature_k),
             "end of the process path at the target",
         ));
