@@ -185,11 +185,11 @@ impl Equation {
     }
 
     /// A start for the gas root at (p, T) below the critical temperature, with the ancillary
-    /// vapour pressure `p_sat` and saturated vapour density `vapour`: Z taken as 1 + bρ + cρ², with b the second virial
-    /// coefficient and c such that Z meets the ancillary vapour's at `vapour`. Far closer than
-    /// the ideal gas where Z is well below 1 (carbon dioxide at 50 bar and 300 K: within
-    /// 0.1 %, against 31 %), so Newton needs fewer steps. `None` where the model has no root
-    /// below `vapour`.
+    /// vapour pressure `p_sat` and saturated vapour density `vapour`: Z taken as
+    /// 1 + bρ + cρ², with b the second virial coefficient and c such that Z meets the
+    /// ancillary vapour's at `vapour`. Far closer than the ideal gas where Z is well below 1
+    /// (carbon dioxide at 50 bar and 300 K: within 0.2 %, against 31 %), so Newton needs
+    /// fewer steps. `None` where the model has no root below `vapour`.
     fn virial_start(&self, isotherm: &Isotherm, p: f64, p_sat: f64, vapour: f64) -> Option<f64> {
         let rt = self.r_specific() * isotherm.t;
         let b =
