@@ -167,9 +167,12 @@ impl Equation {
     /// general path.
     fn clearly_gas(&self, isotherm: &Isotherm, p: f64, guess: f64) -> Option<f64> {
         let t = isotherm.t;
+        if t >= self.t_sat_max {
+            return None;
+        }
         let anc = &self.fluid.ancillary;
         let p_sat = anc.p_sat.at(t);
-        if t >= self.t_sat_max || p >= 0.9 * p_sat {
+        if p >= 0.9 * p_sat {
             return None;
         }
         let top = anc.rho_vapour.at(t) * self.fluid.molar_mass;

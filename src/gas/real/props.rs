@@ -58,11 +58,6 @@ impl Equation {
         )
     }
 
-    /// Pressure and (∂p/∂ρ)_T at (ρ, T): all a density solver needs.
-    pub fn pressure(&self, rho: f64, t: f64) -> (f64, f64) {
-        self.isotherm(t).pressure(rho)
-    }
-
     /// Every property at (ρ, T).
     pub fn props(&self, rho: f64, t: f64) -> Props {
         let (delta, tau) = self.reduced(rho, t);
